@@ -209,6 +209,7 @@ export interface SuspectRow {
 // Messages
 
 export type HostToPanel =
+  /** Starts a new fit: the panel drops maps, votes and suspects drawn for the previous forest, so send it first. */
   | { type: 'summary'; summary: FitSummary }
   | { type: 'regionMap'; map: RegionMap }
   /** Small maps for pairs among the most important features (points optional, usually omitted). */
