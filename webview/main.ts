@@ -1,0 +1,204 @@
+// Panel entry point: lays out the sections, routes host messages to them and keeps a compact copy
+// of what it shows in the webview state so a reload (or a restored window) comes back as it was.
+import '@vscode-elements/elements/dist/vscode-single-select/index.js';
+import '@vscode-elements/elements/dist/vscode-option/index.js';
+import '@vscode-elements/elements/dist/vscode-textfield/index.js';
+import '@vscode-elements/elements/dist/vscode-checkbox/index.js';
+import '@vscode-elements/elements/dist/vscode-button/index.js';
+import {
+  isHostToPanel,
+  LIMITS,
+  PROTOCOL_VERSION,
+  type FitSummary,
+  type HostToPanel,
+  type PanelState,
+  type RegionMap,
+  type SuspectRow,
+} from '../src/protocol/messages';
+import { append, clear, h, section } from './dom';
+import { loadState, post, saveState } from './host';
+import { MapMatrixView } from './map/matrix';
+import { RegionMapView } from './map/view';
+import { CurveView } from './sections/curve';
+import { ImportanceView } from './sections/importance';
+import { SummaryView } from './sections/summary';
+import { SuspectsView } from './sections/suspects';
+import { VotesView } from './sections/votes';
+import { onThemeChange, readTheme, type Theme } from './theme';
+
+export const CAUTION =
+  'A quick forest is an exploratory model: validate it before any decision that affects people, and follow local rules and qualified review where health, money or safety are at stake.';
+
+let summary: FitSummary | null = null;
+let map: RegionMap | null = null;
+let matrix: RegionMap[] = [];
+let suspects: SuspectRow[] = [];
+let theme: Theme = readTheme();
+
+const mapView = new RegionMapView({
+  choose: (x, y, reference) => {
+    post({ type: 'chooseMap', x, y, reference });
+    persist();
+  },
+  reveal: (row) => post({ type: 'revealRow', row }),
+});
+const matrixView = new MapMatrixView((x, y) => post({ type: 'openMap', x, y }));
+const summaryView = new SummaryView((leaveOut, trees) => post({ type: 'refit', leaveOut, trees }));
+const curveView = new CurveView();
+const importanceView = new ImportanceView();
+const votesView = new VotesView((row) => post({ type: 'revealRow', row }));
+const suspectsView = new SuspectsView((row) => post({ type: 'revealRow', row }));
+
+const title = h('h1', {}, 'Copse');
+const statusText = h('span', { class: 'status-text' });
+const progress = h('progress', { class: 'hidden', attrs: { max: '1' } });
+const status = h('div', { class: 'status', testid: 'status', attrs: { role: 'status' } }, statusText, progress);
+const warnings = h('ul', { class: 'warnings', testid: 'warnings' });
+const warningsTitle = h('h2', {}, 'Worth checking');
+const curveSection = section('curve-section', 'Out-of-bag error as trees are added', curveView.root);
+const importanceSection = section('importance-section', 'What the forest leans on', importanceView.root);
+
+function build(): void {
+  const summarySection = h('section', { class: 'card', testid: 'summary' }, h('h2', {}, 'Fit at a glance'), summaryView.root);
+  append(
+    document.body,
+    h(
+      'main',
+      { class: 'panel' },
+      h('header', { class: 'top' }, title, status),
+      h('p', { class: 'caution', testid: 'caution', attrs: { role: 'note' } }, CAUTION),
+      h(
+        'div',
+        { class: 'columns' },
+        h(
+          'div',
+          { class: 'col' },
+          section('map-section', 'Decision regions', mapView.root),
+          section('matrix-section', 'Leading feature pairs', h('p', { class: 'muted' }, 'Click a pair to open it as the large map.'), matrixView.root),
+        ),
+        h(
+          'div',
+          { class: 'col' },
+          summarySection,
+          h('section', { class: 'card', testid: 'warnings-section' }, warningsTitle, warnings),
+          curveSection,
+          importanceSection,
+        ),
+      ),
+      section('votes-section', 'Tree votes on the selected rows', votesView.root),
+      section('suspects-section', 'Rows the forest doubts', h('p', { class: 'muted' }, 'Lowest out-of-bag margin first. Click a row to go to it.'), suspectsView.root),
+    ),
+  );
+}
+
+function applyTheme(): void {
+  theme = readTheme();
+  document.body.classList.toggle('copse-hc', theme.highContrast);
+  mapView.setTheme(theme);
+  matrixView.setTheme(theme);
+  summaryView.setTheme(theme);
+  votesView.setTheme(theme);
+  suspectsView.setTheme(theme);
+  drawCharts();
+}
+
+function drawCharts(): void {
+  const show = summary !== null && summary.curve.length > 0;
+  curveSection.classList.toggle('hidden', !show);
+  importanceSection.classList.toggle('hidden', summary === null || summary.importance.length === 0);
+  if (!summary) return;
+  if (show) curveView.draw(summary, theme);
+  if (summary.importance.length > 0) importanceView.draw(summary, theme);
+}
+
+function showSummary(s: FitSummary): void {
+  summary = s;
+  clear(title);
+  append(title, 'Copse ', h('span', { class: 'muted' }, s.dataset.label), ' → ', s.target);
+  document.title = `Copse: ${s.target}`;
+  summaryView.set(s);
+  mapView.setSummary(s);
+  matrixView.setSummary(s);
+  votesView.setSummary(s);
+  suspectsView.setSummary(s);
+  clear(warnings);
+  warningsTitle.textContent = s.warnings.length > 0 ? `Worth checking (${s.warnings.length})` : 'Worth checking';
+  if (s.warnings.length === 0) append(warnings, h('li', { class: 'muted none' }, 'Nothing flagged for this fit.'));
+  for (const w of s.warnings) append(warnings, h('li', {}, w));
+  drawCharts();
+}
+
+function persist(): void {
+  const state: PanelState = { version: PROTOCOL_VERSION, summary, map, matrix, suspects, choice: mapView.choice() };
+  saveState(state);
+}
+
+function handle(msg: HostToPanel): void {
+  switch (msg.type) {
+    case 'summary':
+      // A summary starts a new fit: anything drawn for the previous forest would now mislead.
+      map = null;
+      matrix = [];
+      suspects = [];
+      showSummary(msg.summary);
+      matrixView.setMaps([]);
+      suspectsView.setRows([]);
+      votesView.setRows([]);
+      break;
+    case 'regionMap':
+      map = msg.map;
+      mapView.setMap(msg.map);
+      break;
+    case 'mapMatrix':
+      matrix = msg.maps.slice(0, LIMITS.smallMaps).map((m) => ({ ...m, points: null }));
+      matrixView.setMaps(matrix);
+      break;
+    case 'disagreement':
+      votesView.setRows(msg.rows.slice(0, LIMITS.selectedRows));
+      return; // selection-dependent: not worth restoring
+    case 'suspects':
+      suspects = msg.rows.slice(0, LIMITS.suspects);
+      suspectsView.setRows(suspects);
+      break;
+    case 'highlight':
+      mapView.setHighlight(msg.rows);
+      suspectsView.setHighlight(msg.rows);
+      return;
+    case 'status':
+      statusText.textContent = msg.text;
+      status.classList.toggle('error', msg.state === 'error');
+      status.classList.toggle('working', msg.state === 'working');
+      progress.classList.toggle('hidden', msg.state !== 'working');
+      if (msg.progress === null) progress.removeAttribute('value');
+      else progress.value = msg.progress;
+      return;
+  }
+  persist();
+}
+
+build();
+applyTheme();
+onThemeChange(applyTheme);
+
+const restored = loadState();
+if (restored) {
+  if (restored.summary) showSummary(restored.summary);
+  if (restored.map) {
+    map = restored.map;
+    mapView.setMap(restored.map);
+  }
+  matrix = restored.matrix;
+  matrixView.setMaps(matrix);
+  suspects = restored.suspects;
+  suspectsView.setRows(suspects);
+}
+
+window.addEventListener('message', (ev: MessageEvent<unknown>) => {
+  if (!isHostToPanel(ev.data)) {
+    console.warn('copse panel: ignoring a message that does not match the protocol');
+    return;
+  }
+  handle(ev.data);
+});
+
+post({ type: 'ready', version: PROTOCOL_VERSION });

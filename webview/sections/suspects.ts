@@ -1,0 +1,79 @@
+// Training rows whose out-of-bag vote went most against their own label: often mislabelled rows,
+// data-entry slips, or genuinely ambiguous cases worth a look before trusting the fit.
+import type { FitSummary, SuspectRow } from '../../src/protocol/messages';
+import { append, clear, h } from '../dom';
+import { fixed, num } from '../format';
+import { css } from '../palette';
+import type { Theme } from '../theme';
+
+export class SuspectsView {
+  readonly root: HTMLElement;
+  private rows: SuspectRow[] = [];
+  private summary: FitSummary | null = null;
+  private theme: Theme | null = null;
+  private highlighted = new Set<number>();
+
+  constructor(private readonly reveal: (row: number) => void) {
+    this.root = h('div', { class: 'suspects', testid: 'suspects' });
+  }
+
+  setSummary(s: FitSummary): void {
+    this.summary = s;
+    this.draw();
+  }
+
+  setRows(rows: SuspectRow[]): void {
+    this.rows = rows;
+    this.draw();
+  }
+
+  setTheme(theme: Theme): void {
+    this.theme = theme;
+    this.draw();
+  }
+
+  setHighlight(rows: readonly number[]): void {
+    this.highlighted = new Set(rows);
+    for (const tr of this.root.querySelectorAll<HTMLElement>('tr[data-row]')) tr.classList.toggle('highlight', this.highlighted.has(Number(tr.dataset.row)));
+  }
+
+  private draw(): void {
+    clear(this.root);
+    const { summary, theme } = this;
+    if (!summary || !theme) return;
+    if (this.rows.length === 0) {
+      append(this.root, h('p', { class: 'muted' }, 'None: for every training row, the trees that did not see it voted mostly for its own label.'));
+      return;
+    }
+    const classification = summary.task === 'classification';
+    const say = (v: number) => (classification ? (summary.classes[v] ?? `class ${v}`) : num(v));
+    const body = this.rows.map((r) => {
+      const tr = h(
+        'tr',
+        { class: this.highlighted.has(r.row) ? 'highlight' : '', on: { click: () => this.reveal(r.row) } },
+        h('td', {}, h('button', { class: 'row-link', attrs: { type: 'button' }, title: 'Show this row in the editor' }, `Row ${r.row}`)),
+        h('td', {}, swatch(theme, classification, r.label), say(r.label)),
+        h('td', {}, swatch(theme, classification, r.oobPredicted), say(r.oobPredicted)),
+        h('td', { class: 'num' }, fixed(r.margin, 2)),
+      );
+      tr.dataset.row = String(r.row);
+      return tr;
+    });
+    append(
+      this.root,
+      h(
+        'table',
+        { class: 'suspect-table' },
+        h('thead', {}, h('tr', {}, h('th', {}, 'row'), h('th', {}, 'label'), h('th', {}, 'out-of-bag vote'), h('th', { class: 'num', title: 'Share of out-of-bag trees voting for the label minus the largest share for any other class' }, 'margin'))),
+        h('tbody', {}, ...body),
+      ),
+    );
+  }
+}
+
+function swatch(theme: Theme, classification: boolean, k: number): HTMLElement | null {
+  if (!classification) return null;
+  const s = h('span', { class: 'swatch' });
+  s.style.backgroundColor = css(theme.classColour(k));
+  return s;
+}

@@ -1,0 +1,134 @@
+// How the individual trees voted on the rows the user selected in the editor. The strip keeps
+// tree order, so the same tree sits in the same column for every row and shared splits line up.
+import type { FitSummary, RowVotes } from '../../src/protocol/messages';
+import { append, clear, custom, h } from '../dom';
+import { count, fixed, num, percent } from '../format';
+import { css, rampColour } from '../palette';
+import type { Theme } from '../theme';
+
+export class VotesView {
+  readonly root: HTMLElement;
+  private readonly list: HTMLElement;
+  private readonly group: HTMLElement & { checked: boolean };
+  private rows: RowVotes[] = [];
+  private summary: FitSummary | null = null;
+  private theme: Theme | null = null;
+
+  constructor(private readonly reveal: (row: number) => void) {
+    this.group = custom('vscode-checkbox', { testid: 'group-votes', attrs: { label: 'Group trees by vote' } }) as HTMLElement & { checked: boolean };
+    this.group.addEventListener('change', () => this.draw());
+    this.list = h('div', { class: 'vote-list' });
+    this.root = h(
+      'div',
+      { class: 'votes', testid: 'disagreement' },
+      h('div', { class: 'controls' }, this.group),
+      this.list,
+      h('p', { class: 'muted' }, 'One cell per tree. A notch under a cell marks a tree that did not see this row while training: those votes make the out-of-bag answer.'),
+    );
+  }
+
+  setSummary(summary: FitSummary): void {
+    this.summary = summary;
+    this.draw();
+  }
+
+  setRows(rows: RowVotes[]): void {
+    this.rows = rows;
+    this.draw();
+  }
+
+  setTheme(theme: Theme): void {
+    this.theme = theme;
+    this.draw();
+  }
+
+  private draw(): void {
+    clear(this.list);
+    const { summary, theme } = this;
+    if (!summary || !theme) return;
+    if (this.rows.length === 0) {
+      append(this.list, h('p', { class: 'muted empty' }, 'Put the cursor on a data row in the CSV (or select several) to see how each tree voted.'));
+      return;
+    }
+    const classification = summary.task === 'classification';
+    let lo = Infinity;
+    let hi = -Infinity;
+    if (!classification) {
+      for (const r of this.rows) for (const v of r.votes) (lo = Math.min(lo, v)), (hi = Math.max(hi, v));
+      if (!(hi > lo)) hi = lo + 1;
+    }
+    const colourOf = (v: number) => (classification ? theme.classColour(v) : rampColour((v - lo) / (hi - lo)));
+    const say = (v: number | null) => (v === null ? '–' : classification ? (summary.classes[v] ?? `class ${v}`) : num(v));
+    for (const r of this.rows) append(this.list, this.rowBlock(r, classification, colourOf, say));
+  }
+
+  private rowBlock(
+    r: RowVotes,
+    classification: boolean,
+    colourOf: (v: number) => readonly [number, number, number],
+    say: (v: number | null) => string,
+  ): HTMLElement {
+    const theme = this.theme as Theme;
+    const summary = this.summary as FitSummary;
+    const oob = new Set(r.outOfBag);
+    const missed = r.label !== null && r.oobVote !== null && classification && r.label !== r.oobVote;
+    const head = h(
+      'div',
+      { class: 'vote-head' },
+      h('button', { class: 'row-link', attrs: { type: 'button' }, title: 'Show this row in the editor', on: { click: () => this.reveal(r.row) } }, `Row ${r.row}`),
+      stat('label', swatchOr(classification, theme, r.label), say(r.label)),
+      stat(
+        'out-of-bag vote',
+        swatchOr(classification, theme, r.oobVote),
+        say(r.oobVote),
+        missed ? h('span', { class: 'miss', title: 'The out-of-bag vote disagrees with the label' }, ' ✗ differs') : null,
+      ),
+      stat('agreement', percent(r.agreement, 1)),
+      classification ? stat('vote entropy', `${fixed(r.entropy, 2)} bits`) : stat('spread of votes', num(sd(r.votes))),
+      stat('out-of-bag trees', count(r.outOfBag.length)),
+    );
+    const counts = classification
+      ? h(
+          'div',
+          { class: 'vote-counts' },
+          ...r.counts.map((n, k) => {
+            const bar = h('span', { class: 'count-bar' });
+            bar.style.width = `${(100 * n) / Math.max(1, r.votes.length)}%`;
+            bar.style.backgroundColor = css(theme.classColour(k));
+            return h('div', { class: 'count' }, h('span', { class: 'count-label' }, summary.classes[k] ?? `class ${k}`), h('span', { class: 'count-track' }, bar), h('span', { class: 'count-n' }, count(n)));
+          }),
+        )
+      : null;
+    const order = r.votes.map((_, t) => t);
+    if (this.group.checked) order.sort((a, b) => r.votes[a] - r.votes[b] || a - b);
+    const strip = h('div', { class: 'vote-strip', testid: 'vote-strip', attrs: { 'data-trees': String(r.votes.length), role: 'img' } });
+    strip.setAttribute('aria-label', `${r.votes.length} tree votes for row ${r.row}`);
+    for (const t of order) {
+      const v = r.votes[t];
+      const cell = h('span', { class: oob.has(t) ? 'tree oob' : 'tree', title: `tree ${t + 1}: ${say(v)}${oob.has(t) ? ' (out-of-bag)' : ''}` });
+      cell.dataset.tree = String(t);
+      cell.style.backgroundColor = css(colourOf(v));
+      strip.appendChild(cell);
+    }
+    const block = h('div', { class: missed ? 'vote-row missed' : 'vote-row' }, head, counts, strip);
+    block.dataset.row = String(r.row);
+    return block;
+  }
+}
+
+function stat(name: string, ...value: Array<Node | string | null>): HTMLElement {
+  return h('span', { class: 'stat' }, h('span', { class: 'muted' }, `${name} `), ...value);
+}
+
+function swatchOr(classification: boolean, theme: Theme, k: number | null): HTMLElement | null {
+  if (!classification || k === null) return null;
+  const s = h('span', { class: 'swatch' });
+  s.style.backgroundColor = css(theme.classColour(k));
+  return s;
+}
+
+function sd(xs: number[]): number {
+  if (xs.length < 2) return 0;
+  const m = xs.reduce((a, b) => a + b, 0) / xs.length;
+  return Math.sqrt(xs.reduce((a, b) => a + (b - m) ** 2, 0) / (xs.length - 1));
+}
