@@ -1,0 +1,205 @@
+// Fits a forest on a table: prepares the binned training data, grows the trees in worker threads, and folds
+// their results in tree order into out-of-bag predictions, the error curve, importances and margins.
+import { binColumns, describeFeatures } from '../data/binning';
+import { findColumn, type DroppedColumn, type Table } from '../data/table';
+import { classificationScores, regressionScores, type Scores } from '../metrics/scores';
+import type { Schema } from '../model/schema';
+import type { TargetData } from '../tree/builder';
+import { sampleSize } from './bootstrap';
+import type { Forest } from './forest';
+import { DEFAULT_PERMUTATION_ROWS, type TrainingJob, type TreeResult } from './grow-task';
+import { OobFold, type RowResults } from './oob';
+import { defaultParams, resolveFeaturesPerSplit, validateParams, type ForestParams, type Task } from './params';
+import { defaultWorkers, growInWorkers } from './pool';
+import { encodeTable, predictEncoded, type Prediction } from './predict';
+import { stream, shuffle } from './rng';
+import { codesFor, encodeTarget, inferTask } from './target';
+
+export { inferTask } from './target';
+export type { RowResults } from './oob';
+export type { ClassificationScores, RegressionScores, Scores } from '../metrics/scores';
+
+export interface FitOptions {
+  readonly target: string;
+  readonly task?: Task;
+  readonly params?: Partial<ForestParams>;
+  readonly exclude?: readonly string[];
+  readonly workers?: number;
+  readonly holdout?: number;
+  readonly test?: Table;
+  readonly signal?: AbortSignal;
+  readonly onProgress?: (treesDone: number, treesTotal: number) => void;
+  readonly permutationImportance?: boolean;
+  readonly fingerprint?: string;
+  readonly dropped?: readonly DroppedColumn[];
+}
+
+export interface Importance {
+  /** Mean decrease in impurity, normalised to sum to 1. */
+  readonly impurity: Float64Array;
+  /** Mean increase in out-of-bag error when the feature is permuted (Breiman 2001). */
+  readonly permutation: Float64Array;
+  /** Standard deviation of that increase across trees. */
+  readonly permutationSpread: Float64Array;
+}
+
+export interface FitReport {
+  readonly forest: Forest;
+  readonly trainRows: Int32Array;
+  readonly holdoutRows?: Int32Array;
+  readonly rows: RowResults;
+  readonly oob: Scores;
+  readonly test?: Scores;
+  readonly testPrediction?: Prediction;
+  readonly curve: Float64Array;
+  readonly importance: Importance;
+  readonly suspects: ReadonlyArray<{ row: number; margin: number }>;
+  readonly notes: readonly string[];
+  readonly seconds: { fit: number };
+}
+
+export async function fitForest(table: Table, options: FitOptions): Promise<FitReport> {
+  const started = performance.now();
+  const targetColumn = findColumn(table, options.target);
+  if (!targetColumn) throw new RangeError(`There is no column "${options.target}" to predict.`);
+  const task = options.task ?? inferTask(targetColumn);
+  const params = defaultParams(task, options.params);
+  validateParams(params);
+  if (options.holdout !== undefined && !(options.holdout > 0 && options.holdout < 1)) {
+    throw new RangeError(`holdout must be a fraction between 0 and 1; got ${options.holdout}`);
+  }
+  const encoded = encodeTarget(targetColumn, task);
+  const exclude = new Set(options.exclude ?? []);
+  const featureColumns = table.columns.filter((c) => c.name !== options.target && !exclude.has(c.name));
+  if (featureColumns.length === 0) throw new RangeError('No feature columns are left to fit on.');
+  if (encoded.classes && encoded.classes.length < 2) {
+    throw new RangeError(`The target "${options.target}" has a single value ("${encoded.classes[0] ?? ''}"), so there is nothing to predict.`);
+  }
+
+  const { train, holdout } = splitRows(encoded.rows, options.holdout, params.seed);
+  const positions = new Map<number, number>();
+  encoded.rows.forEach((r, i) => positions.set(r, i));
+  const trainY = Float64Array.from(train, (r) => encoded.y[positions.get(r)!]);
+  const { infos, notes } = describeFeatures(featureColumns, train);
+  const schema: Schema = { features: infos, target: { name: options.target, task, classes: encoded.classes } };
+  const data = binColumns(featureColumns, infos, train);
+  const n = train.length;
+  const K = encoded.classes?.length ?? 1;
+  const target = sharedTarget(trainY, encoded.classes?.length);
+  const job: TrainingJob = {
+    data,
+    edges: infos.map((f) => f.edges ?? []),
+    target,
+    rowWeight: rowWeights(target, params.classWeight),
+    settings: {
+      criterion: params.criterion,
+      featuresPerSplit: resolveFeaturesPerSplit(params.featuresPerSplit, infos.length),
+      maxDepth: params.maxDepth ?? Number.POSITIVE_INFINITY,
+      minSplit: params.minSplit,
+      minLeaf: params.minLeaf,
+    },
+    seed: params.seed,
+    sampleSize: sampleSize(n, params.sampleFraction),
+    replace: params.replace,
+    permutation: options.permutationImportance ?? true,
+    permutationRows: DEFAULT_PERMUTATION_ROWS,
+  };
+
+  const fold = new OobFold(task, n, K, params.trees, trainY, infos.length);
+  const trees: TreeResult['tree'][] = [];
+  await growInWorkers(
+    job,
+    params.trees,
+    options.workers ?? defaultWorkers(),
+    (r) => {
+      trees.push(r.tree);
+      fold.add(r);
+      options.onProgress?.(trees.length, params.trees);
+    },
+    options.signal,
+  );
+
+  const forest: Forest = {
+    schema,
+    params,
+    trees,
+    training: { rows: n, fingerprint: options.fingerprint ?? '', dropped: [...(options.dropped ?? [])] },
+  };
+  const rows = fold.rows();
+  const oob = fold.scores(encoded.classes ?? []);
+  let test: Scores | undefined;
+  let testPrediction: Prediction | undefined;
+  if (holdout) {
+    ({ scores: test, prediction: testPrediction } = scoreRows(forest, table, holdout, Float64Array.from(holdout, (r) => encoded.y[positions.get(r)!])));
+  } else if (options.test) {
+    const testTarget = findColumn(options.test, options.target);
+    if (!testTarget) throw new RangeError(`The test data has no column "${options.target}".`);
+    const truth = task === 'classification' ? codesFor(testTarget, encoded.classes!) : Float64Array.from(testTarget.kind === 'numeric' ? testTarget.values : []);
+    const all = Int32Array.from({ length: options.test.rowCount }, (_, i) => i);
+    ({ scores: test, prediction: testPrediction } = scoreRows(forest, options.test, all, truth));
+  }
+  const fitNotes = [...notes];
+  if (holdout) fitNotes.push(`${holdout.length} rows were held out for scoring and not used in training.`);
+  return {
+    forest,
+    trainRows: train,
+    holdoutRows: holdout,
+    rows,
+    oob,
+    test,
+    testPrediction,
+    curve: fold.curve,
+    importance: fold.importance(),
+    suspects: fold.suspects(),
+    notes: fitNotes,
+    seconds: { fit: (performance.now() - started) / 1000 },
+  };
+}
+
+function splitRows(rows: Int32Array, holdout: number | undefined, seed: number): { train: Int32Array; holdout?: Int32Array } {
+  if (!holdout) return { train: rows };
+  const order = rows.slice();
+  shuffle(order, stream(seed, 'holdout'));
+  const h = Math.max(1, Math.floor(order.length * holdout));
+  if (h >= order.length) throw new RangeError('The holdout leaves no rows to train on.');
+  return { train: order.subarray(h).slice().sort(), holdout: order.subarray(0, h).slice().sort() };
+}
+
+function sharedTarget(y: Float64Array, classes?: number): TargetData {
+  if (classes !== undefined) {
+    const codes = new Int32Array(new SharedArrayBuffer(Math.max(4, y.length * 4)), 0, y.length);
+    codes.set(y);
+    return { kind: 'classes', y: codes, classes };
+  }
+  const values = new Float64Array(new SharedArrayBuffer(Math.max(8, y.length * 8)), 0, y.length);
+  values.set(y);
+  return { kind: 'values', y: values };
+}
+
+/** Balanced class weights n / (K * n_k), as is common practice. */
+function rowWeights(target: TargetData, mode: ForestParams['classWeight']): Float64Array {
+  const n = target.y.length;
+  const w = new Float64Array(new SharedArrayBuffer(Math.max(8, n * 8)), 0, n).fill(1);
+  if (mode === 'balanced' && target.kind === 'classes') {
+    const counts = new Float64Array(target.classes);
+    for (let i = 0; i < n; i++) counts[target.y[i]]++;
+    const present = counts.filter((c) => c > 0).length;
+    for (let i = 0; i < n; i++) w[i] = n / (present * counts[target.y[i]]);
+  }
+  return w;
+}
+
+/** Scores the given table rows, whose truth (class code, -1 for unknown labels, or value) is given. */
+function scoreRows(forest: Forest, table: Table, rows: Int32Array, truth: Float64Array): { scores: Scores; prediction: Prediction } {
+  const all = encodeTable(forest.schema, table);
+  const p = forest.schema.features.length;
+  const x = new Float64Array(rows.length * p);
+  rows.forEach((r, i) => x.set(all.subarray(r * p, (r + 1) * p), i * p));
+  const prediction = predictEncoded(forest, x, rows.length);
+  const target = forest.schema.target;
+  if (target.task === 'classification') {
+    return { scores: classificationScores(truth, prediction.proba!, target.classes!, (i) => truth[i] >= 0), prediction };
+  }
+  return { scores: regressionScores(truth, prediction.predicted, (i) => !Number.isNaN(truth[i])), prediction };
+}
+

@@ -1,0 +1,19 @@
+import type { DroppedColumn } from '../data/table';
+import type { Schema } from '../model/schema';
+import type { FlatTree } from '../tree/tree';
+import type { ForestParams } from './params';
+
+export interface TrainingInfo {
+  readonly rows: number;
+  /** sha256 of the training file's bytes (empty when fitted from memory). */
+  readonly fingerprint: string;
+  readonly dropped: readonly DroppedColumn[];
+}
+
+/** A fitted forest: all that scoring, saving and inspecting need. */
+export interface Forest {
+  readonly schema: Schema;
+  readonly params: ForestParams;
+  readonly trees: readonly FlatTree[];
+  readonly training: TrainingInfo;
+}

@@ -1,0 +1,147 @@
+// Scoring raw rows. Rows are first encoded into the model's feature space: one float per feature, the value
+// for numeric columns and the level's code for categorical ones, NaN for missing or unseen.
+import { levelIndex } from '../data/binning';
+import { cellText, type Column, type Table } from '../data/table';
+import { argmaxAt } from '../metrics/scores';
+import { outputCount, type Schema } from '../model/schema';
+import type { FlatTree } from '../tree/tree';
+import type { Forest } from './forest';
+
+export class SchemaMismatchError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'SchemaMismatchError';
+  }
+}
+
+export interface Prediction {
+  readonly rows: number;
+  /** classification: rows * K, the soft vote (class probabilities averaged over trees). */
+  readonly proba?: Float64Array;
+  /** regression: the mean over trees. */
+  readonly value?: Float64Array;
+  /** Class code (argmax of proba) or value. */
+  readonly predicted: Float64Array;
+  /** Tree-major: votes[t * rows + i] is tree t's own class (argmax of its leaf) or value for row i. */
+  readonly votes: Uint8Array | Uint16Array | Float32Array;
+  /** classification: share of trees whose own class equals the forest's. */
+  readonly agreement?: Float64Array;
+  /** regression: standard deviation of the trees' values. */
+  readonly spread?: Float64Array;
+}
+
+export function voteArray(classification: boolean, classes: number, length: number): Uint8Array | Uint16Array | Float32Array {
+  if (!classification) return new Float32Array(length);
+  return classes <= 256 ? new Uint8Array(length) : new Uint16Array(length);
+}
+
+/** Checks that the table has every feature with a usable type; names every problem in one message. */
+export function encodeTable(schema: Schema, table: Table, label = 'the data'): Float64Array {
+  const byName = new Map<string, Column>(table.columns.map((c) => [c.name, c]));
+  const missing: string[] = [];
+  const wrong: string[] = [];
+  for (const f of schema.features) {
+    const col = byName.get(f.name);
+    if (!col) missing.push(f.name);
+    else if (f.kind === 'numeric' && col.kind !== 'numeric') wrong.push(`"${f.name}" should be numeric but is ${col.kind}`);
+  }
+  if (missing.length || wrong.length) {
+    const used = new Set(schema.features.map((f) => f.name));
+    const extra = table.columns.map((c) => c.name).filter((n) => !used.has(n) && n !== schema.target.name);
+    const parts: string[] = [];
+    if (missing.length) parts.push(`missing column${missing.length > 1 ? 's' : ''} ${missing.map((m) => `"${m}"`).join(', ')}`);
+    if (wrong.length) parts.push(`wrong type: ${wrong.join('; ')}`);
+    if (extra.length) parts.push(`extra column${extra.length > 1 ? 's' : ''} (ignored) ${extra.map((m) => `"${m}"`).join(', ')}`);
+    throw new SchemaMismatchError(`The columns of ${label} do not match the model: ${parts.join('; ')}.`);
+  }
+  const p = schema.features.length;
+  const n = table.rowCount;
+  const x = new Float64Array(n * p);
+  schema.features.forEach((f, j) => {
+    const col = byName.get(f.name)!;
+    if (f.kind === 'numeric' && col.kind === 'numeric') {
+      for (let i = 0; i < n; i++) x[i * p + j] = col.values[i];
+      return;
+    }
+    // Levels are matched by their text, so a column read as numbers still finds levels such as "3".
+    const index = levelIndex(f);
+    if (col.kind === 'numeric') {
+      for (let i = 0; i < n; i++) x[i * p + j] = index.get(cellText(col, i)) ?? NaN;
+    } else {
+      const remap = col.levels.map((l) => index.get(l) ?? NaN);
+      for (let i = 0; i < n; i++) x[i * p + j] = col.codes[i] < 0 ? NaN : remap[col.codes[i]];
+    }
+  });
+  return x;
+}
+
+/** Leaf reached by the encoded row starting at x[offset]. */
+export function leafOf(tree: FlatTree, levelCounts: Int32Array, x: ArrayLike<number>, offset: number): number {
+  let node = 0;
+  while (tree.left[node] >= 0) {
+    const f = tree.feature[node];
+    const v = x[offset + f];
+    let left: boolean;
+    if (Number.isNaN(v)) left = tree.missingLeft[node] === 1;
+    else if (levelCounts[f] > 0) {
+      if (v >= levelCounts[f] || v < 0) left = tree.missingLeft[node] === 1;
+      else left = (tree.catBits[tree.threshold[node] + (v >>> 5)] & (1 << (v & 31))) !== 0;
+    } else left = v <= tree.threshold[node];
+    node = left ? tree.left[node] : tree.right[node];
+  }
+  return node;
+}
+
+/** Number of levels of each categorical feature; 0 for numeric ones. */
+export function levelCounts(schema: Schema): Int32Array {
+  return Int32Array.from(schema.features.map((f) => (f.kind === 'numeric' ? 0 : (f.levels?.length ?? 0))));
+}
+
+export function predictEncoded(forest: Forest, x: ArrayLike<number>, rows: number): Prediction {
+  const { schema, trees } = forest;
+  const p = schema.features.length;
+  const classification = schema.target.task === 'classification';
+  const K = outputCount(schema.target);
+  const T = trees.length;
+  const counts = levelCounts(schema);
+  const votes = voteArray(classification, K, T * rows);
+  const sums = new Float64Array(rows * K);
+  const sq = classification ? null : new Float64Array(rows);
+  for (let t = 0; t < T; t++) {
+    const tree = trees[t];
+    const base = t * rows;
+    for (let i = 0; i < rows; i++) {
+      const leaf = leafOf(tree, counts, x, i * p);
+      if (classification) {
+        const o = leaf * K;
+        for (let k = 0; k < K; k++) sums[i * K + k] += tree.value[o + k];
+        votes[base + i] = argmaxAt(tree.value, o, K);
+      } else {
+        const v = tree.value[leaf];
+        sums[i] += v;
+        sq![i] += v * v;
+        votes[base + i] = v;
+      }
+    }
+  }
+  const predicted = new Float64Array(rows);
+  if (classification) {
+    const agreement = new Float64Array(rows);
+    for (let i = 0; i < rows * K; i++) sums[i] /= T;
+    for (let i = 0; i < rows; i++) predicted[i] = argmaxAt(sums, i * K, K);
+    for (let t = 0; t < T; t++) for (let i = 0; i < rows; i++) if (votes[t * rows + i] === predicted[i]) agreement[i]++;
+    for (let i = 0; i < rows; i++) agreement[i] /= T;
+    return { rows, proba: sums, predicted, votes, agreement };
+  }
+  const spread = new Float64Array(rows);
+  for (let i = 0; i < rows; i++) {
+    const m = sums[i] / T;
+    predicted[i] = m;
+    spread[i] = Math.sqrt(Math.max(0, sq![i] / T - m * m));
+  }
+  return { rows, value: predicted, predicted, votes, spread };
+}
+
+export function predictTable(forest: Forest, table: Table, label?: string): Prediction {
+  return predictEncoded(forest, encodeTable(forest.schema, table, label), table.rowCount);
+}

@@ -1,0 +1,53 @@
+// Turns the target column into class codes or values, and decides the task when the user has not.
+import { cellText, type Column } from '../data/table';
+import type { Task } from './params';
+
+/** Few distinct integers in a numeric column read as class labels (common practice; the user can override). */
+export const MAX_INTEGER_CLASSES = 10;
+
+export function inferTask(column: Column): Task {
+  if (column.kind !== 'numeric') return 'classification';
+  const distinct = new Set<number>();
+  for (const v of column.values) {
+    if (Number.isNaN(v)) continue;
+    if (!Number.isInteger(v)) return 'regression';
+    distinct.add(v);
+    if (distinct.size > MAX_INTEGER_CLASSES) return 'regression';
+  }
+  return 'classification';
+}
+
+export interface EncodedTarget {
+  /** Rows of the table whose target is present. */
+  readonly rows: Int32Array;
+  /** Per kept row: class code or value. */
+  readonly y: Float64Array;
+  readonly classes?: string[];
+}
+
+export function encodeTarget(column: Column, task: Task): EncodedTarget {
+  const n = column.kind === 'numeric' ? column.values.length : column.codes.length;
+  const keep: number[] = [];
+  for (let i = 0; i < n; i++) if (cellText(column, i) !== '') keep.push(i);
+  const rows = Int32Array.from(keep);
+  if (task === 'regression') {
+    if (column.kind !== 'numeric') throw new RangeError(`The target "${column.name}" is not numeric, so it cannot be fitted as a regression.`);
+    return { rows, y: Float64Array.from(keep, (i) => column.values[i]) };
+  }
+  let classes: string[];
+  if (column.kind === 'numeric') {
+    classes = [...new Set(keep.map((i) => column.values[i]))].sort((a, b) => a - b).map(String);
+  } else {
+    const used = new Set(keep.map((i) => column.codes[i]));
+    classes = column.levels.filter((_, k) => used.has(k));
+  }
+  const code = new Map(classes.map((c, k) => [c, k]));
+  return { rows, y: Float64Array.from(keep, (i) => code.get(cellText(column, i))!), classes };
+}
+
+/** Codes of another table's target cells under known classes; -1 for a label the model never saw. */
+export function codesFor(column: Column, classes: readonly string[]): Float64Array {
+  const code = new Map(classes.map((c, k) => [c, k]));
+  const n = column.kind === 'numeric' ? column.values.length : column.codes.length;
+  return Float64Array.from({ length: n }, (_, i) => code.get(cellText(column, i)) ?? -1);
+}

@@ -1,0 +1,292 @@
+// Grows one CART tree depth-first over binned rows. Rows are an index array that each split partitions in
+// place, so a node is a range of it. Bootstrap duplicates are weights, not copies.
+import type { BinnedMatrix } from '../data/binning';
+import type { Criterion } from '../forest/params';
+import { sideScore } from './criterion';
+import { emptyCandidate, Histogram, type SplitCandidate } from './splitter';
+import type { FlatTree } from './tree';
+
+export type TargetData =
+  | { readonly kind: 'classes'; readonly y: Int32Array; readonly classes: number }
+  | { readonly kind: 'values'; readonly y: Float64Array };
+
+export interface GrowSettings {
+  readonly criterion: Criterion;
+  readonly featuresPerSplit: number;
+  readonly maxDepth: number;
+  readonly minSplit: number;
+  readonly minLeaf: number;
+}
+
+export interface GrownTree {
+  readonly tree: FlatTree;
+  /** The bin each split sends left at or below (numeric); -1 elsewhere. Kept to walk binned rows fast. */
+  readonly splitBin: Int32Array;
+  /** Weighted impurity decrease per feature, summed over the tree's splits. */
+  readonly impurityDecrease: Float64Array;
+}
+
+const MISSING_LEFT = 1;
+
+class NodeArrays {
+  size = 0;
+  left: Int32Array;
+  right: Int32Array;
+  feature: Int32Array;
+  threshold: Float64Array;
+  missingLeft: Uint8Array;
+  splitBin: Int32Array;
+  cover: Float32Array;
+  value: Float32Array;
+  catBits: Uint32Array = new Uint32Array(64);
+  catWords = 0;
+
+  constructor(private readonly outputs: number, capacity = 256) {
+    this.left = new Int32Array(capacity);
+    this.right = new Int32Array(capacity);
+    this.feature = new Int32Array(capacity);
+    this.threshold = new Float64Array(capacity);
+    this.missingLeft = new Uint8Array(capacity);
+    this.splitBin = new Int32Array(capacity);
+    this.cover = new Float32Array(capacity);
+    this.value = new Float32Array(capacity * outputs);
+  }
+
+  add(): number {
+    if (this.size === this.left.length) this.grow();
+    const id = this.size++;
+    this.left[id] = -1;
+    this.right[id] = -1;
+    this.feature[id] = -1;
+    this.splitBin[id] = -1;
+    return id;
+  }
+
+  addLevelSet(set: Uint32Array, words: number): number {
+    while (this.catWords + words > this.catBits.length) {
+      const next = new Uint32Array(this.catBits.length * 2);
+      next.set(this.catBits);
+      this.catBits = next;
+    }
+    const offset = this.catWords;
+    this.catBits.set(set.subarray(0, words), offset);
+    this.catWords += words;
+    return offset;
+  }
+
+  private grow(): void {
+    const cap = this.left.length * 2;
+    const g = <T extends Int32Array | Float64Array | Uint8Array | Float32Array>(a: T, n: number): T => {
+      const b = new (a.constructor as new (n: number) => T)(n);
+      b.set(a);
+      return b;
+    };
+    this.left = g(this.left, cap);
+    this.right = g(this.right, cap);
+    this.feature = g(this.feature, cap);
+    this.threshold = g(this.threshold, cap);
+    this.missingLeft = g(this.missingLeft, cap);
+    this.splitBin = g(this.splitBin, cap);
+    this.cover = g(this.cover, cap);
+    this.value = g(this.value, cap * this.outputs);
+  }
+
+  finish(): FlatTree {
+    const n = this.size;
+    return {
+      nodeCount: n,
+      left: this.left.slice(0, n),
+      right: this.right.slice(0, n),
+      feature: this.feature.slice(0, n),
+      threshold: this.threshold.slice(0, n),
+      missingLeft: this.missingLeft.slice(0, n),
+      value: this.value.slice(0, n * this.outputs),
+      cover: this.cover.slice(0, n),
+      catBits: this.catBits.slice(0, this.catWords),
+    };
+  }
+}
+
+interface PendingNode {
+  id: number;
+  start: number;
+  end: number;
+  depth: number;
+  total: Float64Array;
+}
+
+/**
+ * Grows a tree on the rows idx (each with weight w[row] > 0). `edges[f]` maps a numeric bin to its real
+ * threshold; `random` draws the features tried at each split.
+ */
+export function growTree(
+  data: BinnedMatrix,
+  edges: readonly (readonly number[])[],
+  target: TargetData,
+  w: Float64Array,
+  idx: Int32Array,
+  settings: GrowSettings,
+  random: () => number,
+  /** Filled with the leaf of every row in idx. */
+  rowLeaf?: Int32Array,
+): GrownTree {
+  const p = data.features;
+  const bins = data.bins;
+  const channels = target.kind === 'classes' ? target.classes : 2;
+  const outputs = target.kind === 'classes' ? target.classes : 1;
+  const score = sideScore(settings.criterion);
+  const hist = new Histogram(channels);
+  const nodes = new NodeArrays(outputs);
+  const impurityDecrease = new Float64Array(p);
+  const order = new Int32Array(p);
+  for (let f = 0; f < p; f++) order[f] = f;
+  const best: SplitCandidate = emptyCandidate();
+  const leftTotal = new Float64Array(channels);
+  let majority = 0;
+  const levelKey =
+    target.kind === 'values'
+      ? (ch: Float64Array, o: number) => (ch[o] > 0 ? ch[o + 1] / ch[o] : 0)
+      : (ch: Float64Array, o: number) => {
+          let s = 0;
+          for (let k = 0; k < channels; k++) s += ch[o + k];
+          return s > 0 ? ch[o + majority] / s : 0;
+        };
+
+  const rootTotal = new Float64Array(channels);
+  sumRows(target, w, idx, 0, idx.length, rootTotal);
+  const stack: PendingNode[] = [{ id: nodes.add(), start: 0, end: idx.length, depth: 0, total: rootTotal }];
+
+  while (stack.length > 0) {
+    const node = stack.pop()!;
+    const { id, start, end, depth, total } = node;
+    const count = end - start;
+    writeValue(nodes, id, total, target.kind, outputs);
+    let leaf = count < settings.minSplit || count < 2 * settings.minLeaf || depth >= settings.maxDepth || isPure(target, idx, start, end, total);
+    if (!leaf) {
+      best.score = -Infinity;
+      best.feature = -1;
+      if (target.kind === 'classes') {
+        // Binary and multi-class targets order levels by the share of the node's most common class.
+        majority = target.classes === 2 ? 1 : argmax(total);
+      }
+      let tried = 0;
+      for (let j = 0; j < p && tried < settings.featuresPerSplit; j++) {
+        const r = j + Math.floor(random() * (p - j));
+        const f = order[r];
+        order[r] = order[j];
+        order[j] = f;
+        if (target.kind === 'classes') hist.addClasses(bins, p, f, idx, start, end, target.y, w);
+        else hist.addValues(bins, p, f, idx, start, end, target.y, w);
+        if (hist.scan(f, data.valueBins[f], data.categorical[f] === 1, total, count, settings.minLeaf, score, levelKey, best)) tried++;
+        hist.clear();
+      }
+      if (best.feature < 0) leaf = true;
+    }
+    if (leaf) {
+      if (rowLeaf) for (let j = start; j < end; j++) rowLeaf[idx[j]] = id;
+      continue;
+    }
+
+    const f = best.feature;
+    const mid = partition(bins, p, f, data.valueBins[f], best, idx, start, end);
+    sumRows(target, w, idx, start, mid, leftTotal);
+    const lt = leftTotal.slice();
+    const rt = new Float64Array(channels);
+    sumRows(target, w, idx, mid, end, rt);
+    impurityDecrease[f] += best.score - score(total, 0, channels);
+    nodes.feature[id] = f;
+    // Where training rows gave no evidence, missing values later follow the heavier side.
+    const missingLeft = best.sawMissing ? best.missingLeft : weightOf(lt, target.kind) >= weightOf(rt, target.kind);
+    nodes.missingLeft[id] = missingLeft ? MISSING_LEFT : 0;
+    if (best.categorical) {
+      nodes.threshold[id] = nodes.addLevelSet(best.levelSet, (data.valueBins[f] + 31) >>> 5);
+    } else {
+      nodes.splitBin[id] = best.bin;
+      const e = edges[f];
+      // The last value bin has no upper edge: that split separates the values from the missing rows.
+      nodes.threshold[id] = best.bin < e.length ? e[best.bin] : Number.MAX_VALUE;
+    }
+    const l = nodes.add();
+    const r = nodes.add();
+    nodes.left[id] = l;
+    nodes.right[id] = r;
+    stack.push({ id: r, start: mid, end, depth: depth + 1, total: rt });
+    stack.push({ id: l, start, end: mid, depth: depth + 1, total: lt });
+  }
+  const tree = nodes.finish();
+  return { tree, splitBin: nodes.splitBin.slice(0, tree.nodeCount), impurityDecrease };
+}
+
+function sumRows(target: TargetData, w: Float64Array, idx: Int32Array, start: number, end: number, out: Float64Array): void {
+  out.fill(0);
+  if (target.kind === 'classes') {
+    const y = target.y;
+    for (let j = start; j < end; j++) out[y[idx[j]]] += w[idx[j]];
+  } else {
+    const y = target.y;
+    for (let j = start; j < end; j++) {
+      const r = idx[j];
+      out[0] += w[r];
+      out[1] += w[r] * y[r];
+    }
+  }
+}
+
+function writeValue(nodes: NodeArrays, id: number, total: Float64Array, kind: TargetData['kind'], outputs: number): void {
+  if (kind === 'classes') {
+    let s = 0;
+    for (let k = 0; k < outputs; k++) s += total[k];
+    for (let k = 0; k < outputs; k++) nodes.value[id * outputs + k] = s > 0 ? total[k] / s : 0;
+    nodes.cover[id] = s;
+  } else {
+    nodes.value[id] = total[0] > 0 ? total[1] / total[0] : 0;
+    nodes.cover[id] = total[0];
+  }
+}
+
+function isPure(target: TargetData, idx: Int32Array, start: number, end: number, total: Float64Array): boolean {
+  if (target.kind === 'classes') {
+    let nonzero = 0;
+    for (let k = 0; k < total.length; k++) if (total[k] > 0) nonzero++;
+    return nonzero <= 1;
+  }
+  const y = target.y;
+  const first = y[idx[start]];
+  for (let j = start + 1; j < end; j++) if (y[idx[j]] !== first) return false;
+  return true;
+}
+
+function weightOf(total: Float64Array, kind: TargetData['kind']): number {
+  if (kind === 'values') return total[0];
+  let s = 0;
+  for (let k = 0; k < total.length; k++) s += total[k];
+  return s;
+}
+
+function argmax(a: Float64Array): number {
+  let b = 0;
+  for (let k = 1; k < a.length; k++) if (a[k] > a[b]) b = k;
+  return b;
+}
+
+/** Reorders idx[start..end) so rows going left come first; returns the first right position. */
+function partition(bins: Uint8Array, p: number, f: number, missingCode: number, split: SplitCandidate, idx: Int32Array, start: number, end: number): number {
+  let i = start;
+  let j = end - 1;
+  const goesLeft = (r: number): boolean => {
+    const b = bins[r * p + f];
+    if (b === missingCode) return split.missingLeft;
+    if (split.categorical) return (split.levelSet[b >>> 5] & (1 << (b & 31))) !== 0;
+    return b <= split.bin;
+  };
+  while (i <= j) {
+    if (goesLeft(idx[i])) i++;
+    else {
+      const t = idx[i];
+      idx[i] = idx[j];
+      idx[j] = t;
+      j--;
+    }
+  }
+  return i;
+}

@@ -1,0 +1,187 @@
+// Finds the best split of one node on one feature from a histogram over its bins.
+// Missing values have their own slot; each candidate is tried with missing rows on either side and keeps the
+// better one (sparsity-aware split finding, Chen & Guestrin 2016). Categorical levels are ordered by class
+// proportion or mean target and then scanned like ordered bins (Breiman et al. 1984; Fisher 1958).
+import { MAX_BINS } from '../data/binning';
+import type { SideScore } from './criterion';
+
+const SLOTS = MAX_BINS + 1;
+
+export interface SplitCandidate {
+  score: number;
+  feature: number;
+  /** Numeric: bins <= bin go left. */
+  bin: number;
+  missingLeft: boolean;
+  /** Whether the node had missing rows on this feature; without them the side for missing is still open. */
+  sawMissing: boolean;
+  /** Categorical: levels going left (bit per level). */
+  levelSet: Uint32Array;
+  categorical: boolean;
+}
+
+export function emptyCandidate(): SplitCandidate {
+  return { score: -Infinity, feature: -1, bin: -1, missingLeft: false, sawMissing: false, levelSet: new Uint32Array((SLOTS >>> 5) + 1), categorical: false };
+}
+
+export class Histogram {
+  readonly ch: Float64Array;
+  readonly cnt: Int32Array;
+  readonly touched = new Int32Array(SLOTS);
+  touchedCount = 0;
+  private readonly left: Float64Array;
+  private readonly right: Float64Array;
+  private readonly order = new Int32Array(SLOTS);
+  private readonly keys = new Float64Array(SLOTS);
+
+  constructor(readonly channels: number) {
+    this.ch = new Float64Array(SLOTS * channels);
+    this.cnt = new Int32Array(SLOTS);
+    this.left = new Float64Array(channels);
+    this.right = new Float64Array(channels);
+  }
+
+  /** Classification: add rows idx[start..end) of feature f. */
+  addClasses(bins: Uint8Array, p: number, f: number, idx: Int32Array, start: number, end: number, y: Int32Array, w: Float64Array): void {
+    const { ch, cnt, touched, channels } = this;
+    let t = this.touchedCount;
+    for (let j = start; j < end; j++) {
+      const r = idx[j];
+      const b = bins[r * p + f];
+      if (cnt[b]++ === 0) touched[t++] = b;
+      ch[b * channels + y[r]] += w[r];
+    }
+    this.touchedCount = t;
+  }
+
+  /** Regression: add rows idx[start..end) of feature f (channel 0 weight, channel 1 weighted target). */
+  addValues(bins: Uint8Array, p: number, f: number, idx: Int32Array, start: number, end: number, y: Float64Array, w: Float64Array): void {
+    const { ch, cnt, touched } = this;
+    let t = this.touchedCount;
+    for (let j = start; j < end; j++) {
+      const r = idx[j];
+      const b = bins[r * p + f];
+      if (cnt[b]++ === 0) touched[t++] = b;
+      const o = b * 2;
+      ch[o] += w[r];
+      ch[o + 1] += w[r] * y[r];
+    }
+    this.touchedCount = t;
+  }
+
+  clear(): void {
+    const { ch, cnt, touched, channels } = this;
+    for (let t = 0; t < this.touchedCount; t++) {
+      const b = touched[t];
+      cnt[b] = 0;
+      for (let k = b * channels, e = k + channels; k < e; k++) ch[k] = 0;
+    }
+    this.touchedCount = 0;
+  }
+
+  /**
+   * Scans the histogram of feature f (valueBins value bins, missing in slot valueBins) and updates best when a
+   * valid split beats it. Returns false when the feature is constant in the node (so it does not count as tried).
+   * `total` holds the node's channel sums; `levelKey` orders categorical levels.
+   */
+  scan(
+    f: number,
+    valueBins: number,
+    categorical: boolean,
+    total: Float64Array,
+    totalCount: number,
+    minLeaf: number,
+    score: SideScore,
+    levelKey: (ch: Float64Array, offset: number) => number,
+    best: SplitCandidate,
+  ): boolean {
+    const { ch, cnt, channels, left, right, order } = this;
+    const missingCount = cnt[valueBins];
+    let m = 0;
+    for (let t = 0; t < this.touchedCount; t++) if (this.touched[t] !== valueBins) order[m++] = this.touched[t];
+    if (m + (missingCount > 0 ? 1 : 0) < 2) return false;
+    if (categorical) {
+      const keys = this.keys;
+      for (let i = 0; i < m; i++) keys[order[i]] = levelKey(ch, order[i] * channels);
+      sortBy(order, m, keys);
+    } else if (m * 4 < valueBins) {
+      sortBy(order, m, null);
+    } else {
+      // Dense: walking every bin in order is cheaper than sorting the touched ones.
+      m = 0;
+      for (let b = 0; b < valueBins; b++) if (cnt[b] > 0) order[m++] = b;
+    }
+    const mo = valueBins * channels;
+    left.fill(0);
+    let leftCount = 0;
+    // i = m - 1 puts every value left and leaves only missing rows right; valid only when some are missing.
+    const last = missingCount > 0 ? m : m - 1;
+    for (let i = 0; i < last; i++) {
+      const b = order[i];
+      const o = b * channels;
+      for (let k = 0; k < channels; k++) left[k] += ch[o + k];
+      leftCount += cnt[b];
+      const rightCount = totalCount - leftCount - missingCount;
+      // Missing rows to the right.
+      if (leftCount >= minLeaf && rightCount + missingCount >= minLeaf && (rightCount > 0 || missingCount > 0)) {
+        for (let k = 0; k < channels; k++) right[k] = total[k] - left[k];
+        const s = score(left, 0, channels) + score(right, 0, channels);
+        if (s > best.score) {
+          this.record(best, s, f, i, b, false, categorical, missingCount > 0);
+        }
+      }
+      // Missing rows to the left.
+      if (missingCount > 0 && rightCount >= minLeaf && rightCount > 0 && leftCount + missingCount >= minLeaf) {
+        for (let k = 0; k < channels; k++) {
+          right[k] = total[k] - left[k] - ch[mo + k];
+        }
+        for (let k = 0; k < channels; k++) left[k] += ch[mo + k];
+        const s = score(left, 0, channels) + score(right, 0, channels);
+        for (let k = 0; k < channels; k++) left[k] -= ch[mo + k];
+        if (s > best.score) {
+          this.record(best, s, f, i, b, true, categorical, true);
+        }
+      }
+    }
+    return true;
+  }
+
+  private record(best: SplitCandidate, s: number, f: number, i: number, b: number, missingLeft: boolean, categorical: boolean, sawMissing: boolean): void {
+    best.score = s;
+    best.sawMissing = sawMissing;
+    best.feature = f;
+    best.bin = b;
+    best.missingLeft = missingLeft;
+    best.categorical = categorical;
+    if (categorical) {
+      best.levelSet.fill(0);
+      for (let j = 0; j <= i; j++) {
+        const level = this.order[j];
+        best.levelSet[level >>> 5] |= 1 << (level & 31);
+      }
+    }
+  }
+}
+
+/** Insertion sort of the first m entries, by key (ties by bin) or by bin: m is small on all but dense nodes. */
+function sortBy(order: Int32Array, m: number, keys: Float64Array | null): void {
+  if (m > 64) {
+    const part = order.subarray(0, m);
+    if (keys) part.sort((a, b) => keys[a] - keys[b] || a - b);
+    else part.sort();
+    return;
+  }
+  for (let i = 1; i < m; i++) {
+    const v = order[i];
+    const kv = keys ? keys[v] : v;
+    let j = i - 1;
+    while (j >= 0) {
+      const u = order[j];
+      const ku = keys ? keys[u] : u;
+      if (ku < kv || (ku === kv && u < v)) break;
+      order[j + 1] = u;
+      j--;
+    }
+    order[j + 1] = v;
+  }
+}
