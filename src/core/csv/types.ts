@@ -1,0 +1,41 @@
+import type { ColumnKind, DroppedColumn, Table } from '../data/table';
+
+export const DEFAULT_MISSING_TOKENS: readonly string[] = ['', 'NA', 'N/A', 'NaN', 'null', '?', '-'];
+
+export interface LoadOptions {
+  /** The column to predict: never dropped as an identifier or constant, rows where it is missing are dropped. */
+  readonly target?: string;
+  /** Cells equal to one of these (after trimming) are missing. Default DEFAULT_MISSING_TOKENS. */
+  readonly missingTokens?: readonly string[];
+  /** Per-column override: force a type, or leave the column out. */
+  readonly columnTypes?: Readonly<Record<string, ColumnKind | 'exclude'>>;
+  /** Forced delimiter; detected among , ; TAB | when absent. */
+  readonly delimiter?: string;
+  /** Keep a uniform random sample of at most this many rows (reservoir, seeded). */
+  readonly sampleRows?: number;
+  readonly sampleSeed?: number;
+  readonly signal?: AbortSignal;
+}
+
+export interface LoadResult {
+  readonly table: Table;
+  readonly dropped: readonly DroppedColumn[];
+  /** Information the user should read (date columns converted, rows dropped for a missing target, sampling). */
+  readonly notes: readonly string[];
+  /** Problems the load survived (stray text in a numeric column: count and first line). */
+  readonly warnings: readonly string[];
+  readonly delimiter: string;
+  /** Data rows read from the file before any were dropped or sampled. */
+  readonly rowsRead: number;
+  /** sha256 of the file's bytes, hex. */
+  readonly fingerprint: string;
+  readonly header: readonly string[];
+}
+
+/** Every input problem becomes one of these: one sentence naming file, line and column where they apply. */
+export class DataError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'DataError';
+  }
+}
