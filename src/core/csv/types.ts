@@ -5,7 +5,8 @@ export const DEFAULT_MISSING_TOKENS: readonly string[] = ['', 'NA', 'N/A', 'NaN'
 export interface LoadOptions {
   /** The column to predict: never dropped as an identifier or constant, rows where it is missing are dropped. */
   readonly target?: string;
-  /** Cells equal to one of these (after trimming) are missing. Default DEFAULT_MISSING_TOKENS. */
+  /** Cells equal to one of these (after trimming, case-sensitive) are missing. Default DEFAULT_MISSING_TOKENS.
+   *  An empty cell is always missing, whatever this list says: it can hold no value. */
   readonly missingTokens?: readonly string[];
   /** Per-column override: force a type, or leave the column out. */
   readonly columnTypes?: Readonly<Record<string, ColumnKind | 'exclude'>>;
@@ -14,6 +15,8 @@ export interface LoadOptions {
   /** Keep a uniform random sample of at most this many rows (reservoir, seeded). */
   readonly sampleRows?: number;
   readonly sampleSeed?: number;
+  /** Text columns with more distinct values than this are dropped as free text (not the target, not forced). Default 1000. */
+  readonly maxLevels?: number;
   readonly signal?: AbortSignal;
 }
 
@@ -31,6 +34,8 @@ export interface LoadResult {
   readonly fingerprint: string;
   readonly header: readonly string[];
 }
+
+export const DEFAULT_MAX_LEVELS = 1000;
 
 /** Every input problem becomes one of these: one sentence naming file, line and column where they apply. */
 export class DataError extends Error {
