@@ -6,10 +6,10 @@
 // vision. The earliest entries are therefore the most separable, which matters because most data
 // sets have two to four classes. Then they were rounded to hex and kept as they came out.
 // - Two sets, because one set cannot sit well on both a near-black and a white background: the
-//   dark-theme set lives in lightness 0.60-0.88 (it must glow against #1e1e1e-like editors), the
-//   light-theme set in 0.42-0.72 (it must stay visible on white).
-// - Lightness alternates between neighbours (blue, then a much lighter yellow, then a darker
-//   orange ...), so even when a red-green deficiency collapses two hues, they still differ in
+//   dark-theme set lives in OKLab lightness 0.60-0.88 (it must glow against #1e1e1e-like editors),
+//   the light-theme set in 0.40-0.66, dark enough for 3:1 contrast on white (WCAG non-text contrast).
+// - Lightness alternates between neighbours (dark theme: blue, then a much lighter yellow, then a
+//   darker orange ...), so even when a red-green deficiency collapses two hues, they still differ in
 //   lightness; blue against yellow/orange survives all three common deficiencies.
 // - High-contrast themes reuse the set matching their background and get outlines instead of
 //   more colours, because the region map already uses the full range.
@@ -20,7 +20,7 @@ export type Rgb = readonly [number, number, number];
 export type ThemeTone = 'dark' | 'light';
 
 const DARK_CLASSES = ['#5a9be6', '#edd854', '#cf5604', '#51eefe', '#eb9384', '#a46b91', '#7968eb', '#57c6e6'];
-const LIGHT_CLASSES = ['#2f6fc0', '#df911a', '#842b02', '#09b7dc', '#bf4a5a', '#5f3979', '#a077fc', '#183db2'];
+const LIGHT_CLASSES = ['#2f6fc0', '#861309', '#de6907', '#533a6e', '#9e5a65', '#009ccf', '#193fb4', '#bd788d'];
 
 export const CLASS_HEX: Readonly<Record<ThemeTone, readonly string[]>> = { dark: DARK_CLASSES, light: LIGHT_CLASSES };
 

@@ -29,8 +29,8 @@ export class CurveView {
           {
             label: classification ? 'OOB error (1 − accuracy)' : 'OOB mean squared error',
             data: s.curve,
-            borderColor: css(theme.classColour(0)),
-            backgroundColor: css(theme.classColour(0)),
+            borderColor: css(theme.focus),
+            backgroundColor: css(theme.focus),
             borderWidth: 2,
             pointRadius: 0,
             spanGaps: false,

@@ -1,6 +1,7 @@
 // Two views of what the forest leans on, side by side in one feature order: impurity decrease
 // (cheap, but favours features with many split points) and permutation drop (costlier, measured on
 // out-of-bag rows) with its spread drawn as whiskers. Different units, so two axes, not one.
+// Theme colours, not class colours: a bar here is not about any class.
 import type { FeatureImportance, FitSummary } from '../../src/protocol/messages';
 import { applyTheme, replaceChart } from '../charts';
 import { append, clear, h } from '../dom';
@@ -41,14 +42,14 @@ export class ImportanceView {
     const hasPerm = s.importance.some((m) => m.permutation !== null);
     const order = [...s.importance].sort((a, b) => key(b, hasPerm) - key(a, hasPerm));
     const shown = order.slice(0, MAX_FEATURES);
-    const labels = shown.map((m) => truncate(m.feature, 22));
+    const labels = shown.map((m) => truncate(m.feature, 16));
     const height = `${Math.max(90, 22 * shown.length + 40)}px`;
     for (const b of this.boxes) b.style.height = height;
     const tooltipTitle = (items: Array<{ dataIndex: number }>) => shown[items[0]?.dataIndex ?? 0]?.feature ?? '';
 
     replaceChart(this.impurity, {
       type: 'bar',
-      data: { labels, datasets: [{ data: shown.map((m) => m.impurity), backgroundColor: css(theme.classColour(0), 0.85), barPercentage: 0.8 }] },
+      data: { labels, datasets: [{ data: shown.map((m) => m.impurity), backgroundColor: css(theme.muted, 0.8), barPercentage: 0.8 }] },
       options: {
         indexAxis: 'y',
         responsive: true,
@@ -62,7 +63,7 @@ export class ImportanceView {
     const spread = shown.map((m) => m.permutationSpread);
     replaceChart(this.permutation, {
       type: 'bar',
-      data: { labels, datasets: [{ data: perm, backgroundColor: css(theme.classColour(1), 0.85), barPercentage: 0.8 }] },
+      data: { labels, datasets: [{ data: perm, backgroundColor: css(theme.focus, 0.85), barPercentage: 0.8 }] },
       options: {
         indexAxis: 'y',
         responsive: true,
