@@ -1,0 +1,100 @@
+// The shared protocol's guards: what the host builds passes, what would break the other end fails.
+import * as assert from 'node:assert/strict';
+import {
+  axisSpan,
+  cellCentre,
+  isHostToPanel,
+  isPanelState,
+  isPanelToHost,
+  type HostToPanel,
+  type PanelState,
+  type PanelToHost,
+} from '../../src/protocol/messages';
+import { classificationMap, classificationMessages, classificationSummary, regressionMap, regressionSummary, SUSPECTS } from './fixtures';
+
+const clone = <T>(x: T): T => JSON.parse(JSON.stringify(x)) as T;
+
+describe('protocol guards', () => {
+  it('accepts every message the fixtures build, and they survive JSON unchanged (plain data only)', () => {
+    const all: HostToPanel[] = [
+      ...classificationMessages(),
+      { type: 'summary', summary: regressionSummary() },
+      { type: 'regionMap', map: regressionMap() },
+      { type: 'highlight', rows: [3, 9] },
+      { type: 'status', state: 'working', text: 'fitting', progress: 0.4 },
+    ];
+    for (const m of all) {
+      assert.ok(isHostToPanel(m), m.type);
+      assert.deepEqual(clone(m), m, `${m.type} is not plain JSON data`);
+    }
+  });
+
+  it('rejects host messages the panel could not draw', () => {
+    const map = classificationMap(4, 3);
+    const bad: unknown[] = [
+      null,
+      { type: 'nope' },
+      { type: 'summary' },
+      { type: 'summary', summary: { ...classificationSummary(), task: 'clustering' } },
+      // JSON turns NaN into null; a strength must be a number.
+      { type: 'regionMap', map: clone({ ...map, cells: { ...map.cells, strength: [Number.NaN, ...(map.cells.task === 'classification' ? map.cells.strength.slice(1) : [])] } }) },
+      { type: 'regionMap', map: { ...map, nx: 5 } },
+      { type: 'regionMap', map: { ...map, x: { feature: 'c', kind: 'categorical', levels: ['a', 'b'] } } },
+      { type: 'regionMap', map: { ...map, x: { feature: 'a', kind: 'numeric', min: 2, max: 2 } } },
+      { type: 'regionMap', map: { ...map, points: { x: [1], y: [], target: [0], row: [1], total: 1 } } },
+      // A typed array is not plain data: postMessage to a webview would not keep it.
+      { type: 'disagreement', rows: [{ row: 1, counts: [1], agreement: 1, entropy: 0, oobVote: 0, label: 0, votes: new Float64Array([0]), outOfBag: [] }] },
+      { type: 'suspects', rows: [{ ...SUSPECTS[0], row: 0 }] },
+      { type: 'highlight', rows: [1.5] },
+      { type: 'status', state: 'busy', text: '', progress: null },
+    ];
+    for (const m of bad) assert.equal(isHostToPanel(m), false, JSON.stringify(m)?.slice(0, 120));
+  });
+
+  it('accepts the panel messages and rejects malformed ones', () => {
+    const good: PanelToHost[] = [
+      { type: 'ready', version: 1 },
+      { type: 'chooseMap', x: 'a', y: 'b', reference: { mode: 'typical' } },
+      { type: 'chooseMap', x: 'a', y: 'b', reference: { mode: 'row', row: 12 } },
+      { type: 'chooseMap', x: 'a', y: 'b', reference: { mode: 'averaged' } },
+      { type: 'openMap', x: 'a', y: 'b' },
+      { type: 'revealRow', row: 1 },
+      { type: 'refit', leaveOut: ['id'], trees: 200 },
+      { type: 'refit', leaveOut: [], trees: null },
+    ];
+    for (const m of good) assert.ok(isPanelToHost(m), JSON.stringify(m));
+    const bad: unknown[] = [
+      { type: 'ready' },
+      { type: 'chooseMap', x: 'a', y: 'b', reference: { mode: 'row' } },
+      { type: 'chooseMap', x: 'a', y: 'b', reference: { mode: 'medians' } },
+      { type: 'revealRow', row: 0 },
+      { type: 'revealRow', row: '3' },
+      { type: 'refit', leaveOut: [], trees: 0 },
+      { type: 'summary', summary: classificationSummary() },
+    ];
+    for (const m of bad) assert.equal(isPanelToHost(m), false, JSON.stringify(m));
+  });
+
+  it('checks the saved panel state before the panel trusts it', () => {
+    const state: PanelState = {
+      version: 1,
+      summary: classificationSummary(),
+      map: classificationMap(6, 5),
+      matrix: [],
+      suspects: SUSPECTS,
+      choice: { x: 'petal_len', y: 'petal_wid', reference: { mode: 'typical' } },
+    };
+    assert.ok(isPanelState(clone(state)));
+    assert.equal(isPanelState({ ...state, map: { nx: 1 } }), false);
+    assert.equal(isPanelState(undefined), false);
+  });
+
+  it('places grid cells at the centres of equal slices, and level cells on their codes', () => {
+    const axis = { feature: 'a', kind: 'numeric' as const, min: 0, max: 10 };
+    assert.deepEqual([0, 1, 4].map((i) => cellCentre(axis, 5, i)), [1, 3, 9]);
+    const levels = { feature: 'c', kind: 'categorical' as const, levels: ['x', 'y', 'z'] };
+    assert.deepEqual([0, 2].map((i) => cellCentre(levels, 3, i)), [0, 2]);
+    assert.deepEqual(axisSpan(levels), { min: -0.5, max: 2.5 });
+    assert.deepEqual(axisSpan(axis), { min: 0, max: 10 });
+  });
+});
