@@ -188,11 +188,11 @@ function residualBlock(s: FitSummary): HTMLElement | null {
   const r = scores?.residuals;
   if (!scores || !r) return null;
   const cells: Array<[string, number]> = [
-    ['lowest', r.min],
-    ['quarter', r.q1],
+    ['min', r.min],
+    ['25%', r.q1],
     ['median', r.median],
-    ['three quarters', r.q3],
-    ['highest', r.max],
+    ['75%', r.q3],
+    ['max', r.max],
   ];
   return h(
     'div',

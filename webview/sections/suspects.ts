@@ -42,7 +42,11 @@ export class SuspectsView {
     const { summary, theme } = this;
     if (!summary || !theme) return;
     if (this.rows.length === 0) {
-      append(this.root, h('p', { class: 'muted' }, 'None: for every training row, the trees that did not see it voted mostly for its own label.'));
+      const text =
+        summary.task === 'classification'
+          ? 'None: for every training row, the trees that did not see it voted mostly for its own label.'
+          : 'None listed for this fit.';
+      append(this.root, h('p', { class: 'muted' }, text));
       return;
     }
     const classification = summary.task === 'classification';

@@ -60,6 +60,7 @@ export class VotesView {
     const colourOf = (v: number) => (classification ? theme.classColour(v) : rampColour((v - lo) / (hi - lo)));
     const say = (v: number | null) => (v === null ? '–' : classification ? (summary.classes[v] ?? `class ${v}`) : num(v));
     for (const r of this.rows) append(this.list, this.rowBlock(r, classification, colourOf, say));
+    if (!classification) append(this.list, h('p', { class: 'muted' }, `Colour runs from the lowest vote shown, ${num(lo)} (dark), to the highest, ${num(hi)} (light).`));
   }
 
   private rowBlock(
