@@ -14,6 +14,8 @@ export interface BinnedMatrix {
   /** Value bins of each feature; the code valueBins[f] (when present) means missing. */
   readonly valueBins: Int32Array;
   readonly categorical: Uint8Array;
+  /** Numeric features: mean training value in each bin (empty for categorical ones). */
+  readonly centres: readonly (readonly number[])[];
 }
 
 /** Numeric edges from the training values: exact below MAX_BINS distinct values, quantiles above. */
@@ -126,6 +128,7 @@ export function binColumns(columns: readonly Column[], infos: readonly FeatureIn
   const bins = new Uint8Array(new SharedArrayBuffer(Math.max(1, n * p)));
   const valueBins = new Int32Array(p);
   const categorical = new Uint8Array(p);
+  const centres: number[][] = [];
   for (let f = 0; f < p; f++) {
     const col = columns[f];
     const info = infos[f];
@@ -133,11 +136,21 @@ export function binColumns(columns: readonly Column[], infos: readonly FeatureIn
       const edges = info.edges ?? [];
       valueBins[f] = edges.length + 1;
       const missing = valueBins[f];
+      const sum = new Float64Array(valueBins[f]);
+      const count = new Float64Array(valueBins[f]);
       for (let i = 0; i < n; i++) {
         const x = col.values[rows[i]];
-        bins[i * p + f] = Number.isNaN(x) ? missing : binOf(edges, x);
+        if (Number.isNaN(x)) bins[i * p + f] = missing;
+        else {
+          const b = binOf(edges, x);
+          bins[i * p + f] = b;
+          sum[b] += x;
+          count[b]++;
+        }
       }
+      centres.push(Array.from(sum, (s, b) => (count[b] ? s / count[b] : b < edges.length ? edges[b] : edges[edges.length - 1] ?? 0)));
     } else {
+      centres.push([]);
       categorical[f] = 1;
       const levels = info.levels ?? [];
       valueBins[f] = levels.length;
@@ -150,5 +163,5 @@ export function binColumns(columns: readonly Column[], infos: readonly FeatureIn
       }
     }
   }
-  return { rows: n, features: p, bins, valueBins, categorical };
+  return { rows: n, features: p, bins, valueBins, categorical, centres };
 }

@@ -29,6 +29,8 @@ export interface Table {
   readonly columns: readonly Column[];
   /** 1-based line in the file where each data row starts (quoted newlines make this differ from row + 1). */
   readonly lineOfRow: Int32Array;
+  /** 1-based data row in the file (the first row after the header is 1), where rows were dropped or sampled. */
+  readonly rowNumber?: Int32Array;
 }
 
 export function findColumn(table: Table, name: string): Column | undefined {

@@ -53,7 +53,7 @@ export function growOne(job: TrainingJob, t: number): TreeResult {
     }
   }
   const rowLeaf = new Int32Array(n);
-  const grown = growTree(job.data, job.edges, job.target, w, idx, job.settings, stream(job.seed, 'split', t), rowLeaf);
+  const grown = growTree(job.data, job.edges, job.data.centres, job.target, w, idx, job.settings, stream(job.seed, 'split', t), rowLeaf);
   const walk = binnedWalker(grown.tree, grown.splitBin, job.data);
   for (let i = 0; i < n; i++) if (inBag[i] === 0) rowLeaf[i] = walk(i, -1, 0);
   const permutation = job.permutation ? permutationIncrease(job, t, grown.tree, walk, inBag, rowLeaf) : null;

@@ -122,6 +122,7 @@ interface PendingNode {
 export function growTree(
   data: BinnedMatrix,
   edges: readonly (readonly number[])[],
+  centres: readonly (readonly number[])[],
   target: TargetData,
   w: Float64Array,
   idx: Int32Array,
@@ -201,10 +202,11 @@ export function growTree(
     if (best.categorical) {
       nodes.threshold[id] = nodes.addLevelSet(best.levelSet, (data.valueBins[f] + 31) >>> 5);
     } else {
-      nodes.splitBin[id] = best.bin;
       const e = edges[f];
+      const bin = best.nextBin < 0 ? best.bin : middleEdge(e, centres[f], best.bin, best.nextBin);
+      nodes.splitBin[id] = bin;
       // The last value bin has no upper edge: that split separates the values from the missing rows.
-      nodes.threshold[id] = best.bin < e.length ? e[best.bin] : Number.MAX_VALUE;
+      nodes.threshold[id] = bin < e.length ? e[bin] : Number.MAX_VALUE;
     }
     const l = nodes.add();
     const r = nodes.add();
@@ -267,6 +269,25 @@ function argmax(a: Float64Array): number {
   let b = 0;
   for (let k = 1; k < a.length; k++) if (a[k] > a[b]) b = k;
   return b;
+}
+
+/**
+ * Between the last bin going left (lo) and the next one holding rows (hi) lie bins this node has no rows in.
+ * Any edge from lo to hi - 1 splits the node alike; the one nearest the midpoint of the two bins' values
+ * leaves unseen values to the nearer side, as a threshold halfway between neighbouring values does.
+ */
+function middleEdge(edges: readonly number[], centres: readonly number[], lo: number, hi: number): number {
+  if (hi === lo + 1) return lo;
+  const mid = (centres[lo] + centres[hi]) / 2;
+  let a = lo;
+  let b = hi - 1;
+  while (a < b) {
+    const m = (a + b) >>> 1;
+    if (edges[m] < mid) a = m + 1;
+    else b = m;
+  }
+  if (a > lo && Math.abs(edges[a - 1] - mid) <= Math.abs(edges[a] - mid)) return a - 1;
+  return a;
 }
 
 /** Reorders idx[start..end) so rows going left come first; returns the first right position. */

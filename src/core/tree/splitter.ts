@@ -12,6 +12,8 @@ export interface SplitCandidate {
   feature: number;
   /** Numeric: bins <= bin go left. */
   bin: number;
+  /** Numeric: the next bin holding rows of the node (-1 when only missing rows lie right). */
+  nextBin: number;
   missingLeft: boolean;
   /** Whether the node had missing rows on this feature; without them the side for missing is still open. */
   sawMissing: boolean;
@@ -21,7 +23,7 @@ export interface SplitCandidate {
 }
 
 export function emptyCandidate(): SplitCandidate {
-  return { score: -Infinity, feature: -1, bin: -1, missingLeft: false, sawMissing: false, levelSet: new Uint32Array((SLOTS >>> 5) + 1), categorical: false };
+  return { score: -Infinity, feature: -1, bin: -1, nextBin: -1, missingLeft: false, sawMissing: false, levelSet: new Uint32Array((SLOTS >>> 5) + 1), categorical: false };
 }
 
 export class Histogram {
@@ -32,6 +34,7 @@ export class Histogram {
   private readonly left: Float64Array;
   private readonly right: Float64Array;
   private readonly order = new Int32Array(SLOTS);
+  private orderCount = 0;
   private readonly keys = new Float64Array(SLOTS);
 
   constructor(readonly channels: number) {
@@ -111,6 +114,7 @@ export class Histogram {
       m = 0;
       for (let b = 0; b < valueBins; b++) if (cnt[b] > 0) order[m++] = b;
     }
+    this.orderCount = m;
     const mo = valueBins * channels;
     left.fill(0);
     let leftCount = 0;
@@ -149,6 +153,7 @@ export class Histogram {
   private record(best: SplitCandidate, s: number, f: number, i: number, b: number, missingLeft: boolean, categorical: boolean, sawMissing: boolean): void {
     best.score = s;
     best.sawMissing = sawMissing;
+    best.nextBin = i + 1 < this.orderCount ? this.order[i + 1] : -1;
     best.feature = f;
     best.bin = b;
     best.missingLeft = missingLeft;

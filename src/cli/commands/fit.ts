@@ -1,0 +1,163 @@
+import { loadCsv } from '../../core/csv/load';
+import type { LoadOptions } from '../../core/csv/types';
+import type { ColumnKind } from '../../core/data/table';
+import { fitForest } from '../../core/forest/fit';
+import { parseFeaturesPerSplit, type ForestParams } from '../../core/forest/params';
+import { summarizeFit } from '../../core/forest/summary';
+import { saveModel } from '../../core/model/file';
+import { choice, flag, fraction, list, parse, text, UsageError, wholeNumber, type Options } from '../args';
+import { progressBar } from '../progress';
+import { fitReport } from '../report';
+
+export const FIT_HELP = `Usage: copse fit DATA.csv --target COLUMN [options]
+
+Fits a random forest on a CSV file and reports out-of-bag scores, importance and doubtful rows.
+
+Options:
+  --target COLUMN            the column to predict (required)
+  --task KIND                classification or regression (inferred from the target when absent)
+  --trees N                  number of trees (default 100)
+  --features-per-split K     features tried at each split: sqrt, third, log2, all, a whole number,
+                             or a fraction of the features (default sqrt for classification, third for regression)
+  --max-depth N              deepest level a tree may grow to (default: no limit)
+  --min-split N              fewest rows a node needs to be split (default 2)
+  --min-leaf N               fewest rows in a leaf (default 1)
+  --criterion NAME           gini or entropy (classification), squared-error (regression)
+  --sample-fraction F        rows drawn per tree, as a fraction of the training rows (default 1)
+  --without-replacement      draw each tree's rows without replacement instead of a bootstrap sample
+  --class-weight MODE        none or balanced (default none)
+  --seed N                   seed for every random choice; the same seed gives the same forest (default 1)
+  --workers N                worker threads (default: one per core)
+  --holdout F                hold out this fraction of rows and score the forest on them
+  --test TEST.csv            score the forest on a separate file with the same columns
+  --exclude A,B              leave these columns out
+  --type COLUMN=KIND         read COLUMN as numeric, categorical or boolean (repeatable)
+  --missing TOKENS           comma-separated cell values that mean missing (default: empty,NA,N/A,NaN,null,?,-)
+  --sample-rows N            fit on a uniform random sample of N rows
+  --no-importance            skip permutation importance (faster on large files)
+  --save MODEL.json          save the forest to this file
+  --json                     print one JSON object instead of the report
+  --debug                    show stack traces on errors
+`;
+
+const OPTIONS: Options = {
+  target: { type: 'string' },
+  task: { type: 'string' },
+  trees: { type: 'string' },
+  'features-per-split': { type: 'string' },
+  'max-depth': { type: 'string' },
+  'min-split': { type: 'string' },
+  'min-leaf': { type: 'string' },
+  criterion: { type: 'string' },
+  'sample-fraction': { type: 'string' },
+  'without-replacement': { type: 'boolean' },
+  'class-weight': { type: 'string' },
+  seed: { type: 'string' },
+  workers: { type: 'string' },
+  holdout: { type: 'string' },
+  test: { type: 'string' },
+  exclude: { type: 'string', multiple: true },
+  type: { type: 'string', multiple: true },
+  missing: { type: 'string' },
+  'sample-rows': { type: 'string' },
+  'no-importance': { type: 'boolean' },
+  save: { type: 'string' },
+  json: { type: 'boolean' },
+};
+
+function columnTypes(specs: string[]): Record<string, ColumnKind> {
+  const out: Record<string, ColumnKind> = Object.create(null);
+  for (const spec of specs) {
+    const at = spec.lastIndexOf('=');
+    const kind = spec.slice(at + 1);
+    if (at <= 0 || !['numeric', 'categorical', 'boolean'].includes(kind)) {
+      throw new UsageError(`--type takes COLUMN=numeric, COLUMN=categorical or COLUMN=boolean; got "${spec}".`);
+    }
+    out[spec.slice(0, at)] = kind as ColumnKind;
+  }
+  return out;
+}
+
+export async function runFit(argv: string[]): Promise<void> {
+  const args = parse('fit', argv, OPTIONS, 1);
+  if (flag(args, 'help')) return void process.stdout.write(FIT_HELP);
+  const target = text(args, 'target');
+  if (!target) throw new UsageError('copse fit needs --target COLUMN: the column to predict.', 'fit');
+  const holdout = fraction(args, 'holdout');
+  const testPath = text(args, 'test');
+  if (holdout !== undefined && testPath) throw new UsageError('Give either --holdout or --test, not both.', 'fit');
+  const fps = text(args, 'features-per-split');
+  const params: Partial<ForestParams> = {};
+  const set = <K extends keyof ForestParams>(k: K, v: ForestParams[K] | undefined) => {
+    if (v !== undefined) (params as Record<string, unknown>)[k] = v;
+  };
+  set('trees', wholeNumber(args, 'trees', 1));
+  try {
+    set('featuresPerSplit', fps === undefined ? undefined : parseFeaturesPerSplit(fps));
+  } catch (e) {
+    throw new UsageError(`--features-per-split: ${(e as Error).message}`, 'fit');
+  }
+  set('maxDepth', wholeNumber(args, 'max-depth', 1));
+  set('minSplit', wholeNumber(args, 'min-split', 2));
+  set('minLeaf', wholeNumber(args, 'min-leaf', 1));
+  set('criterion', choice(args, 'criterion', ['gini', 'entropy', 'squared-error'] as const));
+  const sf = text(args, 'sample-fraction');
+  if (sf !== undefined) {
+    const v = Number(sf);
+    if (!(v > 0 && v <= 1)) throw new UsageError(`--sample-fraction takes a fraction in (0, 1]; got "${sf}".`, 'fit');
+    set('sampleFraction', v);
+  }
+  if (flag(args, 'without-replacement')) set('replace', false);
+  set('classWeight', choice(args, 'class-weight', ['none', 'balanced'] as const));
+  const seed = text(args, 'seed');
+  if (seed !== undefined) {
+    if (!/^-?\d+$/.test(seed)) throw new UsageError(`--seed takes a whole number; got "${seed}".`, 'fit');
+    set('seed', Number(seed));
+  }
+  const task = choice(args, 'task', ['classification', 'regression'] as const);
+  const missing = text(args, 'missing');
+  const loadOptions: LoadOptions = {
+    target,
+    columnTypes: columnTypes(list(args, 'type')),
+    missingTokens: missing === undefined ? undefined : missing.split(',').map((s) => s.trim()),
+    sampleRows: wholeNumber(args, 'sample-rows', 1),
+    sampleSeed: params.seed,
+  };
+  const json = flag(args, 'json');
+
+  const t0 = performance.now();
+  const loaded = await loadCsv(args.positionals[0], loadOptions);
+  let test;
+  if (testPath) {
+    // The test file is read with the training file's column types, so a column cannot change type between them.
+    const kinds: Record<string, ColumnKind | 'exclude'> = Object.create(null);
+    for (const c of loaded.table.columns) kinds[c.name] = c.kind;
+    for (const d of loaded.dropped) kinds[d.name] = 'exclude';
+    test = (await loadCsv(testPath, { ...loadOptions, sampleRows: undefined, columnTypes: kinds })).table;
+  }
+  const loadSeconds = (performance.now() - t0) / 1000;
+  const bar = json ? undefined : progressBar('Growing trees');
+  const report = await fitForest(loaded.table, {
+    target,
+    task,
+    params,
+    exclude: list(args, 'exclude'),
+    workers: wholeNumber(args, 'workers', 1),
+    holdout,
+    test,
+    permutationImportance: !flag(args, 'no-importance'),
+    onProgress: (d, t) => bar?.update(d, t),
+    fingerprint: loaded.fingerprint,
+    dropped: loaded.dropped,
+  });
+  bar?.end();
+  const savePath = text(args, 'save');
+  if (savePath) await saveModel(savePath, report.forest);
+  const summary = summarizeFit(report, loaded.table, { notes: loaded.notes, warnings: loaded.warnings });
+  const seconds = { load: loadSeconds, fit: report.seconds.fit };
+  if (json) {
+    process.stdout.write(JSON.stringify({ ...summary, seconds, model: savePath ?? null }, null, 2) + '\n');
+  } else {
+    process.stdout.write(fitReport(summary, seconds, savePath));
+  }
+}

@@ -1,0 +1,91 @@
+import { argmaxAt } from '../../core/metrics/scores';
+import { encodeTable, predictEncoded } from '../../core/forest/predict';
+import { loadForScoring } from '../../core/forest/score-file';
+import { dataRowOf } from '../../core/forest/summary';
+import { loadModel } from '../../core/model/file';
+import { flag, list, parse, UsageError, type Options } from '../args';
+
+export const VOTES_HELP = `Usage: copse votes MODEL.json DATA.csv --rows 1,7,12 [--json]
+
+Shows how every tree of a saved forest votes on chosen rows of DATA.csv.
+Rows are counted from 1: the first row after the header is row 1.
+
+Options:
+  --rows LIST   comma-separated data row numbers (required)
+  --json        print one JSON object
+  --debug       show stack traces on errors
+`;
+
+const OPTIONS: Options = { rows: { type: 'string' }, json: { type: 'boolean' } };
+
+interface VoteRow {
+  row: number;
+  line: number;
+  prediction: string | number;
+  probabilities?: Record<string, number>;
+  counts?: Record<string, number>;
+  agreement?: number;
+  spread?: number;
+  trees: Array<string | number>;
+}
+
+export async function runVotes(argv: string[]): Promise<void> {
+  const args = parse('votes', argv, OPTIONS, 2);
+  if (flag(args, 'help')) return void process.stdout.write(VOTES_HELP);
+  const wanted = list(args, 'rows').map((r) => {
+    const n = Number(r);
+    if (!Number.isInteger(n) || n < 1) throw new UsageError(`--rows takes data row numbers counted from 1; got "${r}".`, 'votes');
+    return n;
+  });
+  if (wanted.length === 0) throw new UsageError('copse votes needs --rows, such as --rows 1,7,12.', 'votes');
+  const [modelPath, dataPath] = args.positionals;
+  const forest = await loadModel(modelPath);
+  const loaded = await loadForScoring(dataPath, forest.schema);
+  const table = loaded.table;
+  const index = new Map<number, number>();
+  for (let i = 0; i < table.rowCount; i++) index.set(dataRowOf(table, i), i);
+  const missing = wanted.filter((r) => !index.has(r));
+  if (missing.length) throw new UsageError(`${dataPath} has ${table.rowCount} data rows; there is no row ${missing.join(', ')}.`, 'votes');
+  const all = encodeTable(forest.schema, table, dataPath);
+  const p = forest.schema.features.length;
+  const x = new Float64Array(wanted.length * p);
+  wanted.forEach((r, j) => x.set(all.subarray(index.get(r)! * p, (index.get(r)! + 1) * p), j * p));
+  const pred = predictEncoded(forest, x, wanted.length);
+  const target = forest.schema.target;
+  const T = forest.trees.length;
+  const rows = wanted.map((r, j): VoteRow => {
+    const treeVotes = Array.from({ length: T }, (_, t) => pred.votes[t * wanted.length + j]);
+    const line = table.lineOfRow[index.get(r)!];
+    if (target.task === 'classification') {
+      const classes = target.classes!;
+      const counts: Record<string, number> = Object.create(null);
+      for (const c of classes) counts[c] = 0;
+      for (const v of treeVotes) counts[classes[v]]++;
+      const K = classes.length;
+      return {
+        row: r,
+        line,
+        prediction: classes[argmaxAt(pred.proba!, j * K, K)],
+        probabilities: Object.fromEntries(classes.map((c, k) => [c, pred.proba![j * K + k]])),
+        counts,
+        agreement: pred.agreement![j],
+        trees: treeVotes.map((v) => classes[v]),
+      };
+    }
+    return { row: r, line, prediction: pred.predicted[j], spread: pred.spread![j], trees: treeVotes };
+  });
+  if (flag(args, 'json')) {
+    process.stdout.write(JSON.stringify({ task: target.task, target: target.name, trees: T, rows }, null, 2) + '\n');
+    return;
+  }
+  let out = '';
+  for (const r of rows) {
+    if (r.counts && r.agreement !== undefined) {
+      const counts = Object.entries(r.counts).map(([c, n]) => `${c} ${n}`).join(', ');
+      out += `Row ${r.row} (line ${r.line}): predicted "${r.prediction}"; ${T} trees voted ${counts}; agreement ${(r.agreement * 100).toFixed(0)}%\n`;
+    } else {
+      out += `Row ${r.row} (line ${r.line}): predicted ${Number(r.prediction).toPrecision(6)}; spread across ${T} trees ${Number(r.spread).toPrecision(4)}\n`;
+    }
+  }
+  process.stdout.write(out);
+}

@@ -1,0 +1,194 @@
+// The saved model: one JSON file, validated field by field on the way in and written atomically on the way out.
+import { randomBytes } from 'node:crypto';
+import { promises as fs } from 'node:fs';
+import type { ColumnKind, DroppedColumn } from '../data/table';
+import type { Forest } from '../forest/forest';
+import { validateParams, type ForestParams } from '../forest/params';
+import type { FlatTree } from '../tree/tree';
+import { outputCount, type FeatureInfo, type Schema, type TargetInfo } from './schema';
+import { ModelError, Reader, type Json } from './validate';
+
+export { ModelError } from './validate';
+
+export const MODEL_FORMAT = 'copse-forest';
+export const MODEL_VERSION = 1;
+
+export function serializeModel(forest: Forest): string {
+  const doc = {
+    format: MODEL_FORMAT,
+    version: MODEL_VERSION,
+    schema: forest.schema,
+    params: forest.params,
+    training: forest.training,
+    trees: forest.trees.map((t) => ({
+      nodes: t.nodeCount,
+      left: Array.from(t.left),
+      right: Array.from(t.right),
+      feature: Array.from(t.feature),
+      threshold: Array.from(t.threshold),
+      missingLeft: Array.from(t.missingLeft),
+      value: Array.from(t.value),
+      cover: Array.from(t.cover),
+      levelSets: Array.from(t.catBits),
+    })),
+  };
+  return JSON.stringify(doc);
+}
+
+/** Writes to a temporary file beside the target, then renames: readers never see half a model. */
+export async function saveModel(path: string, forest: Forest): Promise<void> {
+  const tmp = `${path}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`;
+  try {
+    await fs.writeFile(tmp, serializeModel(forest), { flag: 'wx' });
+    await fs.rename(tmp, path);
+  } catch (e) {
+    await fs.rm(tmp, { force: true });
+    throw e;
+  }
+}
+
+export async function loadModel(path: string): Promise<Forest> {
+  let text: string;
+  try {
+    text = await fs.readFile(path, 'utf8');
+  } catch (e) {
+    throw new ModelError(`Cannot read the model ${path}: ${(e as Error).message}`);
+  }
+  return parseModel(text, path);
+}
+
+export function parseModel(text: string, label = 'the model'): Forest {
+  const r = new Reader(label);
+  let json: Json;
+  try {
+    json = JSON.parse(text);
+  } catch {
+    throw new ModelError(`${label} is not a valid Copse model: it is not complete JSON (truncated or damaged?).`);
+  }
+  const doc = r.object(json, 'the file');
+  if (doc.format !== MODEL_FORMAT) r.fail('format', `should be "${MODEL_FORMAT}"`);
+  const version = r.integer(r.field(doc, 'version', ''), 'version', 1);
+  if (version > MODEL_VERSION) throw new ModelError(`${label} was written by a newer Copse (model version ${version}); this one reads version ${MODEL_VERSION}.`);
+  const schema = readSchema(r, r.object(r.field(doc, 'schema', ''), 'schema'));
+  const params = readParams(r, r.object(r.field(doc, 'params', ''), 'params'));
+  if (params.task !== schema.target.task) r.fail('params.task', 'does not match schema.target.task');
+  const training = r.object(r.field(doc, 'training', ''), 'training');
+  const dropped: DroppedColumn[] = r.array(r.field(training, 'dropped', 'training'), 'training.dropped').map((d, i) => {
+    const o = r.object(d, `training.dropped[${i}]`);
+    return { name: r.string(r.field(o, 'name', ''), `training.dropped[${i}].name`), reason: r.string(r.field(o, 'reason', ''), `training.dropped[${i}].reason`) };
+  });
+  const trees = r.array(r.field(doc, 'trees', ''), 'trees', params.trees).map((t, i) => readTree(r, t, `trees[${i}]`, schema));
+  return {
+    schema,
+    params,
+    trees,
+    training: {
+      rows: r.integer(r.field(training, 'rows', 'training'), 'training.rows', 1),
+      fingerprint: r.string(r.field(training, 'fingerprint', 'training'), 'training.fingerprint'),
+      dropped,
+    },
+  };
+}
+
+const KINDS: readonly ColumnKind[] = ['numeric', 'categorical', 'boolean'];
+
+function readSchema(r: Reader, o: Record<string, Json>): Schema {
+  const seen = new Set<string>();
+  const features = r.array(r.field(o, 'features', 'schema'), 'schema.features').map((f, i): FeatureInfo => {
+    const path = `schema.features[${i}]`;
+    const fo = r.object(f, path);
+    const name = r.string(r.field(fo, 'name', path), `${path}.name`);
+    if (seen.has(name)) r.fail(`${path}.name`, `repeats the feature "${name}"`);
+    seen.add(name);
+    const kind = r.oneOf(r.field(fo, 'kind', path), `${path}.kind`, KINDS);
+    const hadMissing = r.boolean(r.field(fo, 'hadMissing', path), `${path}.hadMissing`);
+    const refValue = r.field(fo, 'reference', path);
+    if (kind === 'numeric') {
+      const edges = Array.from(r.numbers(r.field(fo, 'edges', path), `${path}.edges`, Float64Array, undefined, Number.isFinite, 'should be a finite number'));
+      for (let j = 1; j < edges.length; j++) if (!(edges[j] > edges[j - 1])) r.fail(`${path}.edges`, 'should be increasing');
+      if (edges.length > 255) r.fail(`${path}.edges`, 'has more than 255 entries');
+      // A column that was all missing in training has no median; it is stored as null.
+      const reference = refValue === null ? NaN : r.number(refValue, `${path}.reference`);
+      return { name, kind, edges, hadMissing, reference };
+    }
+    const levels = r.array(r.field(fo, 'levels', path), `${path}.levels`).map((l, j) => r.string(l, `${path}.levels[${j}]`));
+    if (levels.length < 1 || levels.length > 256) r.fail(`${path}.levels`, 'should have 1 to 256 entries');
+    return { name, kind, levels, hadMissing, reference: r.integer(refValue, `${path}.reference`, 0, levels.length - 1) };
+  });
+  if (features.length === 0) r.fail('schema.features', 'is empty');
+  const to = r.object(r.field(o, 'target', 'schema'), 'schema.target');
+  const task = r.oneOf(r.field(to, 'task', 'schema.target'), 'schema.target.task', ['classification', 'regression'] as const);
+  const target: TargetInfo = { name: r.string(r.field(to, 'name', 'schema.target'), 'schema.target.name'), task };
+  if (task === 'classification') {
+    const classes = r.array(r.field(to, 'classes', 'schema.target'), 'schema.target.classes').map((c, j) => r.string(c, `schema.target.classes[${j}]`));
+    if (classes.length < 2 || classes.length > 65535) r.fail('schema.target.classes', 'should have at least 2 entries');
+    return { features, target: { ...target, classes } };
+  }
+  return { features, target };
+}
+
+function readParams(r: Reader, o: Record<string, Json>): ForestParams {
+  const f = (k: string) => r.field(o, k, 'params');
+  const fps = f('featuresPerSplit');
+  const params: ForestParams = {
+    task: r.oneOf(f('task'), 'params.task', ['classification', 'regression'] as const),
+    trees: r.integer(f('trees'), 'params.trees', 1, 100000),
+    featuresPerSplit: typeof fps === 'number' ? r.number(fps, 'params.featuresPerSplit') : r.oneOf(fps, 'params.featuresPerSplit', ['sqrt', 'third', 'log2', 'all'] as const),
+    criterion: r.oneOf(f('criterion'), 'params.criterion', ['gini', 'entropy', 'squared-error'] as const),
+    maxDepth: f('maxDepth') === null ? null : r.integer(f('maxDepth'), 'params.maxDepth', 1),
+    minSplit: r.integer(f('minSplit'), 'params.minSplit', 2),
+    minLeaf: r.integer(f('minLeaf'), 'params.minLeaf', 1),
+    sampleFraction: r.number(f('sampleFraction'), 'params.sampleFraction'),
+    replace: r.boolean(f('replace'), 'params.replace'),
+    classWeight: r.oneOf(f('classWeight'), 'params.classWeight', ['none', 'balanced'] as const),
+    seed: r.integer(f('seed'), 'params.seed', Number.MIN_SAFE_INTEGER),
+  };
+  try {
+    validateParams(params);
+  } catch (e) {
+    r.fail('params', `are out of range (${(e as Error).message})`);
+  }
+  return params;
+}
+
+function readTree(r: Reader, v: Json, path: string, schema: Schema): FlatTree {
+  const o = r.object(v, path);
+  const n = r.integer(r.field(o, 'nodes', path), `${path}.nodes`, 1, 50_000_000);
+  const p = schema.features.length;
+  const K = outputCount(schema.target);
+  const list = <T extends Float64Array | Float32Array | Int32Array | Uint8Array | Uint32Array>(
+    key: string,
+    make: new (n: number) => T,
+    length: number,
+    check: (x: number) => boolean,
+    rule: string,
+  ) => r.numbers(r.field(o, key, path), `${path}.${key}`, make, length, check, rule);
+  const isIndex = (x: number) => Number.isInteger(x) && x >= -1 && x < n;
+  const left = list('left', Int32Array, n, isIndex, `should be -1 or a node index below ${n}`);
+  const right = list('right', Int32Array, n, isIndex, `should be -1 or a node index below ${n}`);
+  const feature = list('feature', Int32Array, n, (x) => Number.isInteger(x) && x >= -1 && x < p, `should be -1 or a feature index below ${p}`);
+  const threshold = list('threshold', Float64Array, n, Number.isFinite, 'should be a finite number');
+  const missingLeft = list('missingLeft', Uint8Array, n, (x) => x === 0 || x === 1, 'should be 0 or 1');
+  const value = list('value', Float32Array, n * K, Number.isFinite, 'should be a finite number');
+  const cover = list('cover', Float32Array, n, (x) => Number.isFinite(x) && x >= 0, 'should be a number >= 0');
+  const catBits = r.numbers(r.field(o, 'levelSets', path), `${path}.levelSets`, Uint32Array, undefined, (x) => Number.isInteger(x) && x >= 0 && x <= 0xffffffff, 'should be a 32-bit word');
+  // Children after parents and each node reached once: the walk always ends, and the arrays form one tree.
+  const reached = new Uint8Array(n);
+  for (let i = 0; i < n; i++) {
+    const leaf = left[i] < 0;
+    if (leaf !== right[i] < 0 || leaf !== feature[i] < 0) r.fail(`${path} node ${i}`, 'mixes leaf and split fields');
+    if (leaf) continue;
+    for (const c of [left[i], right[i]]) {
+      if (c <= i) r.fail(`${path} node ${i}`, 'has a child that does not come after it');
+      if (reached[c]++) r.fail(`${path} node ${c}`, 'has more than one parent');
+    }
+    const info = schema.features[feature[i]];
+    if (info.kind !== 'numeric') {
+      const words = ((info.levels?.length ?? 0) + 31) >>> 5;
+      const at = threshold[i];
+      if (!Number.isInteger(at) || at < 0 || at + words > catBits.length) r.fail(`${path}.threshold[${i}]`, 'should point at a level set inside levelSets');
+    }
+  }
+  for (let i = 1; i < n; i++) if (!reached[i]) r.fail(`${path} node ${i}`, 'is not reached from the root');
+  return { nodeCount: n, left, right, feature, threshold, missingLeft, value, cover, catBits };
+}

@@ -1,0 +1,88 @@
+import * as assert from 'node:assert/strict';
+import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import * as path from 'node:path';
+import { fitForest } from '../../src/core/forest/fit';
+import type { Forest } from '../../src/core/forest/forest';
+import { predictTable } from '../../src/core/forest/predict';
+import { loadModel, ModelError, parseModel, saveModel, serializeModel } from '../../src/core/model/file';
+import { threeClass } from './helpers/synthetic';
+
+describe('model file', () => {
+  let forest: Forest;
+  let text: string;
+  const table = threeClass(300);
+  before(async () => {
+    forest = (await fitForest(table, { target: 'label', params: { trees: 6 }, workers: 2, fingerprint: 'abc' })).forest;
+    text = serializeModel(forest);
+  });
+
+  it('round-trips: the loaded forest predicts exactly as the fitted one', async () => {
+    const dir = mkdtempSync(path.join(tmpdir(), 'copse-model-'));
+    const file = path.join(dir, 'm.json');
+    await saveModel(file, forest);
+    assert.deepEqual(readdirSync(dir), ['m.json'], 'no temporary file is left behind');
+    const back = await loadModel(file);
+    assert.equal(serializeModel(back), text);
+    const a = predictTable(forest, table);
+    const b = predictTable(back, table);
+    assert.deepEqual(a.proba, b.proba);
+    assert.equal(back.training.fingerprint, 'abc');
+  });
+
+  it('names its format and version', () => {
+    const doc = JSON.parse(text);
+    assert.equal(doc.format, 'copse-forest');
+    assert.equal(doc.version, 1);
+  });
+
+  const mutate = (f: (doc: any) => void) => {
+    const doc = JSON.parse(text);
+    f(doc);
+    return JSON.stringify(doc);
+  };
+
+  const refusals: Array<[string, () => string, RegExp]> = [
+    ['a truncated file', () => text.slice(0, text.length / 2), /not complete JSON/],
+    ['another format', () => mutate((d) => (d.format = 'something-else')), /format should be "copse-forest"/],
+    ['a newer version', () => mutate((d) => (d.version = 99)), /newer Copse/],
+    ['a child index out of range', () => mutate((d) => (d.trees[0].left[0] = 1e6)), /trees\[0\]\.left\[0\]/],
+    ['a cycle (child before parent)', () => mutate((d) => {
+      const t = d.trees[0];
+      const c = t.left[0];
+      t.left[c] = 0;
+      t.right[c] = 0;
+      t.feature[c] = 0;
+    }), /does not come after it|more than one parent/],
+    ['a feature index out of range', () => mutate((d) => (d.trees[0].feature[0] = 500)), /feature\[0\]/],
+    ['a wrong array length', () => mutate((d) => d.trees[0].value.pop()), /value should have/],
+    ['a non-numeric threshold', () => mutate((d) => (d.trees[0].threshold[0] = 'x')), /threshold\[0\]/],
+    ['fewer trees than it says', () => mutate((d) => d.trees.pop()), /trees should have 6 entries/],
+    ['a missing schema', () => mutate((d) => delete d.schema), /schema is missing/],
+    ['out-of-range parameters', () => mutate((d) => (d.params.minLeaf = 0)), /params\.minLeaf/],
+    ['a task that disagrees with its target', () => mutate((d) => (d.params.task = 'regression')), /criterion|task/],
+  ];
+  for (const [what, make, message] of refusals) {
+    it(`refuses ${what} with a clear message`, () => {
+      assert.throws(() => parseModel(make(), 'm.json'), (e: Error) => e instanceof ModelError && message.test(e.message) && e.message.startsWith('m.json'));
+    });
+  }
+
+  it('treats keys such as __proto__ as plain data', () => {
+    const hostile = text.replace('{"format"', '{"__proto__":{"polluted":true},"constructor":{"prototype":{"polluted":true}},"format"');
+    const back = parseModel(hostile);
+    assert.equal(({} as Record<string, unknown>).polluted, undefined);
+    assert.equal(Object.getPrototypeOf(back), Object.prototype);
+    assert.equal(serializeModel(back), text);
+  });
+
+  it('leaves an existing model untouched when a save fails', async () => {
+    const dir = mkdtempSync(path.join(tmpdir(), 'copse-model-'));
+    const file = path.join(dir, 'm.json');
+    writeFileSync(file, 'old');
+    const broken = { ...forest, trees: [{ ...forest.trees[0], left: { length: 1, [Symbol.iterator]: () => { throw new Error('disk full'); } } }] } as unknown as Forest;
+    await assert.rejects(saveModel(file, broken));
+    assert.equal(readFileSync(file, 'utf8'), 'old');
+    assert.deepEqual(readdirSync(dir), ['m.json']);
+  });
+});
