@@ -102,8 +102,10 @@ async function main(): Promise<void> {
       { label: `(a) fit ${fmtRows(SMALL_ROWS - testRows)} x ${FEATURES}, ${settings.trees} trees (s)`, kind: 'seconds', values: sides.map((x) => s(x)?.fit) },
       { label: `(a) holdout accuracy (${fmtRows(testRows)} rows)`, kind: 'accuracy', values: sides.map((x) => s(x)?.testAccuracy) },
       { label: '(a) out-of-bag accuracy', kind: 'accuracy', values: sides.map((x) => s(x)?.oobAccuracy) },
+      { label: '(a) fit with permutation importance (s)', kind: 'seconds', values: sides.map((x) => s(x)?.fitWithImportance) },
       { label: '(a) peak memory, fit (MB)', kind: 'megabytes', values: sides.map((x) => s(x)?.peakMegabytes) },
       { label: `(b) predict ${fmtRows(PREDICT_ROWS)} rows (s)`, kind: 'seconds', values: sides.map((x) => s(x)?.predict) },
+      { label: '(b) accuracy on those rows', kind: 'accuracy', values: sides.map((x) => s(x)?.predictAccuracy) },
     ];
     if (!values['skip-large']) {
       rows.push(

@@ -1,6 +1,6 @@
 // The three implementations, each driven through its own command line on the same files with the
 // same forest settings. Copse is run through its CLI (bin/copse.js), as a user would run it.
-import { existsSync } from 'node:fs';
+import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { numberAt, runProcess, type ProcessResult } from './run-process';
 
@@ -24,9 +24,13 @@ export interface SmallCase {
 /** Figures for cases (a) and (b). Times in seconds; undefined when the side did not report them. */
 export interface SmallResult {
   readonly fit?: number;
+  /** Copse only: the same fit with permutation importance on (its default), which the others skip. */
+  readonly fitWithImportance?: number;
   readonly load?: number;
   readonly predict?: number;
   readonly testAccuracy?: number;
+  /** Accuracy on the prediction file, from the predictions each side wrote: checks the saved model. */
+  readonly predictAccuracy?: number;
   readonly oobAccuracy?: number;
   readonly predictRows?: number;
   readonly peakMegabytes?: number;
@@ -60,6 +64,21 @@ function failure(what: string, r: ProcessResult): string {
   return `${what} failed (exit ${r.exitCode}): ${r.firstError && !tail.includes(r.firstError) ? r.firstError + ' ... ' : ''}${tail}`;
 }
 
+/** Share of rows whose `predicted` column equals `actual`, from a CSV with plain unquoted cells. */
+function accuracyFromCsv(file: string, actual: string, predicted: string): number | undefined {
+  const lines = readFileSync(file, 'utf8').split('\n').filter((l) => l.length > 0);
+  const header = lines[0].split(',');
+  const a = header.indexOf(actual);
+  const p = header.indexOf(predicted);
+  if (a < 0 || p < 0 || lines.length < 2) return undefined;
+  let right = 0;
+  for (let i = 1; i < lines.length; i++) {
+    const cells = lines[i].split(',');
+    if (cells[a] === cells[p]) right++;
+  }
+  return right / (lines.length - 1);
+}
+
 // ------------------------------------------------------------------------------------------------
 // Copse: `copse fit ... --json` and `copse predict ... --json`.
 
@@ -70,28 +89,41 @@ export function copseSide(repoRoot: string): Side {
     cli, 'fit', file, '--target', s.target, '--task', 'classification', '--trees', String(s.trees),
     '--features-per-split', String(s.featuresPerSplit), '--seed', String(s.seed), '--workers', String(s.workers), '--json',
   ];
+  let version: string | undefined;
   return {
     name: 'Copse',
+    get version() {
+      return version;
+    },
     async available() {
       const r = await runProcess(node, [cli, '--help'], { timeoutSeconds: 60 });
       if (r.exitCode !== 0) return `copse --help failed: ${r.firstError ?? r.stderrTail.split('\n')[0] ?? ''}`;
+      const pkg: unknown = JSON.parse(readFileSync(path.join(repoRoot, 'package.json'), 'utf8'));
+      version = pkg && typeof pkg === 'object' && 'version' in pkg ? String(pkg.version) : undefined;
       return true;
     },
     async small(files, s) {
       const notes: string[] = [];
       const model = path.join(files.modelDir, 'copse-model.json');
-      const fit = await runProcess(node, [...fitArgs(files.train, s), '--test', files.test, '--save', model], { timeoutSeconds: HOUR });
+      // --no-importance: sklearn and ranger are timed without permutation importance, so Copse is too;
+      // the run with it (Copse's default) is timed separately below.
+      const fit = await runProcess(node, [...fitArgs(files.train, s), '--no-importance', '--test', files.test, '--save', model], { timeoutSeconds: HOUR });
       if (!fit.ok) return { notes: [failure('copse fit', fit)] };
       let fitSeconds = numberAt(fit.json, 'seconds.fit');
       if (fitSeconds === undefined) {
         fitSeconds = fit.wallSeconds;
         notes.push('copse fit JSON has no seconds.fit: wall time of the whole command shown');
       }
+      const withImportance = await runProcess(node, fitArgs(files.train, s), { timeoutSeconds: HOUR });
+      if (!withImportance.ok) notes.push(failure('copse fit with importance', withImportance));
       const out = path.join(files.modelDir, 'copse-predictions.csv');
       const pred = await runProcess(node, [cli, 'predict', model, files.predict, '--out', out, '--json'], { timeoutSeconds: HOUR });
       let predictSeconds: number | undefined;
+      let predictAccuracy: number | undefined;
       if (!pred.ok) notes.push(failure('copse predict', pred));
       else {
+        predictAccuracy = accuracyFromCsv(out, s.target, `predicted ${s.target}`);
+        if (predictAccuracy === undefined) notes.push(`copse predict: no "predicted ${s.target}" column in ${path.basename(out)} to score`);
         predictSeconds = numberAt(pred.json, 'seconds.predict');
         if (predictSeconds === undefined) {
           predictSeconds = pred.wallSeconds;
@@ -100,8 +132,10 @@ export function copseSide(repoRoot: string): Side {
       }
       return {
         fit: fitSeconds,
+        fitWithImportance: withImportance.ok ? numberAt(withImportance.json, 'seconds.fit') : undefined,
         load: numberAt(fit.json, 'seconds.load'),
         predict: predictSeconds,
+        predictAccuracy,
         testAccuracy: numberAt(fit.json, 'test.accuracy'),
         oobAccuracy: numberAt(fit.json, 'oob.accuracy'),
         predictRows: pred.ok ? numberAt(pred.json, 'rows') : undefined,
@@ -110,7 +144,7 @@ export function copseSide(repoRoot: string): Side {
       };
     },
     async large(file, s) {
-      const r = await runProcess(node, fitArgs(file, s), { timeoutSeconds: 3 * HOUR });
+      const r = await runProcess(node, [...fitArgs(file, s), '--no-importance'], { timeoutSeconds: 3 * HOUR });
       if (!r.ok) return { wallSeconds: r.wallSeconds, peakMegabytes: r.peakMegabytes, notes: [failure('copse fit', r)] };
       return {
         load: numberAt(r.json, 'seconds.load'),
@@ -155,6 +189,7 @@ function scriptSide(name: SideName, interpreter: string, script: string, probe: 
         predict: numberAt(r.json, 'seconds.predict'),
         testAccuracy: numberAt(r.json, 'test.accuracy'),
         oobAccuracy: numberAt(r.json, 'oob.accuracy'),
+        predictAccuracy: numberAt(r.json, 'predictAccuracy'),
         predictRows: numberAt(r.json, 'predictRows'),
         peakMegabytes: r.peakMegabytes,
         notes: [],
