@@ -1,0 +1,65 @@
+// "Copse: Predict into a new CSV": scores a CSV with the active forest and writes a copy with the
+// prediction columns appended. The input is never overwritten.
+
+import { promises as fs } from 'node:fs';
+import * as path from 'node:path';
+import * as vscode from 'vscode';
+import { encodeTable } from '../engine';
+import { samePath } from '../editor/csvDocuments';
+import { guarded, readCsv, requireFile, resolveCsv } from '../fit/fitFlow';
+import { predictionColumns } from '../predict/predictionColumns';
+import { predictionsCsv } from '../predict/predictionsCsv';
+import { COMMANDS, type Host } from './host';
+
+export function suggestedOutputPath(input: string): string {
+  const ext = path.extname(input) || '.csv';
+  return path.join(path.dirname(input), `${path.basename(input, ext)}.predictions${ext}`);
+}
+
+export function registerPredictToFile(host: Host): vscode.Disposable {
+  return vscode.commands.registerCommand(COMMANDS.predictToFile, (uri?: vscode.Uri) =>
+    guarded(host.ctx, 'Predict', async () => {
+      const { ctx } = host;
+      const session = ctx.session;
+      if (!session) {
+        const open = 'Open a saved forest…';
+        const answer = await vscode.window.showInformationMessage('Copse: predictions need a forest. Fit one, or open a saved one.', open);
+        if (answer === open) await vscode.commands.executeCommand(COMMANDS.openModel);
+        return;
+      }
+      const input = await resolveCsv(uri, `Copse: choose a CSV to predict ${session.forest.schema.target.name} for`);
+      if (!input) return;
+      const inputPath = requireFile(input);
+      const out = await vscode.window.showSaveDialog({
+        title: 'Copse: write the predictions to',
+        defaultUri: vscode.Uri.file(suggestedOutputPath(inputPath)),
+        filters: { 'Delimited text': [path.extname(inputPath).slice(1) || 'csv'] },
+      });
+      if (!out) return;
+      const outPath = requireFile(out);
+      if (samePath(outPath, inputPath)) {
+        throw new RangeError('Copse writes predictions to a new file and never over its input; choose another name.');
+      }
+      const loaded = await readCsv(ctx, inputPath, { everyRow: true, forest: session.forest.schema });
+      if (!loaded) return;
+      const started = performance.now();
+      const x = encodeTable(session.forest.schema, loaded.load.table, path.basename(inputPath));
+      const prediction = await vscode.window.withProgress(
+        { location: vscode.ProgressLocation.Notification, title: `Copse: predicting ${loaded.load.table.rowCount} rows` },
+        () => session.scorer.predict(x, loaded.load.table.rowCount),
+      );
+      const text = await fs.readFile(inputPath, 'utf8');
+      const added = predictionColumns(session.forest.schema, prediction, loaded.load.header);
+      const csv = predictionsCsv(text, loaded.load.table.lineOfRow, loaded.load.delimiter, added);
+      const tmp = `${outPath}.${process.pid}.tmp`;
+      await fs.writeFile(tmp, csv, 'utf8');
+      await fs.rename(tmp, outPath);
+      ctx.log.info(
+        `Predicted ${prediction.rows} rows of ${inputPath} into ${outPath} (${added.map((a) => a.name).join(', ')}) in ${Math.round(performance.now() - started)} ms.`,
+      );
+      const openIt = 'Open';
+      const answer = await vscode.window.showInformationMessage(`Copse: wrote ${prediction.rows} predictions to ${path.basename(outPath)}.`, openIt);
+      if (answer === openIt) await vscode.window.showTextDocument(vscode.Uri.file(outPath));
+    }),
+  );
+}

@@ -1,0 +1,27 @@
+// Opens the fitted CSV at a data row's first line (the panel's "go to row", and suspect rows).
+
+import * as vscode from 'vscode';
+import type { CopseContext } from '../context';
+import { COMMANDS, type Host } from './host';
+
+export async function revealRow(ctx: CopseContext, dataRow: number): Promise<void> {
+  const s = ctx.session;
+  if (!s) return;
+  const t = s.numbering.tableRow(dataRow);
+  if (t === undefined) {
+    void vscode.window.showInformationMessage(`Copse: row ${dataRow} is not among the rows the forest was fitted on.`);
+    return;
+  }
+  const line = s.table.lineOfRow[t] - 1;
+  const doc = await vscode.workspace.openTextDocument(vscode.Uri.file(s.source.path));
+  const at = new vscode.Range(line, 0, line, 0);
+  // The CSV goes in the first column so the panel, usually beside it, stays visible.
+  const editor = await vscode.window.showTextDocument(doc, { viewColumn: vscode.ViewColumn.One, selection: at, preserveFocus: false });
+  editor.revealRange(doc.lineAt(line).range, vscode.TextEditorRevealType.InCenterIfOutsideViewport);
+}
+
+export function registerRevealRow(host: Host): vscode.Disposable {
+  return vscode.commands.registerCommand(COMMANDS.revealRow, (dataRow: unknown) => {
+    if (typeof dataRow === 'number' && Number.isInteger(dataRow)) return revealRow(host.ctx, dataRow);
+  });
+}

@@ -1,0 +1,89 @@
+// The one object that owns the extension's disposables and its single piece of state, the active forest.
+// Everything that registers with VS Code hands its disposable here, so deactivation releases it all.
+
+import * as vscode from 'vscode';
+import type { ForestSession } from './session/session';
+import type { LoadResult } from './engine';
+import type { FitChoices } from './fit/choices';
+import { readSettings, type CopseSettings } from './settings';
+
+/** What the last fit started from, so a refit from the panel needs no dialog and no re-read. */
+export interface FitOrigin {
+  readonly path: string;
+  readonly load: LoadResult;
+  readonly sampled: boolean;
+  readonly sampleRows?: number;
+  readonly sampleSeed?: number;
+  readonly loadTarget?: string;
+  readonly choices: FitChoices;
+  readonly loadSeconds: number;
+  readonly bytes: number;
+}
+
+export class CopseContext implements vscode.Disposable {
+  readonly log: vscode.LogOutputChannel;
+  private readonly disposables: vscode.Disposable[] = [];
+  private current: ForestSession | undefined;
+  private currentOrigin: FitOrigin | undefined;
+  private readonly changed = new vscode.EventEmitter<ForestSession | undefined>();
+  /** Fires after the active forest changes (a fit, an opened model, a restore). */
+  readonly onDidChangeSession = this.changed.event;
+  private lastProblems = '';
+  /** The fit in progress, if any: a second fit waits its turn rather than racing the first. */
+  busy: Promise<unknown> | undefined;
+
+  constructor(readonly extension: vscode.ExtensionContext) {
+    this.log = this.track(vscode.window.createOutputChannel('Copse', { log: true }));
+    this.track(this.changed);
+  }
+
+  track<T extends vscode.Disposable>(d: T): T {
+    this.disposables.push(d);
+    return d;
+  }
+
+  get session(): ForestSession | undefined {
+    return this.current;
+  }
+
+  get origin(): FitOrigin | undefined {
+    return this.currentOrigin;
+  }
+
+  /** Replaces the active forest; the old one's scoring thread is released. */
+  setSession(session: ForestSession | undefined, origin?: FitOrigin): void {
+    const old = this.current;
+    this.current = session;
+    this.currentOrigin = session ? origin : undefined;
+    if (old && old !== session) void old.dispose();
+    void vscode.commands.executeCommand('setContext', 'copse.hasForest', session !== undefined);
+    this.changed.fire(session);
+  }
+
+  /** Settings as they are now (read fresh: the user may change them between fits); problems are logged once. */
+  settings(): CopseSettings {
+    const { settings, problems } = readSettings(vscode.workspace.getConfiguration('copse'));
+    const text = problems.join('\n');
+    if (text && text !== this.lastProblems) for (const p of problems) this.log.warn(p);
+    this.lastProblems = text;
+    return settings;
+  }
+
+  /** Where the last fit is kept: per workspace when there is one, else per user. */
+  get storageDir(): string {
+    return vscode.Uri.joinPath(this.extension.storageUri ?? this.extension.globalStorageUri, 'last-fit').fsPath;
+  }
+
+  dispose(): void {
+    const s = this.current;
+    this.current = undefined;
+    if (s) void s.dispose();
+    for (const d of this.disposables.splice(0).reverse()) {
+      try {
+        d.dispose();
+      } catch (e) {
+        console.error('copse: dispose failed', e);
+      }
+    }
+  }
+}

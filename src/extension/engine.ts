@@ -1,0 +1,21 @@
+// Everything the extension takes from the core engine, in one place, so the contract the host depends on
+// is visible at a glance and a core rename touches one file.
+
+export type { Table, Column, LevelColumn, NumericColumn, DroppedColumn, ColumnKind } from '../core/data/table';
+export { findColumn, cellText, isMissing } from '../core/data/table';
+export type { LoadOptions, LoadResult } from '../core/csv/types';
+export { DataError } from '../core/csv/types';
+export { loadCsv, loadCsvText } from '../core/csv/load';
+export type { ForestParams, Task, FeaturesPerSplit } from '../core/forest/params';
+export { defaultParams, resolveFeaturesPerSplit } from '../core/forest/params';
+export type { Schema, FeatureInfo, TargetInfo } from '../core/model/schema';
+export { outputCount } from '../core/model/schema';
+export type { Forest } from '../core/forest/forest';
+export type { FitOptions, FitReport, RowResults } from '../core/forest/fit';
+export type { Scores, ClassificationScores, RegressionScores } from '../core/metrics/scores';
+export { classificationScores, regressionScores } from '../core/metrics/scores';
+export { fitForest, inferTask } from '../core/forest/fit';
+export type { Prediction } from '../core/forest/predict';
+export { encodeTable, SchemaMismatchError } from '../core/forest/predict';
+export { Scorer } from '../core/forest/scorer';
+export { saveModel, loadModel } from '../core/model/file';

@@ -1,0 +1,345 @@
+// The fit command from file to panel: read (offering a sample for big files), pick the target, fit in
+// worker threads with a cancellable progress notification, then install the result as the active forest.
+
+import { promises as fs, readFileSync } from 'node:fs';
+import * as path from 'node:path';
+import * as vscode from 'vscode';
+import type { CopseContext, FitOrigin } from '../context';
+import { fitForest, findColumn, loadCsv, Scorer, type Column, type FitReport, type LoadResult, type Schema } from '../engine';
+import { isAbort, isUserError, userMessage } from '../errors';
+import { formatBytes, formatSeconds, formatShare } from '../format';
+import type { PanelHost } from '../panel/panelHost';
+import { saveLastFit } from '../session/lastFit';
+import { loadForForest } from '../session/loadFor';
+import { ForestSession } from '../session/session';
+import { buildSummary } from '../summary/summary';
+import { cautions } from '../summary/warnings';
+import { choicesFrom, paramsFor, type FitChoices } from './choices';
+import { profileColumns } from './columnProfile';
+import { adjustChoices, pickTarget } from './fitDialog';
+import { fitLogLines } from './fitLog';
+
+export interface LoadedCsv {
+  readonly path: string;
+  readonly load: LoadResult;
+  readonly sampled: boolean;
+  readonly sampleRows?: number;
+  readonly sampleSeed?: number;
+  readonly loadTarget?: string;
+  readonly seconds: number;
+  readonly bytes: number;
+}
+
+/** The CSV a command should work on: its argument, the active editor's file, or one the user picks. */
+export async function resolveCsv(uri: vscode.Uri | undefined, title: string): Promise<vscode.Uri | undefined> {
+  if (uri instanceof vscode.Uri) return uri;
+  const doc = vscode.window.activeTextEditor?.document;
+  if (doc && /\.(csv|tsv)$/i.test(doc.uri.path)) return doc.uri;
+  const picked = await vscode.window.showOpenDialog({
+    title,
+    canSelectMany: false,
+    filters: { 'Delimited text': ['csv', 'tsv', 'txt'], 'All files': ['*'] },
+  });
+  return picked?.[0];
+}
+
+export function requireFile(uri: vscode.Uri): string {
+  if (uri.scheme !== 'file') throw new RangeError(`Copse reads files from disk; save ${uri.path} to a local file first.`);
+  return uri.fsPath;
+}
+
+/**
+ * Reads a CSV under a cancellable progress notification. Above the size setting, offers a seeded random
+ * sample of rows first; declining reads every row. Resolves undefined when the user backs out.
+ */
+export async function readCsv(
+  ctx: CopseContext,
+  file: string,
+  opts: { target?: string; sample?: { rows: number; seed: number }; everyRow?: boolean; forest?: Schema } = {},
+): Promise<LoadedCsv | undefined> {
+  const settings = ctx.settings();
+  const bytes = (await fs.stat(file)).size;
+  const label = path.basename(file);
+  let sample = opts.sample;
+  if (!sample && !opts.everyRow && bytes > settings.data.sampleAboveMegabytes * 1024 * 1024) {
+    const useSample = `Use ${settings.data.sampleRows.toLocaleString('en')} random rows`;
+    const all = 'Read every row';
+    const answer = await vscode.window.showWarningMessage(
+      `${label} is ${formatBytes(bytes)}. Fit on a random sample of ${settings.data.sampleRows.toLocaleString('en')} rows? ` +
+        'The results will say they come from a sample.',
+      { modal: true },
+      useSample,
+      all,
+    );
+    if (!answer) return undefined;
+    if (answer === useSample) sample = { rows: settings.data.sampleRows, seed: settings.training.seed };
+  }
+  return vscode.window.withProgress(
+    { location: vscode.ProgressLocation.Notification, title: `Copse: reading ${label}`, cancellable: true },
+    async (_progress, token) => {
+      const abort = new AbortController();
+      const sub = token.onCancellationRequested(() => abort.abort());
+      const started = performance.now();
+      try {
+        const options = { target: opts.target, sampleRows: sample?.rows, sampleSeed: sample?.seed, signal: abort.signal };
+        const load = opts.forest ? await loadForForest((o) => loadCsv(file, o), opts.forest, options) : await loadCsv(file, options);
+        const seconds = (performance.now() - started) / 1000;
+        const sampled = !!sample && load.table.rowCount < load.rowsRead;
+        return { path: file, load, sampled, sampleRows: sample?.rows, sampleSeed: sample?.seed, loadTarget: opts.target, seconds, bytes };
+      } finally {
+        sub.dispose();
+      }
+    },
+  );
+}
+
+/** Runs a command body, turning its errors into one readable notification; the host stays up. */
+export async function guarded(ctx: CopseContext, what: string, body: () => Promise<void>): Promise<void> {
+  try {
+    await body();
+  } catch (e) {
+    if (isAbort(e)) {
+      void vscode.window.showInformationMessage(`Copse: ${what} cancelled.`);
+      return;
+    }
+    if (!isUserError(e)) ctx.log.error(`${what} failed: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`);
+    else ctx.log.warn(`${what}: ${userMessage(e)}`);
+    void vscode.window.showErrorMessage(userMessage(e));
+  }
+}
+
+/** The "Fit a forest" command. */
+export async function fitCommand(ctx: CopseContext, panel: PanelHost, uri?: vscode.Uri): Promise<void> {
+  await guarded(ctx, 'Fit', async () => {
+    if (ctx.busy) {
+      void vscode.window.showInformationMessage('Copse: a fit is already running; cancel it from its notification first.');
+      return;
+    }
+    const target = await resolveCsv(uri, 'Copse: choose a CSV file to fit a forest on');
+    if (!target) return;
+    let loaded = await readCsv(ctx, requireFile(target));
+    if (!loaded) return;
+    const label = path.basename(loaded.path);
+    const profiles = profileColumns(loaded.load.table, loaded.load.header, loaded.load.dropped);
+    if (profiles.length === 0) throw new RangeError(`${label} has no columns to fit.`);
+    const pick = await pickTarget(profiles, label);
+    if (!pick) return;
+    if (pick.profile.dropped) {
+      // The loader left the chosen column out (an identifier, say); read again keeping it as the target.
+      const again = await readCsv(ctx, loaded.path, {
+        target: pick.profile.name,
+        sample: loaded.sampleRows !== undefined ? { rows: loaded.sampleRows, seed: loaded.sampleSeed ?? 1 } : undefined,
+      });
+      if (!again) return;
+      loaded = again;
+    }
+    const settings = ctx.settings();
+    const column = findColumn(loaded.load.table, pick.profile.name);
+    if (!column) throw new RangeError(`The column "${pick.profile.name}" could not be read as a target.`);
+    const task = pick.task === 'regression' && column.kind !== 'numeric' ? 'classification' : pick.task;
+    let choices = choicesFrom(settings.training, pick.profile.name, task);
+    if (pick.adjust) {
+      const features = loaded.load.table.columns.map((c) => c.name).filter((n) => n !== choices.target);
+      const adjusted = await adjustChoices(choices, { ...pick.profile, kind: column.kind }, features);
+      if (!adjusted) return;
+      choices = adjusted;
+    }
+    await runFit(ctx, panel, loaded, choices);
+  });
+}
+
+/** A refit from the panel: same data and target, some columns left out, maybe another tree count. */
+export async function refitCommand(ctx: CopseContext, panel: PanelHost, leaveOut: string[], trees: number | null): Promise<void> {
+  await guarded(ctx, 'Refit', async () => {
+    const origin = ctx.origin;
+    if (!origin) throw new RangeError('There is no fit to repeat here; fit a forest on the CSV first.');
+    if (ctx.busy) {
+      void vscode.window.showInformationMessage('Copse: a fit is already running.');
+      return;
+    }
+    const exclude = [...new Set([...origin.choices.exclude, ...leaveOut])];
+    const choices: FitChoices = { ...origin.choices, exclude, trees: trees ?? origin.choices.trees };
+    const loaded: LoadedCsv = { ...origin, seconds: origin.loadSeconds };
+    await runFit(ctx, panel, loaded, choices);
+  });
+}
+
+async function runFit(ctx: CopseContext, panel: PanelHost, loaded: LoadedCsv, choices: FitChoices): Promise<void> {
+  const settings = ctx.settings();
+  const label = path.basename(loaded.path);
+  const { table } = loaded.load;
+  const params = paramsFor(choices, settings.training);
+  const work = Promise.resolve(vscode.window.withProgress(
+    { location: vscode.ProgressLocation.Notification, title: `Copse: fitting ${choices.trees} trees on ${label}`, cancellable: true },
+    async (progress, token) => {
+      const abort = new AbortController();
+      const sub = token.onCancellationRequested(() => abort.abort());
+      try {
+        panel.status('working', `Fitting ${choices.trees} trees…`, 0);
+        let reported = 0;
+        const report = await fitForest(table, {
+          target: choices.target,
+          task: choices.task,
+          params,
+          exclude: [...choices.exclude],
+          workers: settings.training.workers > 0 ? settings.training.workers : undefined,
+          holdout: choices.holdout > 0 ? choices.holdout : undefined,
+          signal: abort.signal,
+          permutationImportance: settings.training.permutationImportance,
+          fingerprint: loaded.load.fingerprint,
+          dropped: [...loaded.load.dropped],
+          onProgress: (done, total) => {
+            const pct = (100 * done) / total;
+            progress.report({ increment: pct - reported, message: `${done} of ${total} trees` });
+            reported = pct;
+            panel.status('working', `Fitting: ${done} of ${total} trees`, done / total);
+          },
+        });
+        progress.report({ message: 'scoring rows for hovers and maps' });
+        panel.status('working', 'Scoring rows for hovers and maps…', null);
+        return await install(ctx, loaded, choices, report, abort.signal);
+      } catch (e) {
+        panel.status(isAbort(e) ? 'idle' : 'error', isAbort(e) ? 'Fit cancelled.' : userMessage(e), null);
+        throw e;
+      } finally {
+        sub.dispose();
+      }
+    },
+  ));
+  ctx.busy = work;
+  try {
+    await work;
+  } finally {
+    ctx.busy = undefined;
+  }
+  panel.reveal(true);
+}
+
+/** Builds the session for a finished fit, makes it active, logs it, and keeps it for the next reload. */
+async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices, report: FitReport, signal: AbortSignal): Promise<void> {
+  const settings = ctx.settings();
+  const { load } = loaded;
+  const forest = report.forest;
+  const label = path.basename(loaded.path);
+  const tSummary = performance.now();
+  const features = forest.schema.features.map((f) => findColumn(load.table, f.name)).filter((c): c is Column => !!c);
+  const oob = report.oob;
+  const warnings: string[] = [];
+  if (loaded.sampled) {
+    warnings.push(
+      `Fitted on a random sample of ${load.table.rowCount.toLocaleString('en')} of ${load.rowsRead.toLocaleString('en')} rows ` +
+        `(the file is ${formatBytes(loaded.bytes)}; see copse.data.sampleAboveMegabytes). Scores describe the sample.`,
+    );
+  }
+  warnings.push(...load.warnings);
+  warnings.push(
+    ...cautions({
+      task: forest.schema.target.task,
+      classes: forest.schema.target.classes ?? [],
+      target: forest.schema.target.name,
+      features,
+      trainRows: report.trainRows,
+      truth: report.rows.truth,
+      permutation: report.importance.permutation,
+      oobScore: oob.kind === 'classification' ? oob.accuracy : oob.r2,
+      oobBalancedAccuracy: oob.kind === 'classification' ? oob.balancedAccuracy : undefined,
+      seed: forest.params.seed,
+    }).map((c) => c.message),
+  );
+  const summary = buildSummary({
+    forest,
+    report,
+    dataset: { label, uri: vscode.Uri.file(loaded.path).toString() },
+    rowsRead: load.rowsRead,
+    sampled: loaded.sampled,
+    heldOutFrom: 'holdout',
+    warnings,
+  });
+  const summarySeconds = (performance.now() - tSummary) / 1000;
+
+  const tScore = performance.now();
+  const scorer = new Scorer(forest);
+  let session: ForestSession;
+  try {
+    session = await ForestSession.create({
+      forest,
+      source: {
+        path: loaded.path,
+        label,
+        delimiter: load.delimiter,
+        fingerprint: load.fingerprint,
+        rowsRead: load.rowsRead,
+        sampleRows: loaded.sampleRows,
+        sampleSeed: loaded.sampleSeed,
+        header: load.header,
+      },
+      table: load.table,
+      text: () => readText(loaded.path),
+      oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag: report.rows.inBag, margin: report.rows.margin },
+      summary,
+      scorer,
+    });
+  } catch (e) {
+    await scorer.dispose();
+    throw e;
+  }
+  if (signal.aborted) {
+    await session.dispose();
+    throw Object.assign(new Error('The fit was cancelled.'), { name: 'AbortError' });
+  }
+  const scoreSeconds = (performance.now() - tScore) / 1000;
+
+  const origin: FitOrigin = {
+    path: loaded.path,
+    load,
+    sampled: loaded.sampled,
+    sampleRows: loaded.sampleRows,
+    sampleSeed: loaded.sampleSeed,
+    loadTarget: loaded.loadTarget,
+    choices,
+    loadSeconds: loaded.seconds,
+    bytes: loaded.bytes,
+  };
+  ctx.setSession(session, origin);
+
+  for (const line of fitLogLines({
+    path: loaded.path,
+    load,
+    tableRows: load.table.rowCount,
+    sampled: loaded.sampled,
+    params: forest.params,
+    exclude: choices.exclude,
+    holdout: choices.holdout,
+    workers: settings.training.workers,
+    fitNotes: report.notes,
+    summary,
+    seconds: { load: loaded.seconds, fit: report.seconds.fit, score: scoreSeconds, summary: summarySeconds },
+  })) {
+    ctx.log.info(line);
+  }
+  const score =
+    oob.kind === 'classification' ? `out-of-bag accuracy ${formatShare(oob.accuracy)}` : `out-of-bag R² ${oob.r2.toFixed(3)}`;
+  ctx.log.info(`Fitted ${forest.trees.length} trees on ${label} in ${formatSeconds(report.seconds.fit)}: ${score}.`);
+
+  // Kept for the next window reload; a failure here costs only the restore, so it is logged, not shown.
+  void saveLastFit(
+    ctx.storageDir,
+    { forest, trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag: report.rows.inBag },
+    {
+      csvPath: loaded.path,
+      fingerprint: load.fingerprint,
+      delimiter: load.delimiter,
+      sampleRows: loaded.sampleRows,
+      sampleSeed: loaded.sampleSeed,
+      loadTarget: loaded.loadTarget,
+      summary,
+      choices,
+      bytes: loaded.bytes,
+    },
+  ).catch((e) => ctx.log.warn(`Could not keep the fit for the next reload: ${e instanceof Error ? e.message : String(e)}`));
+}
+
+/** The CSV's text, for renumbering rows; read synchronously because it is needed once, right after a fit. */
+function readText(file: string): string {
+  return readFileSync(file, 'utf8');
+}

@@ -1,0 +1,212 @@
+// The host end of the panel: creates (or restores) the webview, posts the active forest's summary and
+// maps, and answers the panel's requests. The webview only draws; every number comes from here.
+
+import * as vscode from 'vscode';
+import {
+  LIMITS,
+  PROTOCOL_VERSION,
+  isHostToPanel,
+  isPanelToHost,
+  type HostToPanel,
+  type PanelToHost,
+  type ReferenceChoice,
+} from '../../protocol/messages';
+import type { CopseContext } from '../context';
+import { isUserError, userMessage } from '../errors';
+import type { ForestSession } from '../session/session';
+import { panelHtml } from './html';
+import { PANEL_VIEW_TYPE_ID } from './viewType';
+
+export const PANEL_VIEW_TYPE = PANEL_VIEW_TYPE_ID;
+
+export interface PanelActions {
+  revealRow(dataRow: number): Promise<void>;
+  refit(leaveOut: string[], trees: number | null): Promise<void>;
+  /** Called when a restored panel finds no active forest: bring the last one back if we can. */
+  restore(): Promise<void>;
+}
+
+export class PanelHost implements vscode.Disposable {
+  private panel: vscode.WebviewPanel | undefined;
+  private ready = false;
+  private queue: HostToPanel[] = [];
+  private readonly panelDisposables: vscode.Disposable[] = [];
+  /** Bumped per map request so a slow map never overwrites a newer one. */
+  private mapTicket = 0;
+  private lastChoice: { x: string; y: string; reference: ReferenceChoice } | undefined;
+
+  constructor(
+    private readonly ctx: CopseContext,
+    private readonly actions: PanelActions,
+  ) {
+    ctx.track(ctx.onDidChangeSession((s) => void this.sessionChanged(s)));
+    ctx.track(
+      vscode.window.registerWebviewPanelSerializer(PANEL_VIEW_TYPE, {
+        deserializeWebviewPanel: async (panel) => {
+          this.adopt(panel);
+          if (!ctx.session) await actions.restore();
+        },
+      }),
+    );
+  }
+
+  get visible(): boolean {
+    return this.panel?.visible ?? false;
+  }
+
+  get isOpen(): boolean {
+    return this.panel !== undefined;
+  }
+
+  /** Opens the panel beside the editor, or brings it forward. */
+  reveal(preserveFocus = true): void {
+    if (this.panel) {
+      this.panel.reveal(undefined, preserveFocus);
+      return;
+    }
+    const panel = vscode.window.createWebviewPanel(
+      PANEL_VIEW_TYPE,
+      'Copse',
+      { viewColumn: vscode.ViewColumn.Beside, preserveFocus },
+      this.options(),
+    );
+    this.adopt(panel);
+  }
+
+  post(message: HostToPanel): void {
+    // The guard runs here too: a malformed message is our bug, better caught in the log than drawn wrong.
+    if (!isHostToPanel(message)) {
+      this.ctx.log.error(`Not sending a malformed ${(message as { type?: string }).type ?? '?'} message to the panel.`);
+      return;
+    }
+    if (!this.panel) return;
+    if (!this.ready) {
+      // Only the latest of each kind matters once the panel is up.
+      this.queue = this.queue.filter((m) => m.type !== message.type || message.type === 'status');
+      this.queue.push(message);
+      return;
+    }
+    void this.panel.webview.postMessage(message);
+  }
+
+  status(state: 'idle' | 'working' | 'error', text: string, progress: number | null = null): void {
+    this.post({ type: 'status', state, text, progress });
+  }
+
+  /** Shows one row's tree votes in the panel (opening it if needed) and marks it on the map. */
+  showRows(dataRows: number[]): void {
+    const s = this.ctx.session;
+    if (!s) return;
+    const rows = dataRows.slice(0, LIMITS.selectedRows);
+    this.post({ type: 'disagreement', rows: s.rowVotes(rows) });
+    this.post({ type: 'highlight', rows });
+  }
+
+  dispose(): void {
+    this.panel?.dispose();
+  }
+
+  private options(): vscode.WebviewPanelOptions & vscode.WebviewOptions {
+    return {
+      enableScripts: true,
+      retainContextWhenHidden: false,
+      localResourceRoots: [vscode.Uri.joinPath(this.ctx.extension.extensionUri, 'media')],
+    };
+  }
+
+  private adopt(panel: vscode.WebviewPanel): void {
+    this.panel = panel;
+    this.ready = false;
+    panel.webview.options = this.options();
+    const media = (f: string) => panel.webview.asWebviewUri(vscode.Uri.joinPath(this.ctx.extension.extensionUri, 'media', f)).toString();
+    panel.webview.html = panelHtml({ scriptUri: media('panel.js'), styleUri: media('panel.css'), cspSource: panel.webview.cspSource });
+    panel.iconPath = vscode.Uri.joinPath(this.ctx.extension.extensionUri, 'dist', 'icon.png');
+    this.panelDisposables.push(
+      panel.webview.onDidReceiveMessage((m: unknown) => void this.receive(m)),
+      panel.onDidDispose(() => {
+        this.panel = undefined;
+        this.ready = false;
+        this.queue = [];
+        for (const d of this.panelDisposables.splice(0)) d.dispose();
+      }),
+    );
+  }
+
+  private async receive(raw: unknown): Promise<void> {
+    if (!isPanelToHost(raw)) {
+      this.ctx.log.warn('Ignored a panel message that does not match the protocol.');
+      return;
+    }
+    const msg: PanelToHost = raw;
+    try {
+      switch (msg.type) {
+        case 'ready':
+          if (msg.version !== PROTOCOL_VERSION) this.ctx.log.warn(`Panel speaks protocol ${msg.version}, host ${PROTOCOL_VERSION}.`);
+          this.ready = true;
+          // Everything but progress is about to be sent afresh; a reloaded panel may hold an older
+          // summary in its own state, and ours must win so both ends agree.
+          for (const m of this.queue.splice(0)) if (m.type === 'status') void this.panel?.webview.postMessage(m);
+          await this.sessionChanged(this.ctx.session);
+          break;
+        case 'chooseMap':
+          await this.sendMap(msg.x, msg.y, msg.reference);
+          break;
+        case 'openMap':
+          await this.sendMap(msg.x, msg.y, this.lastChoice?.reference ?? { mode: 'typical' });
+          break;
+        case 'revealRow':
+          await this.actions.revealRow(msg.row);
+          break;
+        case 'refit':
+          await this.actions.refit(msg.leaveOut, msg.trees);
+          break;
+      }
+    } catch (e) {
+      if (!isUserError(e)) this.ctx.log.error(e instanceof Error ? (e.stack ?? e.message) : String(e));
+      this.status('error', userMessage(e));
+    }
+  }
+
+  private async sessionChanged(session: ForestSession | undefined): Promise<void> {
+    if (!this.panel || !this.ready) return;
+    this.lastChoice = undefined;
+    if (!session) {
+      this.status('idle', 'No forest yet. Run "Copse: Fit a forest" on a CSV file.');
+      return;
+    }
+    await this.sendAll(session);
+  }
+
+  private async sendAll(session: ForestSession): Promise<void> {
+    this.post({ type: 'summary', summary: session.summary });
+    this.post({ type: 'suspects', rows: session.suspects(LIMITS.suspects) });
+    const axes = this.lastChoice ?? (session.defaultAxes() ? { ...session.defaultAxes()!, reference: { mode: 'typical' } as ReferenceChoice } : undefined);
+    if (!axes) {
+      this.status('idle', 'A map needs at least two features the forest can draw.');
+      return;
+    }
+    await this.sendMap(axes.x, axes.y, axes.reference);
+    if (session !== this.ctx.session) return;
+    const settings = this.ctx.settings().panel;
+    const started = performance.now();
+    const maps = await session.mapMatrix(settings, LIMITS.smallMaps);
+    if (session !== this.ctx.session) return;
+    this.ctx.log.info(`Small maps: ${maps.length} pairs in ${Math.round(performance.now() - started)} ms.`);
+    this.post({ type: 'mapMatrix', maps });
+  }
+
+  private async sendMap(x: string, y: string, reference: ReferenceChoice): Promise<void> {
+    const session = this.ctx.session;
+    if (!session) return;
+    const ticket = ++this.mapTicket;
+    this.lastChoice = { x, y, reference };
+    this.status('working', `Scoring the ${x} × ${y} map…`, null);
+    const started = performance.now();
+    const map = await session.regionMap(x, y, reference, this.ctx.settings().panel);
+    if (ticket !== this.mapTicket || session !== this.ctx.session) return;
+    const ms = Math.round(performance.now() - started);
+    this.ctx.log.info(`Map ${x} × ${y} (${reference.mode}): ${map.nx}×${map.ny} cells in ${ms} ms.`);
+    this.post({ type: 'regionMap', map });
+    this.status('idle', '');
+  }
+}

@@ -1,0 +1,114 @@
+// Keeps the last fit in the extension's storage so a window reload brings the panel, hovers and
+// out-of-bag votes back without refitting: the model file (core's format), the CSV it was fitted on,
+// which rows trained it, and each tree's bootstrap counts. No `vscode`: the caller passes the folder.
+
+import { promises as fs } from 'node:fs';
+import * as path from 'node:path';
+import { isFitSummary, type FitSummary } from '../../protocol/messages';
+import type { Forest } from '../engine';
+import type { FitChoices } from '../fit/choices';
+import { loadModel, saveModel } from '../engine';
+
+export const LAST_FIT_VERSION = 1;
+
+export interface LastFitMeta {
+  readonly version: number;
+  readonly csvPath: string;
+  readonly fingerprint: string;
+  readonly delimiter: string;
+  /** The load options that reproduce the same table (sampling is seeded). */
+  readonly sampleRows?: number;
+  readonly sampleSeed?: number;
+  readonly loadTarget?: string;
+  readonly trainRows: string;
+  readonly holdoutRows?: string;
+  readonly trees: number;
+  readonly summary: FitSummary;
+  /** What the user chose for the fit, so a restored session can be refitted from the panel. */
+  readonly choices?: FitChoices;
+  readonly bytes?: number;
+}
+
+export interface LastFit {
+  readonly forest: Forest;
+  readonly meta: LastFitMeta;
+  readonly trainRows: Int32Array;
+  readonly holdoutRows?: Int32Array;
+  readonly inBag: Uint8Array;
+}
+
+const MODEL = 'forest.json';
+const META = 'meta.json';
+const INBAG = 'inbag.bin';
+
+export async function saveLastFit(
+  dir: string,
+  fit: { forest: Forest; trainRows: Int32Array; holdoutRows?: Int32Array; inBag: Uint8Array },
+  meta: Omit<LastFitMeta, 'version' | 'trainRows' | 'holdoutRows' | 'trees'>,
+): Promise<void> {
+  await fs.mkdir(dir, { recursive: true });
+  const full: LastFitMeta = {
+    ...meta,
+    version: LAST_FIT_VERSION,
+    trainRows: toBase64(fit.trainRows),
+    holdoutRows: fit.holdoutRows ? toBase64(fit.holdoutRows) : undefined,
+    trees: fit.forest.trees.length,
+  };
+  // Meta goes last and is what load looks for first, so a save cut short leaves no half-matching set.
+  await fs.rm(path.join(dir, META), { force: true });
+  await saveModel(path.join(dir, MODEL), fit.forest);
+  await writeAtomic(path.join(dir, INBAG), fit.inBag);
+  await writeAtomic(path.join(dir, META), JSON.stringify(full));
+}
+
+/** The saved fit, or undefined when there is none or it does not hang together. */
+export async function loadLastFit(dir: string): Promise<LastFit | undefined> {
+  let meta: LastFitMeta;
+  try {
+    meta = JSON.parse(await fs.readFile(path.join(dir, META), 'utf8')) as LastFitMeta;
+  } catch {
+    return undefined;
+  }
+  if (!isMeta(meta)) return undefined;
+  const forest = await loadModel(path.join(dir, MODEL));
+  const inBag = new Uint8Array(await fs.readFile(path.join(dir, INBAG)));
+  const trainRows = fromBase64(meta.trainRows);
+  const holdoutRows = meta.holdoutRows ? fromBase64(meta.holdoutRows) : undefined;
+  if (forest.trees.length !== meta.trees || inBag.length !== meta.trees * trainRows.length) return undefined;
+  return { forest, meta, trainRows, holdoutRows, inBag };
+}
+
+export async function clearLastFit(dir: string): Promise<void> {
+  await fs.rm(path.join(dir, META), { force: true });
+}
+
+function isMeta(m: unknown): m is LastFitMeta {
+  if (typeof m !== 'object' || m === null) return false;
+  const v = m as Record<string, unknown>;
+  return (
+    v.version === LAST_FIT_VERSION &&
+    typeof v.csvPath === 'string' &&
+    typeof v.fingerprint === 'string' &&
+    typeof v.delimiter === 'string' &&
+    typeof v.trainRows === 'string' &&
+    typeof v.trees === 'number' &&
+    isFitSummary(v.summary)
+  );
+}
+
+async function writeAtomic(file: string, data: string | Uint8Array): Promise<void> {
+  const tmp = `${file}.${process.pid}.tmp`;
+  await fs.writeFile(tmp, data);
+  await fs.rename(tmp, file);
+}
+
+export function toBase64(a: Int32Array): string {
+  return Buffer.from(a.buffer, a.byteOffset, a.byteLength).toString('base64');
+}
+
+export function fromBase64(s: string): Int32Array {
+  const b = Buffer.from(s, 'base64');
+  const out = new Int32Array(b.length >> 2);
+  new Uint8Array(out.buffer).set(b.subarray(0, out.length * 4));
+  return out;
+}

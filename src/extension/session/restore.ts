@@ -1,0 +1,80 @@
+// Brings the last fit back after a window reload: model and bootstrap counts from storage, rows from the
+// CSV (read with the same seeded sample). If the CSV changed since, the forest comes back without its
+// per-row out-of-bag part, and the summary says why. No `vscode`.
+
+import * as path from 'node:path';
+import { readFileSync } from 'node:fs';
+import type { FitChoices } from '../fit/choices';
+import { loadCsv, type LoadResult } from '../engine';
+import { loadLastFit } from './lastFit';
+import { ForestSession, type ScorerLike } from './session';
+import type { Forest } from '../engine';
+
+export interface Restored {
+  readonly session: ForestSession;
+  /** What a refit needs; absent when the CSV changed (a refit would be a new fit on new data). */
+  readonly origin?: {
+    readonly path: string;
+    readonly load: LoadResult;
+    readonly sampled: boolean;
+    readonly sampleRows?: number;
+    readonly sampleSeed?: number;
+    readonly loadTarget?: string;
+    readonly choices: FitChoices;
+    readonly loadSeconds: number;
+    readonly bytes: number;
+  };
+  readonly note?: string;
+}
+
+export async function restoreLastFit(dir: string, scorerFor: (forest: Forest) => ScorerLike): Promise<Restored | undefined> {
+  const saved = await loadLastFit(dir);
+  if (!saved) return undefined;
+  const { meta, forest } = saved;
+  const started = performance.now();
+  const load = await loadCsv(meta.csvPath, { sampleRows: meta.sampleRows, sampleSeed: meta.sampleSeed, target: meta.loadTarget });
+  const loadSeconds = (performance.now() - started) / 1000;
+  const same = load.fingerprint === meta.fingerprint;
+  const label = path.basename(meta.csvPath);
+  const note = same ? undefined : `${label} has changed since this forest was fitted, so per-row out-of-bag votes are not shown; fit again to refresh them.`;
+  const summary = same ? meta.summary : { ...meta.summary, warnings: [note!, ...meta.summary.warnings] };
+  const scorer = scorerFor(forest);
+  try {
+    const session = await ForestSession.create({
+      forest,
+      source: {
+        path: meta.csvPath,
+        label,
+        delimiter: load.delimiter,
+        fingerprint: load.fingerprint,
+        rowsRead: load.rowsRead,
+        sampleRows: meta.sampleRows,
+        sampleSeed: meta.sampleSeed,
+        header: load.header,
+      },
+      table: load.table,
+      text: () => readFileSync(meta.csvPath, 'utf8'),
+      oob: same ? { trainRows: saved.trainRows, holdoutRows: saved.holdoutRows, inBag: saved.inBag } : undefined,
+      summary,
+      scorer,
+    });
+    const origin =
+      same && meta.choices
+        ? {
+            path: meta.csvPath,
+            load,
+            sampled: meta.summary.sampled,
+            sampleRows: meta.sampleRows,
+            sampleSeed: meta.sampleSeed,
+            loadTarget: meta.loadTarget,
+            choices: meta.choices,
+            loadSeconds,
+            bytes: meta.bytes ?? 0,
+          }
+        : undefined;
+    return { session, origin, note };
+  } catch (e) {
+    await scorer.dispose();
+    throw e;
+  }
+}

@@ -1,0 +1,400 @@
+// The active forest and everything the editor and panel ask of it. No `vscode` here: the host's seams call
+// these methods and turn the answers into hovers, decorations and panel messages.
+//
+// Scoring always goes through a ScorerLike (core's Scorer in the extension: a worker thread), so the
+// extension host's own thread only encodes rows and reads arrays.
+
+import type { FitSummary, ReferenceChoice, RegionMap, RowVotes, SuspectRow, PointSample } from '../../protocol/messages';
+import type { Forest, Prediction, Table } from '../engine';
+import { cellText, encodeTable, findColumn } from '../engine';
+import { formatNumber, formatShare } from '../format';
+import { hoverMarkdown, type HoverContext } from '../editor/hoverText';
+import { GridAccumulator, gridBatches, planAxis, rankFeatures, topPairs, type GridPlan } from '../panel/grid';
+import { LineIndex, type LineReader } from '../rows/lineMap';
+import { RowNumbering } from '../rows/numbering';
+import { majority, RowStore, voteEntropy, type OobPart } from './rowStore';
+import type { PanelSettings } from '../settings';
+import { sampleRows } from '../summary/warnings';
+
+export interface ScorerLike {
+  predict(x: Float64Array, rows: number): Promise<Prediction>;
+  dispose(): Promise<void>;
+}
+
+export interface SessionSource {
+  /** File-system path of the CSV the forest is shown against. */
+  readonly path: string;
+  readonly label: string;
+  readonly delimiter: string;
+  readonly fingerprint: string;
+  readonly rowsRead: number;
+  /** Set when the table is a random sample of the file. */
+  readonly sampleRows?: number;
+  readonly sampleSeed?: number;
+  readonly header: readonly string[];
+}
+
+export interface OobInput {
+  readonly trainRows: Int32Array;
+  readonly holdoutRows?: Int32Array;
+  readonly inBag: Uint8Array;
+  /** Per training row; recomputed from votes when absent (a restored session). */
+  readonly margin?: Float64Array;
+}
+
+export interface SessionInit {
+  readonly forest: Forest;
+  readonly source: SessionSource;
+  readonly table: Table;
+  /** The CSV's text, read only if rows must be renumbered (see RowNumbering). */
+  readonly text: () => string;
+  readonly oob?: OobInput;
+  /** The panel's summary; a function when it depends on the table's scores (a forest opened from a file). */
+  readonly summary: FitSummary | ((scored: { prediction: Prediction; truth: Float64Array }) => FitSummary);
+  readonly scorer: ScorerLike;
+  /** Seeds the samples drawn for points and averaged maps; the forest's own seed when absent. */
+  readonly seed?: number;
+}
+
+/** Another CSV scored with the active forest, for hovers. */
+export interface ScoredFile {
+  readonly store: RowStore;
+  readonly lines: LineIndex;
+  readonly numbering: RowNumbering;
+  readonly label: string;
+}
+
+export class ForestSession {
+  readonly forest: Forest;
+  readonly source: SessionSource;
+  readonly table: Table;
+  readonly store: RowStore;
+  readonly lines: LineIndex;
+  readonly numbering: RowNumbering;
+  readonly summary: FitSummary;
+  readonly scorer: ScorerLike;
+  /** Feature-space rows of the table, [row * p + f]. */
+  readonly encoded: Float64Array;
+  readonly p: number;
+  /** Table rows the forest was trained on (all rows for a forest opened from a file). */
+  readonly trainRows: Int32Array;
+  /** The table's target per row in the forest's codes; NaN where missing. */
+  readonly truth: Float64Array;
+  private readonly suspectList: SuspectRow[];
+  private readonly suspectByRow = new Map<number, SuspectRow>();
+  private readonly seed: number;
+  private disposed = false;
+
+  private constructor(init: SessionInit, summary: FitSummary, encoded: Float64Array, store: RowStore, numbering: RowNumbering, truth: Float64Array) {
+    this.truth = truth;
+    this.forest = init.forest;
+    this.source = init.source;
+    this.table = init.table;
+    this.summary = summary;
+    this.scorer = init.scorer;
+    this.encoded = encoded;
+    this.p = init.forest.schema.features.length;
+    this.store = store;
+    this.numbering = numbering;
+    this.lines = new LineIndex(init.table.lineOfRow, init.source.delimiter);
+    this.trainRows = init.oob?.trainRows ?? Int32Array.from({ length: init.table.rowCount }, (_, i) => i);
+    this.seed = init.seed ?? init.forest.params.seed;
+    this.suspectList = this.findSuspects();
+    for (const s of this.suspectList) this.suspectByRow.set(s.row, s);
+  }
+
+  /** Scores the whole table once (in the scorer's thread) and indexes it for hovers and the panel. */
+  static async create(init: SessionInit): Promise<ForestSession> {
+    const { forest, table } = init;
+    const encoded = encodeTable(forest.schema, table, init.source.label);
+    const prediction = await init.scorer.predict(encoded, table.rowCount);
+    const truth = truthOf(forest, table);
+    let oob: OobPart | undefined;
+    if (init.oob) {
+      const trainPos = new Int32Array(table.rowCount).fill(-1);
+      init.oob.trainRows.forEach((r, i) => (trainPos[r] = i));
+      oob = { trainPos, trainCount: init.oob.trainRows.length, inBag: init.oob.inBag, margin: init.oob.margin };
+    }
+    const holdout = new Set<number>(init.oob?.holdoutRows ?? []);
+    const tolerance = forest.schema.target.task === 'regression' ? 0.25 * targetSd(truth, init.oob?.trainRows) : 0;
+    const store = new RowStore(forest.schema.target.task, forest.schema.target.classes ?? [], prediction, truth, oob, holdout, tolerance);
+    const numbering = RowNumbering.build(table.lineOfRow, init.source.delimiter, init.text);
+    const summary = typeof init.summary === 'function' ? init.summary({ prediction, truth }) : init.summary;
+    return new ForestSession(init, summary, encoded, store, numbering, truth);
+  }
+
+  get task(): 'classification' | 'regression' {
+    return this.forest.schema.target.task;
+  }
+
+  get classes(): readonly string[] {
+    return this.forest.schema.target.classes ?? [];
+  }
+
+  // ---------------------------------------------------------------------------------------------
+  // Editor
+
+  /** Table row under a 1-based editor line of the fitted CSV. */
+  rowAtLine(line: number, read: LineReader): number | undefined {
+    return this.lines.rowAt(line, read);
+  }
+
+  hover(tableRow: number, showVotesLink?: (dataRow: number) => string): string {
+    const dataRow = this.numbering.dataRow(tableRow);
+    const s = this.suspectByRow.get(dataRow);
+    const ctx: HoverContext = {
+      target: this.forest.schema.target.name,
+      classes: this.classes,
+      dataRow,
+      suspectReason: s ? this.suspectReason(s) : undefined,
+      showVotesLink: showVotesLink?.(dataRow),
+      tolerance: this.task === 'regression' ? this.store.tolerance : undefined,
+    };
+    return hoverMarkdown(this.store.answer(tableRow), ctx);
+  }
+
+  suspects(limit: number): SuspectRow[] {
+    return this.suspectList.slice(0, limit);
+  }
+
+  /** Start lines (1-based) of the suspect rows, most doubtful first. */
+  suspectLines(limit: number): Array<{ line: number; reason: string }> {
+    return this.suspects(limit).map((s) => {
+      const t = this.numbering.tableRow(s.row)!;
+      return { line: this.table.lineOfRow[t], reason: this.suspectReason(s) };
+    });
+  }
+
+  suspectReason(s: SuspectRow): string {
+    const label = this.classes[s.label] ?? String(s.label);
+    const voted = this.classes[s.oobPredicted] ?? String(s.oobPredicted);
+    const t = this.numbering.tableRow(s.row);
+    const oob = t === undefined ? undefined : this.store.answer(t).oob;
+    const share = oob && oob.kind === 'classification' && oob.trees ? oob.counts[s.oobPredicted] / oob.trees : NaN;
+    return (
+      `the trees that never saw this row mostly vote "${voted}"${Number.isFinite(share) ? ` (${formatShare(share)})` : ''}, ` +
+      `but it is labelled "${label}" (margin ${formatNumber(s.margin)}). The label may be wrong, or the row unusual.`
+    );
+  }
+
+  // ---------------------------------------------------------------------------------------------
+  // Panel
+
+  /** Per-tree votes for data rows (the protocol's 1-based numbers); unknown rows are skipped. */
+  rowVotes(dataRows: readonly number[]): RowVotes[] {
+    const out: RowVotes[] = [];
+    for (const dataRow of dataRows) {
+      const r = this.numbering.tableRow(dataRow);
+      if (r === undefined) continue;
+      out.push(rowVotesOf(this.store, r, dataRow));
+    }
+    return out;
+  }
+
+  /** The two most important features, for the first map. */
+  defaultAxes(): { x: string; y: string } | undefined {
+    const ranked = this.ranked().filter((f) => this.mappable(f));
+    if (ranked.length < 2) return undefined;
+    const names = this.forest.schema.features;
+    return { x: names[ranked[0]].name, y: names[ranked[1]].name };
+  }
+
+  async regionMap(x: string, y: string, reference: ReferenceChoice, panel: PanelSettings): Promise<RegionMap> {
+    const fx = this.featureIndex(x);
+    const fy = this.featureIndex(y);
+    if (fx === fy) throw new RangeError('Pick two different features for the map.');
+    const map = await this.scoreMap(fx, fy, reference, panel.gridResolution, panel.dependenceRows);
+    return { ...map, points: this.points(fx, fy, panel.pointsDrawn) };
+  }
+
+  /** Small maps for pairs among the most important features, drawn without points. */
+  async mapMatrix(panel: PanelSettings, limit: number): Promise<RegionMap[]> {
+    const ranked = this.ranked().filter((f) => this.mappable(f));
+    const pairs = topPairs(ranked, panel.pairFeatures).slice(0, limit);
+    const res = Math.max(10, Math.min(32, Math.round(panel.gridResolution / 3)));
+    const maps: RegionMap[] = [];
+    for (const [a, b] of pairs) maps.push({ ...(await this.scoreMap(a, b, { mode: 'typical' }, res, panel.dependenceRows)), points: null });
+    return maps;
+  }
+
+  // ---------------------------------------------------------------------------------------------
+  // Other files
+
+  /** Scores another table with this forest; throws core's SchemaMismatchError when its columns do not fit. */
+  async scoreOther(table: Table, delimiter: string, label: string, text: () => string): Promise<ScoredFile> {
+    const x = encodeTable(this.forest.schema, table, label);
+    const prediction = await this.scorer.predict(x, table.rowCount);
+    const store = new RowStore(this.task, this.classes, prediction, truthOf(this.forest, table), undefined, new Set(), this.store.tolerance);
+    return { store, lines: new LineIndex(table.lineOfRow, delimiter), numbering: RowNumbering.build(table.lineOfRow, delimiter, text), label };
+  }
+
+  hoverOther(file: ScoredFile, tableRow: number): string {
+    return hoverMarkdown(file.store.answer(tableRow), {
+      target: this.forest.schema.target.name,
+      classes: this.classes,
+      dataRow: file.numbering.dataRow(tableRow),
+      forestLabel: this.source.label,
+      tolerance: this.task === 'regression' ? this.store.tolerance : undefined,
+    });
+  }
+
+  async dispose(): Promise<void> {
+    if (this.disposed) return;
+    this.disposed = true;
+    await this.scorer.dispose();
+  }
+
+  // ---------------------------------------------------------------------------------------------
+
+  private featureIndex(name: string): number {
+    const f = this.forest.schema.features.findIndex((g) => g.name === name);
+    if (f < 0) throw new RangeError(`The forest has no feature "${name}".`);
+    return f;
+  }
+
+  private ranked(): number[] {
+    const imp = this.summary.importance;
+    const perm = Float64Array.from(imp, (m) => m.permutation ?? NaN);
+    const impurity = Float64Array.from(imp, (m) => m.impurity);
+    return rankFeatures(perm, impurity);
+  }
+
+  private mappable(f: number): boolean {
+    const info = this.forest.schema.features[f];
+    return info.kind === 'numeric' || ((info.levels?.length ?? 0) > 0 && (info.levels?.length ?? 0) <= 200);
+  }
+
+  private async scoreMap(fx: number, fy: number, reference: ReferenceChoice, resolution: number, averageRows: number): Promise<Omit<RegionMap, 'points'>> {
+    const schema = this.forest.schema;
+    const { p } = this;
+    const rows = this.table.rowCount;
+    const xa = planAxis(fx, schema.features[fx], this.encoded, p, rows, resolution);
+    const ya = planAxis(fy, schema.features[fy], this.encoded, p, rows, resolution);
+    let base: Float64Array;
+    let baseRows = 1;
+    let used: RegionMap['reference'];
+    let heldAt: RegionMap['heldAt'] = [];
+    if (reference.mode === 'row') {
+      const t = this.numbering.tableRow(reference.row);
+      if (t === undefined) throw new RangeError(`Row ${reference.row} is not among the rows the forest was shown against.`);
+      base = this.encoded.slice(t * p, t * p + p);
+      used = { mode: 'row', row: reference.row };
+      heldAt = this.heldAtText(base, fx, fy);
+    } else if (reference.mode === 'averaged') {
+      const pick = sampleRows(this.trainRows.length, averageRows, this.seed);
+      baseRows = pick.length;
+      base = new Float64Array(baseRows * p);
+      pick.forEach((i, s) => {
+        const r = this.trainRows[i];
+        base.set(this.encoded.subarray(r * p, r * p + p), s * p);
+      });
+      used = { mode: 'averaged', sampleRows: baseRows };
+    } else {
+      base = Float64Array.from(schema.features, (f) => f.reference);
+      used = { mode: 'typical' };
+      heldAt = this.heldAtText(base, fx, fy);
+    }
+    const plan: GridPlan = { x: xa, y: ya, p, base, baseRows };
+    const acc = new GridAccumulator(this.task, this.classes.length, xa.n * ya.n);
+    for (const batch of gridBatches(plan)) {
+      const scored = await this.scorer.predict(batch.x, batch.rows);
+      acc.add(batch, scored);
+    }
+    return { x: xa.axis, y: ya.axis, nx: xa.n, ny: ya.n, cells: acc.finish(), reference: used, heldAt };
+  }
+
+  private heldAtText(base: Float64Array, fx: number, fy: number): RegionMap['heldAt'] {
+    return this.forest.schema.features
+      .map((f, i) => ({ f, i }))
+      .filter(({ i }) => i !== fx && i !== fy)
+      .map(({ f, i }) => {
+        const v = base[i];
+        const value = Number.isNaN(v) ? '(missing)' : f.kind === 'numeric' ? formatNumber(v) : (f.levels?.[v] ?? String(v));
+        return { feature: f.name, value };
+      });
+  }
+
+  /** A seeded sample of training rows with both coordinates, for drawing over a map. */
+  private points(fx: number, fy: number, limit: number): PointSample | null {
+    if (limit <= 0) return null;
+    const { p } = this;
+    const usable: number[] = [];
+    for (const r of this.trainRows) {
+      if (!Number.isNaN(this.encoded[r * p + fx]) && !Number.isNaN(this.encoded[r * p + fy]) && !Number.isNaN(this.truth[r])) usable.push(r);
+    }
+    const pick = sampleRows(usable.length, limit, this.seed + 1);
+    const rows = Array.from(pick, (i) => usable[i]).sort((a, b) => a - b);
+    const out: PointSample = { x: [], y: [], target: [], row: [], total: usable.length };
+    for (const r of rows) {
+      out.target.push(this.truth[r]);
+      out.x.push(this.encoded[r * p + fx]);
+      out.y.push(this.encoded[r * p + fy]);
+      out.row.push(this.numbering.dataRow(r));
+    }
+    return out;
+  }
+
+  private findSuspects(): SuspectRow[] {
+    if (this.task !== 'classification') return [];
+    const out: SuspectRow[] = [];
+    for (let i = 0; i < this.trainRows.length; i++) {
+      const r = this.trainRows[i];
+      const a = this.store.answer(r);
+      if (a.margin === undefined || !(a.margin < 0) || a.truth === undefined || !a.oob || a.oob.kind !== 'classification') continue;
+      out.push({ row: this.numbering.dataRow(r), margin: a.margin, label: a.truth, oobPredicted: majority(a.oob.counts) });
+    }
+    return out.sort((a, b) => a.margin - b.margin || a.row - b.row);
+  }
+}
+
+function rowVotesOf(store: RowStore, r: number, dataRow: number): RowVotes {
+  const a = store.answer(r);
+  const votes = new Array<number>(store.trees);
+  for (let t = 0; t < store.trees; t++) votes[t] = store.vote(t, r);
+  const oob = a.oob ? (a.oob.kind === 'classification' ? majority(a.oob.counts) : a.oob.mean) : NaN;
+  return {
+    row: dataRow,
+    counts: a.all.kind === 'classification' ? a.all.counts : [],
+    agreement: a.agreement,
+    entropy: a.all.kind === 'classification' ? voteEntropy(a.all.counts) : null,
+    oobVote: Number.isFinite(oob) && !(a.task === 'classification' && oob < 0) ? oob : null,
+    label: a.truth ?? null,
+    votes,
+    outOfBag: store.outOfBagTrees(r) ?? [],
+  };
+}
+
+/** The table's own target per row, in the forest's codes (NaN: missing, absent, or a class it never saw). */
+export function truthOf(forest: Forest, table: Table): Float64Array {
+  const target = forest.schema.target;
+  const col = findColumn(table, target.name);
+  const out = new Float64Array(table.rowCount).fill(NaN);
+  if (!col) return out;
+  if (target.task === 'regression') {
+    if (col.kind === 'numeric') out.set(col.values);
+    return out;
+  }
+  const code = new Map((target.classes ?? []).map((c, k) => [c, k]));
+  for (let i = 0; i < table.rowCount; i++) {
+    const k = code.get(cellText(col, i));
+    if (k !== undefined) out[i] = k;
+  }
+  return out;
+}
+
+function targetSd(truth: Float64Array, rows?: Int32Array): number {
+  let n = 0;
+  let sum = 0;
+  let sq = 0;
+  const each = (v: number) => {
+    if (Number.isNaN(v)) return;
+    n++;
+    sum += v;
+    sq += v * v;
+  };
+  if (rows) for (const r of rows) each(truth[r]);
+  else for (const v of truth) each(v);
+  if (n < 2) return 0;
+  const mean = sum / n;
+  return Math.sqrt(Math.max(0, (sq - n * mean * mean) / (n - 1)));
+}

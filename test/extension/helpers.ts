@@ -1,0 +1,48 @@
+// Shared set-up for the host tests: real core fits on the open fixtures, kept small (few trees, two workers).
+import * as path from 'node:path';
+import { fitForest } from '../../src/core/forest/fit';
+import { loadCsv } from '../../src/core/csv/load';
+import { Scorer } from '../../src/core/forest/scorer';
+import type { FitReport } from '../../src/core/forest/fit';
+import type { LoadResult } from '../../src/core/csv/types';
+import { ForestSession } from '../../src/extension/session/session';
+import { buildSummary } from '../../src/extension/summary/summary';
+import { readFileSync } from 'node:fs';
+
+export const FIXTURES = path.resolve(__dirname, '..', '..', '..', 'test', 'fixtures', 'open');
+
+export interface Fitted {
+  file: string;
+  load: LoadResult;
+  report: FitReport;
+  session: ForestSession;
+}
+
+export async function fitFixture(file: string, target: string, params: { trees: number; seed: number }, extra: { holdout?: number } = {}): Promise<Fitted> {
+  const load = await loadCsv(file);
+  const report = await fitForest(load.table, { target, params, workers: 2, holdout: extra.holdout });
+  const summary = buildSummary({
+    forest: report.forest,
+    report,
+    dataset: { label: path.basename(file), uri: `file://${file}` },
+    rowsRead: load.rowsRead,
+    sampled: false,
+    warnings: [],
+  });
+  const session = await ForestSession.create({
+    forest: report.forest,
+    source: { path: file, label: path.basename(file), delimiter: load.delimiter, fingerprint: load.fingerprint, rowsRead: load.rowsRead, header: load.header },
+    table: load.table,
+    text: () => readFileSync(file, 'utf8'),
+    oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag: report.rows.inBag, margin: report.rows.margin },
+    summary,
+    scorer: new Scorer(report.forest),
+  });
+  return { file, load, report, session };
+}
+
+/** A 1-based line reader over a file's text (what the editor seam supplies). */
+export function readerOf(text: string): (line: number) => string | undefined {
+  const lines = text.split('\n').map((l) => l.replace(/\r$/, ''));
+  return (line) => lines[line - 1];
+}

@@ -1,0 +1,90 @@
+// Keeping the last fit across a window reload, and bringing it back from storage and the CSV.
+import * as assert from 'node:assert/strict';
+import { promises as fs } from 'node:fs';
+import * as os from 'node:os';
+import * as path from 'node:path';
+import { Scorer } from '../../src/core/forest/scorer';
+import { fromBase64, loadLastFit, saveLastFit, toBase64 } from '../../src/extension/session/lastFit';
+import { restoreLastFit } from '../../src/extension/session/restore';
+import { choicesFrom } from '../../src/extension/fit/choices';
+import { readSettings } from '../../src/extension/settings';
+import { FIXTURES, fitFixture, type Fitted } from './helpers';
+
+describe('extension last fit', () => {
+  let dir: string;
+  let csv: string;
+  let f: Fitted;
+  before(async () => {
+    dir = await fs.mkdtemp(path.join(os.tmpdir(), 'copse-lastfit-'));
+    csv = path.join(dir, 'wine.csv');
+    await fs.copyFile(path.join(FIXTURES, 'wine.csv'), csv);
+    f = await fitFixture(csv, 'cultivar', { trees: 20, seed: 4 });
+    const choices = choicesFrom(readSettings({ get: () => undefined }).settings.training, 'cultivar', 'classification');
+    await saveLastFit(
+      path.join(dir, 'store'),
+      { forest: f.report.forest, trainRows: f.report.trainRows, inBag: f.report.rows.inBag },
+      { csvPath: csv, fingerprint: f.load.fingerprint, delimiter: f.load.delimiter, summary: f.session.summary, choices },
+    );
+  });
+  after(async () => {
+    await f?.session.dispose();
+    await fs.rm(dir, { recursive: true, force: true });
+  });
+
+  it('round-trips row indices through base64', () => {
+    const a = Int32Array.from([0, 5, 2 ** 31 - 1, -1]);
+    assert.deepEqual(Array.from(fromBase64(toBase64(a))), Array.from(a));
+    assert.deepEqual(Array.from(fromBase64(toBase64(a.subarray(1, 3)))), [5, 2 ** 31 - 1]);
+  });
+
+  it('restores the forest with the same per-row out-of-bag votes, margins and suspects', async () => {
+    const restored = (await restoreLastFit(path.join(dir, 'store'), (forest) => new Scorer(forest)))!;
+    try {
+      assert.equal(restored.note, undefined);
+      assert.ok(restored.origin, 'a restored fit can be refitted from the panel');
+      const s = restored.session;
+      assert.deepEqual(s.summary, f.session.summary);
+      for (const r of [0, 17, 100, 177]) {
+        const a = s.store.answer(r);
+        const b = f.session.store.answer(r);
+        assert.deepEqual(a.oob, b.oob);
+        assert.equal(a.margin, b.margin, 'margins recomputed from votes equal core\'s');
+        assert.deepEqual(a.all, b.all);
+      }
+      assert.deepEqual(s.suspects(50), f.session.suspects(50));
+    } finally {
+      await restored.session.dispose();
+    }
+  });
+
+  it('comes back without out-of-bag votes, and says so, when the CSV changed since', async () => {
+    const store2 = path.join(dir, 'store2');
+    await fs.cp(path.join(dir, 'store'), store2, { recursive: true });
+    const meta = JSON.parse(await fs.readFile(path.join(store2, 'meta.json'), 'utf8'));
+    const changed = path.join(dir, 'wine-changed.csv');
+    const text = await fs.readFile(csv, 'utf8');
+    await fs.writeFile(changed, text.replace(/\n([^\n]+)\n$/, '\n$1\n$1\n'));
+    meta.csvPath = changed;
+    await fs.writeFile(path.join(store2, 'meta.json'), JSON.stringify(meta));
+    const restored = (await restoreLastFit(store2, (forest) => new Scorer(forest)))!;
+    try {
+      assert.match(restored.note ?? '', /has changed since this forest was fitted/);
+      assert.equal(restored.origin, undefined);
+      assert.equal(restored.session.store.answer(0).oob, undefined);
+      assert.equal(restored.session.store.answer(0).role, 'scored');
+      assert.match(restored.session.summary.warnings[0], /has changed/);
+    } finally {
+      await restored.session.dispose();
+    }
+  });
+
+  it('finds nothing, rather than a half set, when the storage is empty or damaged', async () => {
+    assert.equal(await loadLastFit(path.join(dir, 'nowhere')), undefined);
+    const broken = path.join(dir, 'broken');
+    await fs.cp(path.join(dir, 'store'), broken, { recursive: true });
+    await fs.writeFile(path.join(broken, 'inbag.bin'), Buffer.alloc(3));
+    assert.equal(await loadLastFit(broken), undefined);
+    await fs.writeFile(path.join(broken, 'meta.json'), '{"version": 1}');
+    assert.equal(await loadLastFit(broken), undefined);
+  });
+});
