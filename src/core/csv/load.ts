@@ -1,0 +1,30 @@
+// The CSV loader's public entry points.
+
+import { loadFromSource } from './loader';
+import { fileSource, textSource } from './sources';
+import type { LoadOptions, LoadResult } from './types';
+
+export { DataError, DEFAULT_MAX_LEVELS, DEFAULT_MISSING_TOKENS } from './types';
+export type { LoadOptions, LoadResult } from './types';
+
+/**
+ * Reads a CSV file into typed columns, streaming it (the text is never held whole) and never writing to it.
+ *
+ * - Header row first; delimiter detected among , ; TAB | unless given; UTF-8 with or without BOM; any of
+ *   LF, CRLF, CR line ends; RFC 4180 quoting (delimiters and line breaks inside quotes). Cells are trimmed;
+ *   blank lines are skipped (they are not rows) but still count as lines.
+ * - Column kinds are inferred (numeric, categorical, boolean; ISO dates become numeric days since 1970-01-01)
+ *   unless forced by `columnTypes`. Identifier-like, constant, empty and free-text columns are left out, each
+ *   with a reason; the target never is, and rows without a target value are dropped with a note.
+ * - Any problem with the input rejects with a DataError: one sentence naming the file, and the line and column
+ *   where they apply. Lines are 1-based physical lines; `table.lineOfRow[i]` is where data row i starts.
+ * - `signal` stops the load; it then rejects with a DOMException named 'AbortError'.
+ */
+export function loadCsv(path: string, options?: LoadOptions): Promise<LoadResult> {
+  return loadFromSource(fileSource(path), options);
+}
+
+/** The same load for text already in memory (an editor buffer, a test); `label` names it in messages. */
+export function loadCsvText(text: string, options?: LoadOptions, label = '<text>'): Promise<LoadResult> {
+  return loadFromSource(textSource(text, label), options);
+}
