@@ -5,7 +5,7 @@ import type { CellCleaner } from './cells';
 import { ColumnBuilder } from './column-builder';
 import { Reservoir } from './reservoir';
 import { DataError } from './types';
-import { count, q, someNames } from './wording';
+import { count, plural, q, someNames } from './wording';
 
 export interface IntakeConfig {
   readonly label: string;
@@ -96,7 +96,9 @@ export class Intake {
     this.headerLine = line;
     for (let j = 0; j < names.length; j++) {
       if (names[j] === '') {
-        const where = names.length === 1 ? '' : j === 0 ? ` (before ${q(names[1] || '?')})` : ` (after ${q(names[j - 1] || '?')})`;
+        const before = j > 0 ? names[j - 1] : '';
+        const after = j + 1 < names.length ? names[j + 1] : '';
+        const where = before !== '' ? ` (after ${q(before)})` : after !== '' ? ` (before ${q(after)})` : '';
         this.failure = new DataError(`${label} line ${line}: column ${j + 1}${where} has an empty name in the header.`);
         return;
       }
@@ -142,9 +144,9 @@ export class Intake {
     const { label, target, columnTypes } = this.config;
     if (target !== undefined && !names.includes(target)) {
       const near = names.find((n) => n.toLowerCase() === target.trim().toLowerCase());
-      const hint = near !== undefined ? ` Did you mean ${q(near)}?` : '';
+      const hint = near !== undefined ? ` (did you mean ${q(near)}?)` : '';
       return new DataError(
-        `${label} has no column named ${q(target)} to predict (header on line ${line}); its columns are ${someNames(names)}.${hint}`,
+        `${label} has no column named ${q(target)} to predict (header on line ${line}); its columns are ${someNames(names)}${hint}.`,
       );
     }
     for (const [name, kind] of Object.entries(columnTypes)) {
@@ -169,9 +171,9 @@ export class Intake {
     const detail =
       fields < header.length
         ? `so column ${q(header[fields])} has no value`
-        : `so the field after column ${q(header[header.length - 1])} has no column`;
+        : `so ${plural(fields - header.length, 'field')} after column ${q(header[header.length - 1])} ${fields - header.length === 1 ? 'has' : 'have'} no header name`;
     return new DataError(
-      `${label} line ${line} has ${count(fields)} fields, but the header (line ${this.headerLine}) has ${count(header.length)}, ${detail}.`,
+      `${label} line ${line} has ${plural(fields, 'field')}, but the header (line ${this.headerLine}) has ${count(header.length)}, ${detail}.`,
     );
   }
 }
