@@ -77,7 +77,9 @@ export class RowMarks implements vscode.Disposable {
     const read = lineReader(editor.document);
     const tableRows = new Set<number>();
     for (const sel of editor.selections) {
-      for (const r of s.lines.rowsBetween(sel.start.line + 1, sel.end.line + 1, read)) {
+      // A selection of whole lines ends at column 0 of the next line, which it does not really include.
+      const endLine = sel.end.character === 0 && sel.end.line > sel.start.line ? sel.end.line - 1 : sel.end.line;
+      for (const r of s.lines.rowsBetween(sel.start.line + 1, endLine + 1, read)) {
         tableRows.add(r);
         if (tableRows.size >= LIMITS.selectedRows) break;
       }
