@@ -1,0 +1,59 @@
+import { Locator, Page } from 'playwright-core';
+import { BrowserElement } from './dom';
+
+const WIDGET = '.quick-input-widget';
+
+/**
+ * Runs a command the way a person does: F1, type its title, Enter.
+ * `title` is the full title as the palette shows it ("View: Toggle Word Wrap").
+ * Fuzzy matching often ranks another command first (typing "Markdown: Open
+ * Preview" focuses "...Open Locked Preview to the Side"), so this waits for the
+ * row whose label is exactly `title` and moves the focus to it before Enter.
+ */
+export async function runCommand(page: Page, title: string, timeoutMs = 15_000): Promise<void> {
+  const widget = page.locator(WIDGET);
+  await page.keyboard.press('F1');
+  await widget.waitFor({ state: 'visible', timeout: timeoutMs });
+  const input = widget.locator('.quick-input-box input');
+  await input.fill(`>${title}`);
+  const row = exactRow(widget, title);
+  await row.waitFor({ state: 'visible', timeout: timeoutMs }).catch(async () => {
+    const shown = await widget.locator('.quick-input-list .monaco-list-row .label-name').allInnerTexts();
+    await page.keyboard.press('Escape');
+    throw new Error(`no command titled "${title}" in the palette; it showed: ${JSON.stringify(shown)}`);
+  });
+  const deadline = Date.now() + timeoutMs;
+  while (!(await row.evaluate((el: BrowserElement) => el.classList.contains('focused')))) {
+    if (Date.now() > deadline) throw new Error(`could not focus the palette row "${title}"`);
+    await page.keyboard.press('ArrowDown');
+  }
+  await page.keyboard.press('Enter');
+}
+
+/** Picks an entry in an open quick pick (one a command opened), by its exact label. */
+export async function pickQuickItem(page: Page, label: string, timeoutMs = 15_000): Promise<void> {
+  const widget = page.locator(WIDGET);
+  await widget.waitFor({ state: 'visible', timeout: timeoutMs });
+  const row = exactRow(widget, label);
+  await row.waitFor({ state: 'visible', timeout: timeoutMs });
+  await row.click();
+}
+
+/** Types into the open quick input (an input box a command opened) and confirms with Enter. */
+export async function answerInputBox(page: Page, text: string, timeoutMs = 15_000): Promise<void> {
+  const input = page.locator(`${WIDGET} .quick-input-box input`);
+  await input.waitFor({ state: 'visible', timeout: timeoutMs });
+  await input.fill(text);
+  await page.keyboard.press('Enter');
+}
+
+function exactRow(widget: Locator, label: string): Locator {
+  return widget
+    .locator('.quick-input-list .monaco-list-row')
+    .filter({ has: widget.page().locator('.label-name', { hasText: new RegExp(`^${escapeRegExp(label)}$`) }) })
+    .first();
+}
+
+export function escapeRegExp(text: string): string {
+  return text.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+}
