@@ -241,6 +241,7 @@ function finishLoad(intake: Intake, config: FinishConfig): LoadResult {
     const ctx = { label, maxLevels, forced: forcedOf(header[t]), isTarget: true };
     let finished = finishColumn(builder, rows, ctx);
     if (!('column' in finished)) throw new Error('the target column was dropped'); // finishColumn never drops it
+    const strayWarning = finished.warning;
     // Text cells in a numeric target became missing; those rows go the way of rows with no target at all.
     let removed = 0;
     let firstRemovedLine = 0;
@@ -275,7 +276,7 @@ function finishLoad(intake: Intake, config: FinishConfig): LoadResult {
     }
     columns[t] = targetColumn;
     notesOf[t] = finished.note;
-    warningsOf[t] = finished.warning;
+    warningsOf[t] = strayWarning;
   }
 
   for (let j = 0; j < header.length; j++) {
