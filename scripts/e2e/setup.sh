@@ -47,23 +47,32 @@ node_major=$(node -p 'process.versions.node.split(".")[0]')
 # Native modules are built for one Node ABI; a different Node needs a rebuild.
 stamp_text="code-server=$CS_VERSION node-abi=$(node -p process.versions.modules) arch=$(uname -m) setup=$SETUP_REVISION"
 
+# --- Is the workbench already installed? ------------------------------------------
+installed=false
+if [ "${COPSE_E2E_FORCE:-0}" != 1 ] && [ -f "$STAMP" ] && [ "$(cat "$STAMP")" = "$stamp_text" ] \
+   && [ -f "$ENTRY" ] && [ -x "$BUNDLED_RG" ]; then
+  installed=true
+fi
+
 # --- System packages ----------------------------------------------------------
-# Each entry: Debian package, a file it provides, why we need it.
-# Probing a file rather than asking dpkg keeps the check fast and lets a
-# non-Debian machine that already has the files pass.
+# Each entry: when it is needed (run: every test run; build: installing only),
+# the Debian package, a file it provides, and why. Probing a file rather than
+# asking dpkg keeps the check fast and lets a non-Debian machine that already
+# has the files pass.
 requirements=(
-  "chromium|/usr/bin/chromium|renders the workbench (Playwright drives it; no browser is downloaded)"
-  "ripgrep|/usr/bin/rg|VS Code's search needs rg; its npm package would download one"
-  "libkrb5-dev|/usr/include/gssapi/gssapi.h|gssapi headers for the kerberos native module"
+  "run|chromium|/usr/bin/chromium|renders the workbench (Playwright drives it; no browser is downloaded)"
+  "run|ripgrep|/usr/bin/rg|VS Code's search needs rg; its npm package would download one"
+  "build|libkrb5-dev|/usr/include/gssapi/gssapi.h|gssapi headers for the kerberos native module"
 )
 missing_pkgs=()
 missing_lines=()
 check_requirements() {
   missing_pkgs=()
   missing_lines=()
-  local entry pkg file why
+  local entry when pkg file why
   for entry in "${requirements[@]}"; do
-    IFS='|' read -r pkg file why <<<"$entry"
+    IFS='|' read -r when pkg file why <<<"$entry"
+    if [ "$when" = build ] && [ "$installed" = true ]; then continue; fi
     if [ ! -e "$file" ]; then
       missing_pkgs+=("$pkg")
       missing_lines+=("  $pkg (no $file): $why")
@@ -90,16 +99,14 @@ if [ ${#missing_pkgs[@]} -gt 0 ]; then
     exit 2
   fi
 fi
-for tool in python3 make g++ tar; do
-  command -v "$tool" >/dev/null || fail "$tool is missing (node-gyp builds code-server's native modules with it)"
-done
 
-# --- Fast path ------------------------------------------------------------------
-if [ "${COPSE_E2E_FORCE:-0}" != 1 ] && [ -f "$STAMP" ] && [ "$(cat "$STAMP")" = "$stamp_text" ] \
-   && [ -f "$ENTRY" ] && [ -x "$BUNDLED_RG" ]; then
+if [ "$installed" = true ]; then
   say "code-server $CS_VERSION already installed in $CS_DIR ($(elapsed))"
   exit 0
 fi
+for tool in python3 make g++ tar; do
+  command -v "$tool" >/dev/null || fail "$tool is missing (node-gyp builds code-server's native modules with it)"
+done
 
 # --- Install ----------------------------------------------------------------------
 mkdir -p "$CACHE_ROOT"
