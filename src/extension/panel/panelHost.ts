@@ -10,6 +10,7 @@ import {
   type HostToPanel,
   type PanelToHost,
   type ReferenceChoice,
+  type RegionMap,
 } from '../../protocol/messages';
 import type { CopseContext } from '../context';
 import { isUserError, userMessage } from '../errors';
@@ -33,7 +34,18 @@ export class PanelHost implements vscode.Disposable {
   private readonly panelDisposables: vscode.Disposable[] = [];
   /** Bumped per map request so a slow map never overwrites a newer one. */
   private mapTicket = 0;
-  private lastChoice: { x: string; y: string; reference: ReferenceChoice } | undefined;
+  /**
+   * What the panel shows for the active forest. The webview's page is discarded whenever the panel is
+   * hidden (we do not retain it), and comes back empty-handed but for its own saved state; this lets the
+   * host re-send the same picture at once instead of scoring it again.
+   */
+  private shown: {
+    session: ForestSession;
+    choice?: { x: string; y: string; reference: ReferenceChoice };
+    map?: RegionMap;
+    matrix?: RegionMap[];
+    rows?: number[];
+  } | undefined;
 
   constructor(
     private readonly ctx: CopseContext,
@@ -98,6 +110,7 @@ export class PanelHost implements vscode.Disposable {
     const s = this.ctx.session;
     if (!s) return;
     const rows = dataRows.slice(0, LIMITS.selectedRows);
+    if (this.shown?.session === s) this.shown.rows = rows;
     this.post({ type: 'disagreement', rows: s.rowVotes(rows) });
     this.post({ type: 'highlight', rows });
   }
@@ -123,10 +136,15 @@ export class PanelHost implements vscode.Disposable {
     panel.iconPath = vscode.Uri.joinPath(this.ctx.extension.extensionUri, 'dist', 'icon.png');
     this.panelDisposables.push(
       panel.webview.onDidReceiveMessage((m: unknown) => void this.receive(m)),
+      // Hidden without retained context, the page is torn down; it says 'ready' again when shown.
+      panel.onDidChangeViewState((e) => {
+        if (!e.webviewPanel.visible) this.ready = false;
+      }),
       panel.onDidDispose(() => {
         this.panel = undefined;
         this.ready = false;
         this.queue = [];
+        this.shown = undefined;
         for (const d of this.panelDisposables.splice(0)) d.dispose();
       }),
     );
@@ -146,13 +164,13 @@ export class PanelHost implements vscode.Disposable {
           // Everything but progress is about to be sent afresh; a reloaded panel may hold an older
           // summary in its own state, and ours must win so both ends agree.
           for (const m of this.queue.splice(0)) if (m.type === 'status') void this.panel?.webview.postMessage(m);
-          await this.sessionChanged(this.ctx.session);
+          await this.sendAll(this.ctx.session);
           break;
         case 'chooseMap':
           await this.sendMap(msg.x, msg.y, msg.reference);
           break;
         case 'openMap':
-          await this.sendMap(msg.x, msg.y, this.lastChoice?.reference ?? { mode: 'typical' });
+          await this.sendMap(msg.x, msg.y, this.shown?.choice?.reference ?? { mode: 'typical' });
           break;
         case 'revealRow':
           await this.actions.revealRow(msg.row);
@@ -169,43 +187,58 @@ export class PanelHost implements vscode.Disposable {
 
   private async sessionChanged(session: ForestSession | undefined): Promise<void> {
     if (!this.panel || !this.ready) return;
-    this.lastChoice = undefined;
-    if (!session) {
-      this.status('idle', 'No forest yet. Run "Copse: Fit a forest" on a CSV file.');
-      return;
-    }
     await this.sendAll(session);
   }
 
-  private async sendAll(session: ForestSession): Promise<void> {
-    this.post({ type: 'summary', summary: session.summary });
-    this.post({ type: 'suspects', rows: session.suspects(LIMITS.suspects) });
-    const axes = this.lastChoice ?? (session.defaultAxes() ? { ...session.defaultAxes()!, reference: { mode: 'typical' } as ReferenceChoice } : undefined);
-    if (!axes) {
-      this.status('idle', 'A map needs at least two features the forest can draw.');
+  /** Everything the panel shows for the session, from the cache where the session has not changed. */
+  private async sendAll(session: ForestSession | undefined): Promise<void> {
+    if (!session) {
+      this.shown = undefined;
+      this.status('idle', 'No forest yet. Run "Copse: Fit a forest" on a CSV file.');
       return;
     }
-    await this.sendMap(axes.x, axes.y, axes.reference);
+    if (this.shown?.session !== session) this.shown = { session };
+    const shown = this.shown;
+    this.post({ type: 'summary', summary: session.summary });
+    this.post({ type: 'suspects', rows: session.suspects(LIMITS.suspects) });
+    if (shown.map) {
+      this.post({ type: 'regionMap', map: shown.map });
+    } else {
+      const first = shown.choice ?? (session.defaultAxes() ? { ...session.defaultAxes()!, reference: { mode: 'typical' } as ReferenceChoice } : undefined);
+      if (!first) {
+        this.status('idle', 'A map needs at least two features the forest can draw.');
+        return;
+      }
+      await this.sendMap(first.x, first.y, first.reference);
+    }
     if (session !== this.ctx.session) return;
-    const settings = this.ctx.settings().panel;
-    const started = performance.now();
-    const maps = await session.mapMatrix(settings, LIMITS.smallMaps);
+    if (!shown.matrix) {
+      const started = performance.now();
+      shown.matrix = await session.mapMatrix(this.ctx.settings().panel, LIMITS.smallMaps);
+      this.ctx.log.info(`Small maps: ${shown.matrix.length} pairs in ${Math.round(performance.now() - started)} ms.`);
+    }
     if (session !== this.ctx.session) return;
-    this.ctx.log.info(`Small maps: ${maps.length} pairs in ${Math.round(performance.now() - started)} ms.`);
-    this.post({ type: 'mapMatrix', maps });
+    this.post({ type: 'mapMatrix', maps: shown.matrix });
+    if (shown.rows?.length) {
+      this.post({ type: 'disagreement', rows: session.rowVotes(shown.rows) });
+      this.post({ type: 'highlight', rows: shown.rows });
+    }
   }
 
   private async sendMap(x: string, y: string, reference: ReferenceChoice): Promise<void> {
     const session = this.ctx.session;
     if (!session) return;
     const ticket = ++this.mapTicket;
-    this.lastChoice = { x, y, reference };
+    if (this.shown?.session !== session) this.shown = { session };
+    const shown = this.shown;
+    shown.choice = { x, y, reference };
     this.status('working', `Scoring the ${x} × ${y} map…`, null);
     const started = performance.now();
     const map = await session.regionMap(x, y, reference, this.ctx.settings().panel);
     if (ticket !== this.mapTicket || session !== this.ctx.session) return;
     const ms = Math.round(performance.now() - started);
     this.ctx.log.info(`Map ${x} × ${y} (${reference.mode}): ${map.nx}×${map.ny} cells in ${ms} ms.`);
+    shown.map = map;
     this.post({ type: 'regionMap', map });
     this.status('idle', '');
   }
