@@ -40,3 +40,17 @@ export function mixed(n: number, seed = 'explain-mixed'): Table {
   }
   return tableFrom({ a, b, colour, flag, noise, value, label });
 }
+
+/** The listed rows of a table, in that order, as a table of their own. */
+export function subsetTable(table: Table, rows: ArrayLike<number>): Table {
+  const pick = <T extends Float64Array | Int32Array>(a: T): T => {
+    const out = new (a.constructor as new (n: number) => T)(rows.length);
+    for (let i = 0; i < rows.length; i++) out[i] = a[rows[i]];
+    return out;
+  };
+  return {
+    rowCount: rows.length,
+    columns: table.columns.map((c) => (c.kind === 'numeric' ? { ...c, values: pick(c.values) } : { ...c, codes: pick(c.codes) })),
+    lineOfRow: pick(table.lineOfRow),
+  };
+}
