@@ -13,6 +13,8 @@ const BOOLEAN_PAIRS: readonly (readonly [string, string])[] = [
   ['no', 'yes'],
   ['f', 't'],
   ['n', 'y'],
+  // Never met by inference (0 and 1 read as numbers); orders a 0/1 column forced to boolean.
+  ['0', '1'],
 ];
 
 /** The rows that make up the table: `order[i]` is the slot of final row i (null: slot i is row i). */

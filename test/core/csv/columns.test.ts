@@ -193,6 +193,14 @@ describe('csv columns', () => {
       assert.match(r.warnings[0], /2 cells of text became missing \(the first on line 3: 'lots'\)/);
     });
 
+    it('forces boolean on a 0/1 column, 0 first as false', async () => {
+      const r = await loadCsvText('b,x\n1,1\n0,2\n1,1\n', { columnTypes: { b: 'boolean' } });
+      const col = r.table.columns.find((c) => c.name === 'b');
+      assert.ok(col && col.kind === 'boolean');
+      assert.deepEqual(col.levels, ['0', '1']);
+      assert.deepEqual(Array.from(col.codes), [1, 0, 1]);
+    });
+
     it('forces boolean on any two values', async () => {
       const r = await loadCsvText('s,x\nM,1\nF,2\nM,1\n', { columnTypes: { s: 'boolean' } });
       assert.equal(kinds(r).s, 'boolean');
