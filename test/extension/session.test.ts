@@ -143,6 +143,14 @@ describe('extension session (iris, classification)', () => {
     }
   });
 
+  it('draws averaged maps coarser than typical ones, since every cell averages many rows', async () => {
+    const map = await f.session.regionMap('petal_width', 'petal_length', { mode: 'averaged' }, { ...panel, gridResolution: 80, dependenceRows: 10 });
+    assert.deepEqual([map.nx, map.ny], [40, 40]);
+    assert.deepEqual(map.reference, { mode: 'averaged', sampleRows: 10 });
+    const typical = await f.session.regionMap('petal_width', 'petal_length', { mode: 'typical' }, { ...panel, gridResolution: 80 });
+    assert.deepEqual([typical.nx, typical.ny], [80, 80]);
+  });
+
   it('holds the other features at a chosen row for a row map', async () => {
     const map = await f.session.regionMap('sepal_length', 'sepal_width', { mode: 'row', row: 120 }, panel);
     const values = readFileSync(f.file, 'utf8').split('\n')[120].split(',');

@@ -16,6 +16,9 @@ import { majority, RowStore, voteEntropy, type OobPart } from './rowStore';
 import type { PanelSettings } from '../settings';
 import { sampleRows } from '../summary/warnings';
 
+/** Cells per axis at most for partial-dependence maps: 40 x 40 cells x 40 rows is about 64k predictions. */
+export const AVERAGED_RESOLUTION = 40;
+
 export interface ScorerLike {
   predict(x: Float64Array, rows: number): Promise<Prediction>;
   dispose(): Promise<void>;
@@ -203,7 +206,9 @@ export class ForestSession {
     const fx = this.featureIndex(x);
     const fy = this.featureIndex(y);
     if (fx === fy) throw new RangeError('Pick two different features for the map.');
-    const map = await this.scoreMap(fx, fy, reference, panel.gridResolution, panel.dependenceRows);
+    // Each averaged cell costs one prediction per sampled row, so those maps are drawn coarser.
+    const resolution = reference.mode === 'averaged' ? Math.min(panel.gridResolution, AVERAGED_RESOLUTION) : panel.gridResolution;
+    const map = await this.scoreMap(fx, fy, reference, resolution, panel.dependenceRows);
     return { ...map, points: this.points(fx, fy, panel.pointsDrawn) };
   }
 
