@@ -4,6 +4,7 @@ import { SchemaMismatchError } from '../core/forest/predict';
 import { OverwriteError } from '../core/forest/score-file';
 import { ModelError } from '../core/model/file';
 import { UsageError } from './args';
+import { EXPLAIN_HELP, runExplain } from './commands/explain';
 import { FIT_HELP, runFit } from './commands/fit';
 import { PREDICT_HELP, runPredict } from './commands/predict';
 import { runVotes, VOTES_HELP } from './commands/votes';
@@ -22,6 +23,7 @@ const COMMANDS: Record<string, { run: (argv: string[]) => Promise<void>; help: s
   fit: { run: runFit, help: FIT_HELP },
   predict: { run: runPredict, help: PREDICT_HELP },
   votes: { run: runVotes, help: VOTES_HELP },
+  explain: { run: runExplain, help: EXPLAIN_HELP },
 };
 
 /** Errors that are about the user's input get one sentence; anything else is a bug and says so. */

@@ -1,0 +1,136 @@
+import { cellText, findColumn } from '../../core/data/table';
+import { ContributionExplainer } from '../../core/explain/contributions';
+import { encodeTable, predictEncoded } from '../../core/forest/predict';
+import { loadForScoring } from '../../core/forest/score-file';
+import { dataRowOf } from '../../core/forest/summary';
+import { argmaxAt } from '../../core/metrics/scores';
+import { loadModel } from '../../core/model/file';
+import { flag, list, parse, text, UsageError, wholeNumber, type Options } from '../args';
+
+export const EXPLAIN_HELP = `Usage: copse explain MODEL.json DATA.csv --rows 1,7,12 [--json]
+
+Shows how much each feature moved a saved forest's prediction on chosen rows of DATA.csv, away from the
+forest's average prediction. The contributions are exact Shapley values of the trees (Lundberg et al. 2020)
+and add up to the prediction. Rows are counted from 1: the first row after the header is row 1.
+
+Options:
+  --rows LIST     comma-separated data row numbers (required)
+  --class LABEL   classification: explain the probability of this class (default: the predicted class)
+  --top N         show the N largest contributions per row (default 10; all with --json)
+  --json          print one JSON object: per row its prediction, the average prediction ("base")
+                  and every feature's contribution (per class for classification)
+  --debug         show stack traces on errors
+`;
+
+const OPTIONS: Options = { rows: { type: 'string' }, class: { type: 'string' }, top: { type: 'string' }, json: { type: 'boolean' } };
+
+interface ExplainedRow {
+  row: number;
+  line: number;
+  prediction: string | number;
+  probabilities?: Record<string, number>;
+  base: number | Record<string, number>;
+  contributions: Record<string, number> | Record<string, Record<string, number>>;
+  values: Record<string, string>;
+}
+
+export async function runExplain(argv: string[]): Promise<void> {
+  const args = parse('explain', argv, OPTIONS, 2);
+  if (flag(args, 'help')) return void process.stdout.write(EXPLAIN_HELP);
+  const wanted = list(args, 'rows').map((r) => {
+    const n = Number(r);
+    if (!Number.isInteger(n) || n < 1) throw new UsageError(`--rows takes data row numbers counted from 1; got "${r}".`, 'explain');
+    return n;
+  });
+  if (wanted.length === 0) throw new UsageError('copse explain needs --rows, such as --rows 1,7,12.', 'explain');
+  const top = wholeNumber(args, 'top', 1) ?? 10;
+  const [modelPath, dataPath] = args.positionals;
+  const forest = await loadModel(modelPath);
+  const target = forest.schema.target;
+  const classes = target.classes ?? [];
+  const chosen = text(args, 'class');
+  if (chosen !== undefined) {
+    if (target.task !== 'classification') throw new UsageError('--class applies to classification forests; this one is a regression.', 'explain');
+    if (!classes.includes(chosen)) throw new UsageError(`--class: the forest has no class "${chosen}"; its classes are ${classes.map((c) => `"${c}"`).join(', ')}.`, 'explain');
+  }
+  const loaded = await loadForScoring(dataPath, forest.schema);
+  const table = loaded.table;
+  const index = new Map<number, number>();
+  for (let i = 0; i < table.rowCount; i++) index.set(dataRowOf(table, i), i);
+  const missing = wanted.filter((r) => !index.has(r));
+  if (missing.length) throw new UsageError(`${dataPath} has ${table.rowCount} data rows; there is no row ${missing.join(', ')}.`, 'explain');
+
+  const all = encodeTable(forest.schema, table, dataPath);
+  const names = forest.schema.features.map((f) => f.name);
+  const p = names.length;
+  const x = new Float64Array(wanted.length * p);
+  wanted.forEach((r, j) => x.set(all.subarray(index.get(r)! * p, (index.get(r)! + 1) * p), j * p));
+  const pred = predictEncoded(forest, x, wanted.length);
+  const explainer = new ContributionExplainer(forest);
+  const K = explainer.outputs;
+  const columns = forest.schema.features.map((f) => findColumn(table, f.name)!);
+
+  const rows = wanted.map((r, j): ExplainedRow => {
+    const phi = explainer.explainRow(x, j * p);
+    const tableRow = index.get(r)!;
+    const values = Object.fromEntries(names.map((n, f) => [n, cellText(columns[f], tableRow)]));
+    const line = table.lineOfRow[tableRow];
+    if (target.task === 'classification') {
+      const perClass = (k: number) => Object.fromEntries(names.map((n, f) => [n, phi[f * K + k]]));
+      return {
+        row: r,
+        line,
+        prediction: classes[argmaxAt(pred.proba!, j * K, K)],
+        probabilities: Object.fromEntries(classes.map((c, k) => [c, pred.proba![j * K + k]])),
+        base: Object.fromEntries(classes.map((c, k) => [c, explainer.base[k]])),
+        contributions: Object.fromEntries(classes.map((c, k) => [c, perClass(k)])),
+        values,
+      };
+    }
+    return { row: r, line, prediction: pred.predicted[j], base: explainer.base[0], contributions: Object.fromEntries(names.map((n, f) => [n, phi[f]])), values };
+  });
+
+  if (flag(args, 'json')) {
+    process.stdout.write(JSON.stringify({ task: target.task, target: target.name, trees: forest.trees.length, features: names, rows }, null, 2) + '\n');
+    return;
+  }
+  for (const w of loaded.warnings) process.stderr.write(`Warning: ${w}\n`);
+  process.stdout.write(rows.map((row) => readable(row, chosen, top)).join('\n'));
+}
+
+/** Signed, with one number of decimals per row, so the column lines up and the largest shows four digits. */
+function signer(values: number[]): (v: number) => string {
+  const largest = Math.max(...values.map(Math.abs));
+  const decimals = largest > 0 ? Math.min(6, Math.max(0, 3 - Math.floor(Math.log10(largest)))) : 2;
+  return (v) => (v >= 0 ? '+' : '') + v.toFixed(decimals);
+}
+
+function readable(row: ExplainedRow, chosen: string | undefined, top: number): string {
+  let head: string;
+  let base: number;
+  let output: number;
+  let phi: Record<string, number>;
+  if (row.probabilities) {
+    const cls = chosen ?? String(row.prediction);
+    base = (row.base as Record<string, number>)[cls];
+    output = row.probabilities[cls];
+    phi = (row.contributions as Record<string, Record<string, number>>)[cls];
+    head = `Row ${row.row} (line ${row.line}): predicted "${row.prediction}"; probability of "${cls}" ${output.toFixed(3)}, against ${base.toFixed(3)} on average`;
+  } else {
+    base = row.base as number;
+    output = row.prediction as number;
+    phi = row.contributions as Record<string, number>;
+    head = `Row ${row.row} (line ${row.line}): predicted ${output.toPrecision(6)}, against ${base.toPrecision(6)} on average`;
+  }
+  const signed = signer([...Object.values(phi), output - base]);
+  const order = Object.keys(phi).sort((a, b) => Math.abs(phi[b]) - Math.abs(phi[a]) || (a < b ? -1 : 1));
+  const shown = order.slice(0, top);
+  const cells = [['feature', 'value', 'contribution'], ...shown.map((f) => [f, row.values[f] === '' ? '(missing)' : row.values[f], signed(phi[f])])];
+  const widths = cells[0].map((_, c) => Math.max(...cells.map((r) => r[c].length)));
+  let out = `${head}\n`;
+  out += cells.map((r) => '  ' + r.map((c, i) => (i === 0 ? c.padEnd(widths[i]) : c.padStart(widths[i]))).join('  ')).join('\n') + '\n';
+  const rest = order.slice(top);
+  if (rest.length) out += `  (${rest.length} more feature${rest.length > 1 ? 's' : ''}, together ${signed(rest.reduce((s, f) => s + phi[f], 0))})\n`;
+  out += `  The contributions add up to ${signed(output - base)}, the distance from the average to this prediction.\n`;
+  return out;
+}
