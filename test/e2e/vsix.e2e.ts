@@ -45,10 +45,13 @@ describe('e2e harness with an installed .vsix', function () {
     assert.ok(installed.some((name) => name.startsWith(`${PROBE_ID}-`)), `extensions folder: ${JSON.stringify(installed)}`);
   });
 
+  it('sees the extension activate on the event its manifest names', async function () {
+    assert.strictEqual(await wb!.waitForExtensionActivation(PROBE_ID), 'onStartupFinished');
+  });
+
   it("reads the extension's hover", async function () {
     await wb!.openFile('plots.csv');
-    // The probe activates on startup finished, so its hover may need a moment; hoverLine retries.
-    const text = await wb!.hoverLine(3, { timeoutMs: 30_000 });
+    const text = await wb!.hoverLine(3);
     assert.match(text, /probe: line 3 has 3 fields/);
   });
 
@@ -65,5 +68,15 @@ describe('e2e harness with an installed .vsix', function () {
     await panel.locator('#ping').click();
     await wb!.waitForNotification('Panel clicked: ping');
     await wb!.screenshot('probe-panel');
+  });
+
+  it('looks past a retained webview while it is hidden, and finds it again when shown', async function () {
+    // The probe's panel retains its context, so its iframe stays in the page
+    // while another tab is in front, only hidden.
+    await wb!.openFile('plots.csv', { pin: true });
+    const title = wb!.webview({ extensionId: PROBE_ID }).locator('#title');
+    await title.waitFor({ state: 'hidden', timeout: 10_000 });
+    await wb!.activateTab('Probe Panel');
+    assert.strictEqual((await title.innerText()).trim(), 'Probe panel');
   });
 });

@@ -8,11 +8,12 @@ import * as path from 'path';
 import { FrameLocator, Frame, Page } from 'playwright-core';
 import { BrowserSession, launchChromium } from './harness/chromium';
 import { answerDialog, Dialog, waitForDialog } from './harness/dialogs';
+import { BrowserElement } from './harness/dom';
 import { CodeServer, startCodeServer } from './harness/codeServer';
 import { hoverLine, HoverOptions, selectedText, selectLines, statusBarSelection, visibleLines } from './harness/editor';
 import { explorerContextMenu, openFromExplorer, pickContextMenu, revealInExplorer } from './harness/explorer';
 import { allNotifications, clickNotificationButton, Notification, notifications, waitForNotification } from './harness/notifications';
-import { answerInputBox, pickQuickItem, runCommand } from './harness/palette';
+import { answerInputBox, escapeRegExp, pickQuickItem, runCommand } from './harness/palette';
 import { artifactsDir, safeName } from './harness/paths';
 import { descendants, groupMembers, sleep } from './harness/processes';
 import { webview, webviewFrame, WebviewQuery } from './harness/webview';
@@ -56,7 +57,7 @@ export class Workbench {
     readonly timings: Timings,
     private readonly startedAt: number,
   ) {
-    this.expectedExtensionHosts = server.extensionHostLaunches() + 1;
+    this.expectedExtensionHosts = server.extensionHostLogs().length + 1;
   }
 
   /** Starts code-server on a free loopback port, opens its workbench in Chromium. Call waitForReady() next. */
@@ -98,7 +99,9 @@ export class Workbench {
     const remaining = () => Math.max(1, deadline - Date.now());
     await this.page.locator('.monaco-workbench .part.statusbar').waitFor({ state: 'visible', timeout: remaining() });
     await this.page.locator('.explorer-folders-view .monaco-list-row').first().waitFor({ state: 'visible', timeout: remaining() });
-    while (this.server.extensionHostLaunches() < this.expectedExtensionHosts) {
+    // Each window load starts its own extension host, which logs on the
+    // server when its start-up (eager) extensions are done.
+    while (!this.extensionHostStarted()) {
       if (Date.now() > deadline) throw new Error(`the extension host did not start within ${timeoutMs} ms; see ${this.server.logFile}`);
       await sleep(100);
     }
@@ -112,6 +115,32 @@ export class Workbench {
         throw new Error(`the editor area still shows progress after ${timeoutMs} ms`);
       });
     this.timings.readyMs ??= Date.now() - this.startedAt;
+  }
+
+  /**
+   * Waits until this window's extension host has activated `extensionId`
+   * ("publisher.name"), as its log on the server records. Returns the
+   * activation event that triggered it (e.g. "onLanguage:csv").
+   */
+  async waitForExtensionActivation(extensionId: string, timeoutMs = 60_000): Promise<string> {
+    const pattern = new RegExp(`_doActivateExtension ${escapeRegExp(extensionId)}, .*activationEvent: '([^']*)'`);
+    const deadline = Date.now() + timeoutMs;
+    for (;;) {
+      const match = pattern.exec(this.currentExtensionHostLog());
+      if (match) return match[1];
+      if (Date.now() > deadline) throw new Error(`${extensionId} was not activated within ${timeoutMs} ms`);
+      await sleep(100);
+    }
+  }
+
+  /** This window's extension host log, as written so far ('' before it starts). */
+  currentExtensionHostLog(): string {
+    const logs = this.server.extensionHostLogs();
+    return logs.length >= this.expectedExtensionHosts ? fs.readFileSync(logs[logs.length - 1], 'utf8') : '';
+  }
+
+  private extensionHostStarted(): boolean {
+    return /Eager extensions activated/.test(this.currentExtensionHostLog());
   }
 
   /** Runs a command by its palette title: F1, type, Enter. */
@@ -159,6 +188,16 @@ export class Workbench {
     if (!linesBox || !numberBox) throw new Error(`line ${line} is not on screen`);
     await lines.click({ button: 'right', position: { x: 5, y: numberBox.y - linesBox.y + numberBox.height / 2 } });
     await pickContextMenu(this.page, labels);
+  }
+
+  /** Clicks the editor tab titled `title` (a file name, or a webview panel's title). */
+  async activateTab(title: string): Promise<void> {
+    const tab = this.page
+      .locator('.tabs-container .tab')
+      .filter({ has: this.page.locator('.label-name', { hasText: new RegExp(`^${escapeRegExp(title)}$`) }) })
+      .first();
+    await tab.click();
+    await this.page.waitForFunction((el: BrowserElement | null) => el?.classList.contains('active') ?? false, await tab.elementHandle());
   }
 
   /** Hovers a line of the active editor and returns the hover's text. */
@@ -222,7 +261,7 @@ export class Workbench {
 
   /** Reloads the window (a new extension host starts) and waits until it is ready again. */
   async reload(timeoutMs?: number): Promise<void> {
-    this.expectedExtensionHosts = this.server.extensionHostLaunches() + 1;
+    this.expectedExtensionHosts = this.server.extensionHostLogs().length + 1;
     await this.page.reload();
     await this.waitForReady(timeoutMs);
   }

@@ -59,8 +59,11 @@ export interface CodeServer {
   readonly extensionsDir: string;
   readonly logFile: string;
   readonly pid: number;
-  /** How many extension hosts the server has launched so far; one per window load. */
-  extensionHostLaunches(): number;
+  /**
+   * The logs of the extension hosts started so far, oldest first: one per
+   * window load, so after a load the last one is the current window's.
+   */
+  extensionHostLogs(): string[];
   /** Stops the server and every process it started; resolves once none is left. */
   stop(): Promise<void>;
 }
@@ -129,7 +132,7 @@ export async function startCodeServer(options: CodeServerOptions): Promise<CodeS
       extensionsDir,
       logFile: options.logFile,
       pid: child.pid!,
-      extensionHostLaunches: () => countExtensionHostLaunches(userDataDir),
+      extensionHostLogs: () => extensionHostLogs(userDataDir),
       stop: async () => {
         await stopProcessTree(child);
         if (!options.keepTemp) fs.rmSync(temp, { recursive: true, force: true });
@@ -254,17 +257,25 @@ async function stopProcessTree(child: ChildProcess): Promise<void> {
   }
 }
 
-function countExtensionHostLaunches(userDataDir: string): number {
-  // The server logs each extension host it starts for a window; the browser
-  // side has no such signal in the DOM.
+// Each extension host writes logs/<session>/exthost<N>/remoteexthost.log on
+// the server, in launch order of session, then N. Activation of every
+// extension is logged there ("ExtensionService#_doActivateExtension <id>"),
+// which the browser side does not show anywhere.
+function extensionHostLogs(userDataDir: string): string[] {
   const logs = path.join(userDataDir, 'logs');
-  if (!fs.existsSync(logs)) return 0;
-  let count = 0;
+  if (!fs.existsSync(logs)) return [];
+  const candidates: { session: string; index: number; file: string }[] = [];
   for (const session of fs.readdirSync(logs)) {
-    const agentLog = path.join(logs, session, 'remoteagent.log');
-    if (fs.existsSync(agentLog)) count += fs.readFileSync(agentLog, 'utf8').split('Launched Extension Host Process').length - 1;
+    const sessionDir = path.join(logs, session);
+    if (!fs.statSync(sessionDir).isDirectory()) continue;
+    for (const host of fs.readdirSync(sessionDir)) {
+      const match = /^exthost(\d+)$/.exec(host);
+      const file = path.join(sessionDir, host, 'remoteexthost.log');
+      if (match && fs.existsSync(file)) candidates.push({ session, index: Number(match[1]), file });
+    }
   }
-  return count;
+  candidates.sort((a, b) => (a.session === b.session ? a.index - b.index : a.session < b.session ? -1 : 1));
+  return candidates.map((c) => c.file);
 }
 
 function tail(file: string, lines = 30): string {

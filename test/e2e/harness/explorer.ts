@@ -91,8 +91,8 @@ export async function pickContextMenu(page: Page, labels: string[], timeoutMs = 
     await page.mouse.down();
     await page.mouse.up();
   }
-  // The menu's container element stays in the DOM, emptied and hidden.
-  await page.locator('.context-view.monaco-menu-container').waitFor({ state: 'hidden', timeout: timeoutMs });
+  // Menu containers (one more per open submenu) stay in the DOM, emptied and hidden.
+  await page.locator('.context-view.monaco-menu-container').filter({ visible: true }).first().waitFor({ state: 'hidden', timeout: timeoutMs });
 }
 
 function exactly(text: string): RegExp {

@@ -12,17 +12,26 @@ const WIDGET = '.quick-input-widget';
  */
 export async function runCommand(page: Page, title: string, timeoutMs = 15_000): Promise<void> {
   const widget = page.locator(WIDGET);
-  await page.keyboard.press('F1');
-  await widget.waitFor({ state: 'visible', timeout: timeoutMs });
-  const input = widget.locator('.quick-input-box input');
-  await input.fill(`>${title}`);
   const row = exactRow(widget, title);
-  await row.waitFor({ state: 'visible', timeout: timeoutMs }).catch(async () => {
+  const deadline = Date.now() + timeoutMs;
+  // An extension's commands join the palette only once the extension host has
+  // registered that extension, which can be a little after the window is
+  // ready; an open palette does not pick them up, so it is opened afresh.
+  for (;;) {
+    await page.keyboard.press('F1');
+    await widget.waitFor({ state: 'visible', timeout: Math.max(1, deadline - Date.now()) });
+    await widget.locator('.quick-input-box input').fill(`>${title}`);
+    const found = await row
+      .waitFor({ state: 'visible', timeout: Math.max(1, Math.min(3_000, deadline - Date.now())) })
+      .then(() => true, () => false);
+    if (found) break;
     const shown = await widget.locator('.quick-input-list .monaco-list-row .label-name').allInnerTexts();
     await page.keyboard.press('Escape');
-    throw new Error(`no command titled "${title}" in the palette; it showed: ${JSON.stringify(shown)}`);
-  });
-  const deadline = Date.now() + timeoutMs;
+    await widget.waitFor({ state: 'hidden' });
+    if (Date.now() >= deadline) {
+      throw new Error(`no command titled "${title}" in the palette; it showed: ${JSON.stringify(shown)}`);
+    }
+  }
   while (!(await row.evaluate((el: BrowserElement) => el.classList.contains('focused')))) {
     if (Date.now() > deadline) throw new Error(`could not focus the palette row "${title}"`);
     await page.keyboard.press('ArrowDown');
