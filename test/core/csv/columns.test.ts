@@ -15,7 +15,7 @@ const cycle = (...values: string[]) => (i: number) => values[i % values.length];
 
 describe('csv columns', () => {
   describe('missing values', () => {
-    it('treats empty, NA, N/A, NaN, null, ? and - as missing by default, after trimming', async () => {
+    it('treats empty, NA, N/A, NaN, null, ? and - as missing by default, after trimming (the issue\'s list; common practice)', async () => {
       const tokens = ['', 'NA', 'N/A', 'NaN', 'null', '?', '-', '  NA ', ' '];
       const text = 'x,c\n' + tokens.map((t) => `${t},${t}`).join('\n') + '\n1,a\n2,b\n1,a\n';
       const r = await loadCsvText(text);
@@ -44,7 +44,7 @@ describe('csv columns', () => {
       assert.deepEqual(kinds(r), { num: 'numeric', cat: 'categorical', flag: 'boolean', bit: 'numeric' });
     });
 
-    it('recognises each boolean pair case-insensitively, ordered false then true', async () => {
+    it('recognises each boolean pair case-insensitively, ordered false then true (common practice)', async () => {
       for (const [f, t] of [['false', 'true'], ['No', 'YES'], ['F', 't'], ['n', 'Y']]) {
         const r = await loadCsvText(csv({ x: (i) => i % 4, b: (i) => (i % 3 === 0 ? t : f) }, 9));
         assert.equal(kinds(r).b, 'boolean', `${f}/${t}`);
@@ -86,7 +86,7 @@ describe('csv columns', () => {
   });
 
   describe('stray text in a numeric column', () => {
-    it('makes a few text cells missing, with a warning giving the count and the first line', async () => {
+    it('makes a few text cells missing, with a warning giving the count and the first line (common practice: a few typos do not make a column text)', async () => {
       const text = csv({ k: (i) => i % 5, v: (i) => (i === 6 ? 'oops' : i === 30 ? 'n.a.' : (i * 0.5) % 9) }, 60);
       const r = await loadCsvText(text, {}, 'data.csv');
       const v = numeric(r, 'v');
@@ -111,7 +111,7 @@ describe('csv columns', () => {
   });
 
   describe('dropped columns', () => {
-    it('drops all-distinct text as a row identifier', async () => {
+    it('drops all-distinct text as a row identifier (common practice: it cannot generalise)', async () => {
       const r = await loadCsvText(csv({ id: (i) => `row-${i}`, x: (i) => i % 3 }, 10));
       assert.match(reasonOf(r, 'id'), /row identifier: each of the 10 rows has a different value/);
     });

@@ -94,7 +94,7 @@ describe('csv bad input', () => {
     await loadError(dir.write('utf16.csv', bytes), undefined, 'UTF-16');
   });
 
-  it('invalid UTF-8 is found wherever a chunk boundary cuts the file, and valid text cut anywhere passes', async () => {
+  it('invalid UTF-8 (Unicode Standard, Table 3-7 well-formed sequences) is found wherever a chunk boundary cuts the file, and valid text cut anywhere passes', async () => {
     const good = Buffer.from('a,b\nü€😀,1\nx,2\nü€😀,1\n', 'utf8');
     const bad = Buffer.concat([Buffer.from('a,b\nü€,1\nx'), Buffer.from([0xe2, 0x82]), Buffer.from(',2\n')]); // € cut short
     const goodFile = dir.write('cut-good.csv', good);

@@ -36,7 +36,7 @@ describe('csv format', () => {
     assert.equal(r.delimiter, ';');
   });
 
-  it('reads UTF-8 with and without a byte-order mark alike, and the mark is not part of the first name', async () => {
+  it('reads UTF-8 with and without a byte-order mark (EF BB BF, common practice) alike, and the mark is not part of the first name', async () => {
     const body = 'größe,farbe\n1,rot\n2,grün\n1,rot\n';
     const plain = await loadCsvText(body);
     const marked = await loadCsvText('\ufeff' + body);
@@ -71,14 +71,14 @@ describe('csv format', () => {
     assert.deepEqual(texts(r, 'id'), ['1', '2', '3', '4']);
   });
 
-  it('counts a CRLF inside quotes as one line break, as editors do', async () => {
+  it('counts a CRLF inside quotes as one line break, as editors do (common practice)', async () => {
     const text = 'id,note\r\n1,"a\r\nb"\r\n2,"c\r\n\r\nd"\r\n3,e\r\n';
     const r = await loadCsvText(text, { columnTypes: { id: 'categorical', note: 'categorical' } });
     assert.deepEqual(lines(r), [2, 4, 7]);
     assert.deepEqual(texts(r, 'note'), ['a\r\nb', 'c\r\n\r\nd', 'e']);
   });
 
-  it('skips blank and whitespace-only lines but keeps counting them', async () => {
+  it('skips blank and whitespace-only lines but keeps counting them (common practice; RFC 4180 has no blank records)', async () => {
     const text = '\n\nx,c\n1,a\n\n   \n2,b\n\t\n1,a\n\n';
     const r = await loadCsvText(text);
     assert.equal(r.rowsRead, 3);
@@ -86,19 +86,19 @@ describe('csv format', () => {
     assert.deepEqual(numeric(r, 'x'), [1, 2, 1]);
   });
 
-  it('trims cells, quoted or not, and header names', async () => {
+  it('trims cells, quoted or not, and header names (on purpose unlike RFC 4180 section 2, rule 4, where spaces belong to the field)', async () => {
     const r = await loadCsvText(' x , c \n 1 ,  a \n2," b "\n 1, a\n');
     assert.deepEqual(r.header, ['x', 'c']);
     assert.deepEqual(numeric(r, 'x'), [1, 2, 1]);
     assert.deepEqual(texts(r, 'c'), ['a', 'b', 'a']);
   });
 
-  it('accepts a quote after blanks at the start of a field, and keeps a stray quote inside unquoted text', async () => {
+  it('accepts a quote after blanks at the start of a field, and keeps a stray quote inside unquoted text (more lenient than RFC 4180 section 2, rule 5)', async () => {
     const r = await loadCsvText('h,c\n1, "x, y"\n2,5\'10"\n1, "x, y"\n');
     assert.deepEqual(texts(r, 'c'), ['x, y', '5\'10"', 'x, y']);
   });
 
-  it('reads a last line without a line break', async () => {
+  it('reads a last line without a line break (RFC 4180 section 2, rule 2)', async () => {
     const r = await loadCsvText('x,c\n1,a\n2,b\n1,a');
     assert.deepEqual(lines(r), [2, 3, 4]);
   });

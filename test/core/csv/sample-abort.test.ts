@@ -38,7 +38,7 @@ describe('csv sampling', () => {
     assert.deepEqual(d.table, e.table, 'a default seed, not a random one');
   });
 
-  it('keeps every row with the same probability (chi-square over 400 seeds; 0.999 quantile of chi2(49) = 85.35, scipy.stats)', async () => {
+  it('keeps every row with the same probability, as reservoir sampling promises (J. S. Vitter 1985, "Random sampling with a reservoir", ACM TOMS 11(1); chi-square over 400 seeds against the 0.999 quantile of chi2(49) = 85.35 from scipy.stats)', async () => {
     const n = 50;
     const k = 10;
     const seeds = 400;
