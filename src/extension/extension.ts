@@ -29,7 +29,7 @@ export function activate(extension: vscode.ExtensionContext): { readonly context
   let restoring: Promise<void> | undefined;
   const panel: PanelHost = ctx.track(
     new PanelHost(ctx, {
-      revealRow: (row) => revealRow(ctx, row),
+      revealRow: (row) => revealRow(ctx, row, panel.viewColumn),
       refit: (leaveOut, trees) => refitCommand(ctx, panel, leaveOut, trees),
       restore: () => (restoring ??= restore(ctx).finally(() => (restoring = undefined))),
     }),

@@ -4,7 +4,17 @@ import * as vscode from 'vscode';
 import type { CopseContext } from '../context';
 import { COMMANDS, type Host } from './host';
 
-export async function revealRow(ctx: CopseContext, dataRow: number): Promise<void> {
+/**
+ * Where to show the CSV: an editor already showing it, else a column other than the panel's, so going to a
+ * row never covers the panel that asked for it.
+ */
+function columnFor(doc: vscode.TextDocument, panelColumn: vscode.ViewColumn | undefined): vscode.ViewColumn {
+  const open = vscode.window.visibleTextEditors.find((e) => e.document === doc);
+  if (open?.viewColumn) return open.viewColumn;
+  return panelColumn === vscode.ViewColumn.One ? vscode.ViewColumn.Two : vscode.ViewColumn.One;
+}
+
+export async function revealRow(ctx: CopseContext, dataRow: number, panelColumn?: vscode.ViewColumn): Promise<void> {
   const s = ctx.session;
   if (!s) return;
   const t = s.numbering.tableRow(dataRow);
@@ -15,13 +25,12 @@ export async function revealRow(ctx: CopseContext, dataRow: number): Promise<voi
   const line = s.table.lineOfRow[t] - 1;
   const doc = await vscode.workspace.openTextDocument(vscode.Uri.file(s.source.path));
   const at = new vscode.Range(line, 0, line, 0);
-  // The CSV goes in the first column so the panel, usually beside it, stays visible.
-  const editor = await vscode.window.showTextDocument(doc, { viewColumn: vscode.ViewColumn.One, selection: at, preserveFocus: false });
+  const editor = await vscode.window.showTextDocument(doc, { viewColumn: columnFor(doc, panelColumn), selection: at, preserveFocus: false });
   editor.revealRange(doc.lineAt(line).range, vscode.TextEditorRevealType.InCenterIfOutsideViewport);
 }
 
 export function registerRevealRow(host: Host): vscode.Disposable {
   return vscode.commands.registerCommand(COMMANDS.revealRow, (dataRow: unknown) => {
-    if (typeof dataRow === 'number' && Number.isInteger(dataRow)) return revealRow(host.ctx, dataRow);
+    if (typeof dataRow === 'number' && Number.isInteger(dataRow)) return revealRow(host.ctx, dataRow, host.panel.viewColumn);
   });
 }

@@ -93,6 +93,25 @@ export async function readCsv(
   );
 }
 
+/**
+ * Copse reads the file on disk, so unsaved edits would be left out of the fit and the rows would not line up
+ * with what the editor shows. Offers to save first; resolves false when the user backs out.
+ */
+async function savedOrAccepted(uri: vscode.Uri): Promise<boolean> {
+  const doc = vscode.workspace.textDocuments.find((d) => d.uri.toString() === uri.toString());
+  if (!doc?.isDirty) return true;
+  const save = 'Save and fit';
+  const asIs = 'Fit the saved file';
+  const answer = await vscode.window.showWarningMessage(
+    `${path.basename(uri.path)} has unsaved changes. Copse fits the file as it is on disk.`,
+    { modal: true },
+    save,
+    asIs,
+  );
+  if (answer === save) return doc.save();
+  return answer === asIs;
+}
+
 /** Runs a command body, turning its errors into one readable notification; the host stays up. */
 export async function guarded(ctx: CopseContext, what: string, body: () => Promise<void>): Promise<void> {
   try {
@@ -117,6 +136,7 @@ export async function fitCommand(ctx: CopseContext, panel: PanelHost, uri?: vsco
     }
     const target = await resolveCsv(uri, 'Copse: choose a CSV file to fit a forest on');
     if (!target) return;
+    if (!(await savedOrAccepted(target))) return;
     let loaded = await readCsv(ctx, requireFile(target));
     if (!loaded) return;
     const label = path.basename(loaded.path);

@@ -66,6 +66,10 @@ export class PanelHost implements vscode.Disposable {
     return this.panel?.visible ?? false;
   }
 
+  get viewColumn(): vscode.ViewColumn | undefined {
+    return this.panel?.viewColumn;
+  }
+
   get isOpen(): boolean {
     return this.panel !== undefined;
   }
