@@ -4,7 +4,7 @@
 //   dist/extension.js      the extension host client (vscode stays external: the workbench provides it)
 //   dist/<name>-worker.js  every worker entry in src/core, next to the bundles that start them, because
 //                          core loads path.join(__dirname, '<name>-worker.js') at run time
-//   dist/cli.js            the command line, when src/cli/main.ts exists
+//   dist/cli.js            the command line, when src/cli/main.ts exists (run as `node dist/cli.js`)
 //   dist/icon.png          the marketplace icon, drawn here so no binary lives in git
 //   media/panel.js/.css    the webview, via webview/build.js
 //
@@ -16,7 +16,7 @@ const zlib = require('node:zlib');
 const esbuild = require('esbuild');
 
 const root = path.resolve(__dirname, '..');
-const dist = path.join(root, 'dist');
+const defaultDist = path.join(root, 'dist');
 
 /** Every `*-worker.ts` under src/core, so a worker core adds later is bundled without editing this file. */
 function workerEntries() {
@@ -32,7 +32,7 @@ function workerEntries() {
   return found.sort();
 }
 
-async function bundleNode(production) {
+async function bundleNode(production, dist) {
   const common = {
     bundle: true,
     platform: 'node',
@@ -60,7 +60,24 @@ async function bundleNode(production) {
     add(w, name);
   }
   const cli = path.join(root, 'src', 'cli', 'main.ts');
-  if (fs.existsSync(cli)) add(cli, 'cli.js', { banner: { js: '#!/usr/bin/env node' } });
+  if (fs.existsSync(cli)) {
+    // main.ts exports main(argv) and leaves running it to its caller (bin/copse.js does the same).
+    const outfile = path.join(dist, 'cli.js');
+    outputs.push(outfile);
+    jobs.push(
+      esbuild.build({
+        ...common,
+        stdin: {
+          contents: "import { main } from './main';\nvoid main(process.argv.slice(2)).then((code) => { process.exitCode = code; });\n",
+          resolveDir: path.dirname(cli),
+          sourcefile: 'cli-entry.ts',
+          loader: 'ts',
+        },
+        outfile,
+        banner: { js: '#!/usr/bin/env node' },
+      }),
+    );
+  }
   await Promise.all(jobs);
   return outputs;
 }
@@ -158,15 +175,24 @@ function drawIcon(size = 128) {
   ]);
 }
 
-async function build({ production = false } = {}) {
+/**
+ * `outDir` and `panel: false` let a test bundle into a scratch folder without touching dist/ or media/.
+ * @param {{ production?: boolean, outDir?: string, panel?: boolean, quiet?: boolean }} [options]
+ */
+async function build({ production = false, outDir = defaultDist, panel = true, quiet = false } = {}) {
+  const dist = outDir;
   fs.rmSync(dist, { recursive: true, force: true });
   fs.mkdirSync(dist, { recursive: true });
   const started = Date.now();
-  const outputs = await bundleNode(production);
+  const outputs = await bundleNode(production, dist);
   fs.writeFileSync(path.join(dist, 'icon.png'), drawIcon());
-  const { buildPanel } = require(path.join(root, 'webview', 'build.js'));
-  const panel = await buildPanel({ minify: production, sourcemap: !production });
-  const files = [...outputs, path.join(dist, 'icon.png'), panel.js, panel.css];
+  const files = [...outputs, path.join(dist, 'icon.png')];
+  if (panel) {
+    const { buildPanel } = require(path.join(root, 'webview', 'build.js'));
+    const built = await buildPanel({ minify: production, sourcemap: !production });
+    files.push(built.js, built.css);
+  }
+  if (quiet) return files;
   for (const f of files) {
     console.log(`  ${path.relative(root, f).padEnd(28)} ${(fs.statSync(f).size / 1024).toFixed(1).padStart(8)} KB`);
   }
