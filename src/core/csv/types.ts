@@ -8,7 +8,8 @@ export interface LoadOptions {
   /** Cells equal to one of these (after trimming, case-sensitive) are missing. Default DEFAULT_MISSING_TOKENS.
    *  An empty cell is always missing, whatever this list says: it can hold no value. */
   readonly missingTokens?: readonly string[];
-  /** Per-column override: force a type, or leave the column out. */
+  /** Per-column override: force a type, or leave the column out. Forced columns are never dropped by the rules.
+   *  A name the file does not have is a warning, not an error (a forest forces its features on any file). */
   readonly columnTypes?: Readonly<Record<string, ColumnKind | 'exclude'>>;
   /** Forced delimiter; detected among , ; TAB | when absent. */
   readonly delimiter?: string;
