@@ -3,7 +3,9 @@
 // map scoring, whole-table scoring, and how long the host's own event loop is held up meanwhile.
 // A measurement, not a test: nothing here asserts a time.
 //
-//   npx tsc -p tsconfig.json && node out/test/extension/measure-host.js [--rows 20000] [--trees 100]
+//   npx tsc -p tsconfig.json && node out/test/extension/measure-host.js [--rows 20000] [--trees 100] [--classes 1]
+//
+// --classes 1 turns y into two classes (above or below 14) with 5% of labels flipped, so suspects exist.
 
 import { promises as fs } from 'node:fs';
 import * as os from 'node:os';
@@ -52,18 +54,20 @@ async function timed<T>(label: string, body: () => Promise<T>): Promise<T> {
 async function main(): Promise<void> {
   const rows = arg('rows', 20000);
   const trees = arg('trees', 100);
+  const classes = arg('classes', 0) === 1;
   const r = rng(7);
   const lines = ['x1,x2,x3,x4,x5,x6,x7,x8,x9,x10,colour,note,y'];
   for (let i = 0; i < rows; i++) {
     const x = Array.from({ length: 10 }, () => r());
     const y = 10 * Math.sin(Math.PI * x[0] * x[1]) + 20 * (x[2] - 0.5) ** 2 + 10 * x[3] + 5 * x[4] + (r() + r() + r() - 1.5);
     const note = i % 500 === 7 ? '"spans\ntwo lines"' : `n${i % 3}`;
-    lines.push(`${x.map((v) => v.toFixed(4)).join(',')},${['red', 'green', 'blue'][i % 3]},${note},${y.toFixed(4)}`);
+    const target = classes ? ((y > 14) !== r() < 0.05 ? 'high' : 'low') : y.toFixed(4);
+    lines.push(`${x.map((v) => v.toFixed(4)).join(',')},${['red', 'green', 'blue'][i % 3]},${note},${target}`);
   }
   const dir = await fs.mkdtemp(path.join(os.tmpdir(), 'copse-measure-'));
   const file = path.join(dir, 'measure.csv');
   await fs.writeFile(file, lines.join('\n') + '\n');
-  console.log(`${rows} rows x 12 features, ${trees} trees, ${os.availableParallelism()} cores\n`);
+  console.log(`${rows} rows x 12 features, ${classes ? 'two classes' : 'regression'}, ${trees} trees, ${os.availableParallelism()} cores\n`);
   try {
     const load = await timed('read CSV (core loadCsv)', () => loadCsv(file));
     const report = await timed('fit (core, worker threads)', () => fitForest(load.table, { target: 'y', params: { trees, seed: 1 } }));
@@ -79,6 +83,7 @@ async function main(): Promise<void> {
         scorer: new Scorer(report.forest),
       }),
     );
+    console.log(`${'suspect rows found'.padEnd(44)} ${String(session.suspects(1e9).length).padStart(11)}`);
     const text = readFileSync(file, 'utf8').split('\n');
     const read = (l: number) => text[l - 1];
     const hover: number[] = [];

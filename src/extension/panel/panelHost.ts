@@ -34,6 +34,8 @@ export class PanelHost implements vscode.Disposable {
   private readonly panelDisposables: vscode.Disposable[] = [];
   /** Bumped per map request so a slow map never overwrites a newer one. */
   private mapTicket = 0;
+  /** While the last fit is being brought back after a reload, the panel says so rather than "no forest". */
+  private restoring = false;
   /**
    * What the panel shows for the active forest. The webview's page is discarded whenever the panel is
    * hidden (we do not retain it), and comes back empty-handed but for its own saved state; this lets the
@@ -56,7 +58,14 @@ export class PanelHost implements vscode.Disposable {
       vscode.window.registerWebviewPanelSerializer(PANEL_VIEW_TYPE, {
         deserializeWebviewPanel: async (panel) => {
           this.adopt(panel);
-          if (!ctx.session) await actions.restore();
+          if (ctx.session) return;
+          this.restoring = true;
+          try {
+            await actions.restore();
+          } finally {
+            this.restoring = false;
+          }
+          if (!ctx.session) await this.sessionChanged(undefined);
         },
       }),
     );
@@ -191,14 +200,20 @@ export class PanelHost implements vscode.Disposable {
 
   private async sessionChanged(session: ForestSession | undefined): Promise<void> {
     if (!this.panel || !this.ready) return;
-    await this.sendAll(session);
+    try {
+      await this.sendAll(session);
+    } catch (e) {
+      if (!isUserError(e)) this.ctx.log.error(e instanceof Error ? (e.stack ?? e.message) : String(e));
+      this.status('error', userMessage(e));
+    }
   }
 
   /** Everything the panel shows for the session, from the cache where the session has not changed. */
   private async sendAll(session: ForestSession | undefined): Promise<void> {
     if (!session) {
       this.shown = undefined;
-      this.status('idle', 'No forest yet. Run "Copse: Fit a forest" on a CSV file.');
+      if (this.restoring) this.status('working', 'Bringing back the last forest…', null);
+      else this.status('idle', 'No forest yet. Run "Copse: Fit a Forest" on a CSV file.');
       return;
     }
     if (this.shown?.session !== session) this.shown = { session };

@@ -117,6 +117,16 @@ export class RowStore {
     };
   }
 
+  /** Breiman's OOB margin of table row r (NaN outside training or without OOB trees); core's own when given. */
+  margin(r: number): number {
+    const pos = this.oob?.trainPos[r] ?? -1;
+    if (pos < 0 || !this.oob) return NaN;
+    if (this.oob.margin) return this.oob.margin[pos];
+    const truth = this.truth ? this.truth[r] : NaN;
+    const trees = this.outOfBagTrees(r) ?? [];
+    return breimanMargin(trees.length ? this.tally(r, trees) : undefined, truth);
+  }
+
   /** Share of trees whose own answer matches the forest's (classification) or lies within `tolerance` of it. */
   agreement(r: number): number {
     const p = this.prediction;

@@ -344,9 +344,12 @@ export class ForestSession {
     const out: SuspectRow[] = [];
     for (let i = 0; i < this.trainRows.length; i++) {
       const r = this.trainRows[i];
-      const a = this.store.answer(r);
-      if (a.margin === undefined || !(a.margin < 0) || a.truth === undefined || !a.oob || a.oob.kind !== 'classification') continue;
-      out.push({ row: this.numbering.dataRow(r), margin: a.margin, label: a.truth, oobPredicted: majority(a.oob.counts) });
+      // Margins first (an array read when core supplied them); the vote tally only for the few doubtful rows.
+      const m = this.store.margin(r);
+      if (!(m < 0) || Number.isNaN(this.truth[r])) continue;
+      const oob = this.store.tally(r, this.store.outOfBagTrees(r) ?? []);
+      if (oob.kind !== 'classification') continue;
+      out.push({ row: this.numbering.dataRow(r), margin: m, label: this.truth[r], oobPredicted: majority(oob.counts) });
     }
     return out.sort((a, b) => a.margin - b.margin || a.row - b.row);
   }
