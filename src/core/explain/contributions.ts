@@ -132,8 +132,23 @@ export class ContributionExplainer {
       const phi = this.phi;
       const value = tree.value;
       const v0 = node * K;
+      // One fractions are 0 or 1 here (the row follows an edge or it does not). UNWOUND-SUM of an entry with
+      // 0 is (d + 1) / z * sum_j w_j / (d - j), and its scale multiplies that by (0 - z): z cancels, so every
+      // such entry of the leaf shares one scale, computed once.
+      let coldScale = 0;
+      let coldDone = false;
       for (let i = 1; i <= depth; i++) {
-        const scale = this.unwoundSum(s, depth, i) * (po[s + i] - pz[s + i]);
+        let scale: number;
+        if (po[s + i] !== 0) scale = this.unwoundSum(s, depth, pz[s + i]) * (1 - pz[s + i]);
+        else {
+          if (!coldDone) {
+            let sum = 0;
+            for (let j = depth - 1; j >= 0; j--) sum += pw[s + j] * this.inverse[depth - j];
+            coldScale = -sum * (depth + 1);
+            coldDone = true;
+          }
+          scale = coldScale;
+        }
         const at = pf[s + i] * K;
         for (let k = 0; k < K; k++) phi[at + k] += scale * value[v0 + k];
       }
@@ -182,6 +197,20 @@ export class ContributionExplainer {
     }
   }
 
+  /** Total weight of the path with an entry of one fraction 1 and zero fraction `zero` unwound, unchanged. */
+  private unwoundSum(s: number, depth: number, zero: number): number {
+    const pw = this.pathWeight;
+    const inverse = this.inverse;
+    let total = 0;
+    let next = pw[s + depth];
+    for (let i = depth - 1; i >= 0; i--) {
+      const tmp = next * inverse[i + 1];
+      total += tmp;
+      next = pw[s + i] - tmp * zero * (depth - i);
+    }
+    return total * (depth + 1);
+  }
+
   /** UNWIND: removes entry `at`, undoing its EXTEND. */
   private unwind(s: number, depth: number, at: number): void {
     const pf = this.pathFeature;
@@ -206,28 +235,6 @@ export class ContributionExplainer {
       pz[s + i] = pz[s + i + 1];
       po[s + i] = po[s + i + 1];
     }
-  }
-
-  /** Total weight the path would have with entry `at` unwound, without changing it. */
-  private unwoundSum(s: number, depth: number, at: number): number {
-    const pw = this.pathWeight;
-    const inverse = this.inverse;
-    const one = this.pathOne[s + at];
-    const zero = this.pathZero[s + at];
-    let total = 0;
-    if (one !== 0) {
-      const perOne = 1 / one;
-      let next = pw[s + depth];
-      for (let i = depth - 1; i >= 0; i--) {
-        const tmp = next * perOne * inverse[i + 1];
-        total += tmp;
-        next = pw[s + i] - tmp * zero * (depth - i);
-      }
-    } else {
-      for (let i = depth - 1; i >= 0; i--) total += pw[s + i] * inverse[depth - i];
-      total /= zero;
-    }
-    return total * (depth + 1);
   }
 }
 
