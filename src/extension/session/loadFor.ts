@@ -1,7 +1,8 @@
 // Reading a CSV to score with an existing forest. The loader would leave out a column that looks constant
 // or identifier-like in *this* file (a small file where a feature happens not to vary), and the forest
-// needs every feature; so its features' kinds are forced. Forcing names columns the file must have, so
-// when that fails only the features the header holds are forced, and encodeTable names what is missing.
+// needs every feature; so its features' kinds are forced. A loader that refuses a forced name the file
+// lacks (core's first CSV contract did) gets a second try forcing only the features the header holds;
+// either way encodeTable then names exactly what is missing.
 
 import type { ColumnKind, LoadOptions, LoadResult, Schema } from '../engine';
 
