@@ -1,4 +1,5 @@
-import { encodeTable, predictEncoded } from '../../core/forest/predict';
+import { predictInWorkers } from '../../core/forest/parallel-predict';
+import { encodeTable } from '../../core/forest/predict';
 import { loadForScoring, predictionCells, predictionColumns, writePredictions } from '../../core/forest/score-file';
 import { dataRowOf } from '../../core/forest/summary';
 import { loadModel } from '../../core/model/file';
@@ -26,9 +27,9 @@ export async function runPredict(argv: string[]): Promise<void> {
   const forest = await loadModel(modelPath);
   const t0 = performance.now();
   const loaded = await loadForScoring(dataPath, forest.schema);
-  const x = encodeTable(forest.schema, loaded.table, dataPath);
+  const x = encodeTable(forest.schema, loaded.table, dataPath, loaded.header);
   const t1 = performance.now();
-  const prediction = predictEncoded(forest, x, loaded.table.rowCount);
+  const prediction = await predictInWorkers(forest, x, loaded.table.rowCount);
   const t2 = performance.now();
   const out = text(args, 'out');
   if (out) await writePredictions(dataPath, out, loaded.delimiter, forest, prediction);

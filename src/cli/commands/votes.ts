@@ -46,7 +46,7 @@ export async function runVotes(argv: string[]): Promise<void> {
   for (let i = 0; i < table.rowCount; i++) index.set(dataRowOf(table, i), i);
   const missing = wanted.filter((r) => !index.has(r));
   if (missing.length) throw new UsageError(`${dataPath} has ${table.rowCount} data rows; there is no row ${missing.join(', ')}.`, 'votes');
-  const all = encodeTable(forest.schema, table, dataPath);
+  const all = encodeTable(forest.schema, table, dataPath, loaded.header);
   const p = forest.schema.features.length;
   const x = new Float64Array(wanted.length * p);
   wanted.forEach((r, j) => x.set(all.subarray(index.get(r)! * p, (index.get(r)! + 1) * p), j * p));

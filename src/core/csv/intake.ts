@@ -127,7 +127,9 @@ export class Intake {
     const capacity = Math.min(FIRST_CAPACITY, this.maxCapacity);
     this.capacity = capacity;
     this.lineOfSlot = new Int32Array(capacity);
-    if (this.config.sample) this.rowOfSlot = new Float64Array(capacity);
+    // Every slot remembers its data row: samples are put back in file order by it, and rows dropped for a
+    // missing target leave gaps that callers number by it.
+    this.rowOfSlot = new Float64Array(capacity);
     const { columnTypes, maxLevels, cleaner } = this.config;
     this.builders = names.map((name, j) => {
       const forced = Object.hasOwn(columnTypes, name) ? columnTypes[name] : undefined;

@@ -303,10 +303,14 @@ function finishLoad(intake: Intake, config: FinishConfig): LoadResult {
     if (droppedOf[j] !== undefined) dropped.push(droppedOf[j] as DroppedColumn);
   }
 
+  const rowOfSlot = intake.rowOfSlot as Float64Array;
+  const rowNumber = new Int32Array(rows.count);
+  for (let i = 0; i < rows.count; i++) rowNumber[i] = rowOfSlot[rows.order === null ? i : rows.order[i]] + 1;
   const table: Table = {
     rowCount: rows.count,
     columns: columns.filter((c): c is Column => c !== undefined),
     lineOfRow: rows.lineOfRow,
+    rowNumber,
   };
   return {
     table,

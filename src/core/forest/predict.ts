@@ -35,8 +35,11 @@ export function voteArray(classification: boolean, classes: number, length: numb
   return classes <= 256 ? new Uint8Array(length) : new Uint16Array(length);
 }
 
-/** Checks that the table has every feature with a usable type; names every problem in one message. */
-export function encodeTable(schema: Schema, table: Table, label = 'the data'): Float64Array {
+/**
+ * Checks that the table has every feature with a usable type; names every problem in one message.
+ * `header` (the file's column names) lets the message name extra columns the loader left out.
+ */
+export function encodeTable(schema: Schema, table: Table, label = 'the data', header?: readonly string[]): Float64Array {
   const byName = new Map<string, Column>(table.columns.map((c) => [c.name, c]));
   const missing: string[] = [];
   const wrong: string[] = [];
@@ -47,7 +50,7 @@ export function encodeTable(schema: Schema, table: Table, label = 'the data'): F
   }
   if (missing.length || wrong.length) {
     const used = new Set(schema.features.map((f) => f.name));
-    const extra = table.columns.map((c) => c.name).filter((n) => !used.has(n) && n !== schema.target.name);
+    const extra = (header ?? table.columns.map((c) => c.name)).filter((n) => !used.has(n) && n !== schema.target.name);
     const parts: string[] = [];
     if (missing.length) parts.push(`missing column${missing.length > 1 ? 's' : ''} ${missing.map((m) => `"${m}"`).join(', ')}`);
     if (wrong.length) parts.push(`wrong type: ${wrong.join('; ')}`);
@@ -77,17 +80,24 @@ export function encodeTable(schema: Schema, table: Table, label = 'the data'): F
 
 /** Leaf reached by the encoded row starting at x[offset]. */
 export function leafOf(tree: FlatTree, levelCounts: Int32Array, x: ArrayLike<number>, offset: number): number {
+  const { left, right, feature, threshold, missingLeft, catBits } = tree;
   let node = 0;
-  while (tree.left[node] >= 0) {
-    const f = tree.feature[node];
+  let l: number;
+  while ((l = left[node]) >= 0) {
+    const f = feature[node];
     const v = x[offset + f];
-    let left: boolean;
-    if (Number.isNaN(v)) left = tree.missingLeft[node] === 1;
-    else if (levelCounts[f] > 0) {
-      if (v >= levelCounts[f] || v < 0) left = tree.missingLeft[node] === 1;
-      else left = (tree.catBits[tree.threshold[node] + (v >>> 5)] & (1 << (v & 31))) !== 0;
-    } else left = v <= tree.threshold[node];
-    node = left ? tree.left[node] : tree.right[node];
+    const levels = levelCounts[f];
+    if (levels === 0) {
+      const t = threshold[node];
+      // NaN fails both comparisons: only missing values reach the third branch.
+      if (v <= t) node = l;
+      else if (v > t) node = right[node];
+      else node = missingLeft[node] === 1 ? l : right[node];
+    } else if (v >= 0 && v < levels) {
+      node = (catBits[threshold[node] + (v >>> 5)] & (1 << (v & 31))) !== 0 ? l : right[node];
+    } else {
+      node = missingLeft[node] === 1 ? l : right[node];
+    }
   }
   return node;
 }

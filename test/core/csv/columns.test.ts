@@ -233,6 +233,7 @@ describe('csv columns', () => {
       assert.deepEqual(numeric(r, 'x'), [1, 1, 3]);
       assert.deepEqual(texts(r, 'y'), ['a', 'b', 'a']);
       assert.deepEqual(Array.from(r.table.lineOfRow), [2, 4, 6]);
+      assert.deepEqual(Array.from(r.table.rowNumber!), [1, 3, 5], 'kept rows keep their data row numbers');
       assert.equal(r.rowsRead, 5);
       assert.ok(r.notes.includes("Dropped 2 rows whose target 'y' is missing (the first on line 3)."), JSON.stringify(r.notes));
     });

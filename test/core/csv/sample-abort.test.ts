@@ -23,6 +23,7 @@ describe('csv sampling', () => {
     // Row k starts on line 2 + k + (rows before k that spanned two lines: indices 0, 7, 14, ... below k).
     const lineOf = (k: number) => 2 + k + Math.ceil(k / 7);
     assert.deepEqual(Array.from(r.table.lineOfRow), idx.map(lineOf));
+    assert.deepEqual(Array.from(r.table.rowNumber!), idx.map((k) => k + 1), 'each kept row knows its data row number');
     assert.ok(r.notes.includes('Kept a uniform random sample of 40 of the 500 rows (seed 3).'), JSON.stringify(r.notes));
   });
 
