@@ -15,6 +15,12 @@ interface ColumnItem extends vscode.QuickPickItem {
   readonly profile: ColumnProfile;
 }
 
+interface AdjustToggle extends vscode.QuickPickItem {
+  readonly adjustToggle: true;
+}
+
+type PickItem = ColumnItem | AdjustToggle | vscode.QuickPickItem;
+
 const ADJUST_BUTTON: vscode.QuickInputButton = {
   iconPath: new vscode.ThemeIcon('settings-gear'),
   tooltip: 'Adjust the settings before fitting',
@@ -27,7 +33,7 @@ function switchButton(task: Task): vscode.QuickInputButton {
 /** Resolves with the chosen column, or undefined when the user dismisses the pick. */
 export function pickTarget(profiles: readonly ColumnProfile[], fileLabel: string): Promise<TargetPick | undefined> {
   return new Promise((resolve) => {
-    const qp = vscode.window.createQuickPick<ColumnItem>();
+    const qp = vscode.window.createQuickPick<PickItem>();
     let adjustAll = false;
     const placeholder = (): string =>
       adjustAll
@@ -37,15 +43,26 @@ export function pickTarget(profiles: readonly ColumnProfile[], fileLabel: string
     qp.placeholder = placeholder();
     qp.matchOnDescription = true;
     qp.buttons = [ADJUST_BUTTON];
-    qp.items = profiles.map((p) => {
+    const columns: ColumnItem[] = profiles.map((p) => {
       const buttons: vscode.QuickInputButton[] = [];
       if (p.task && taskAllowed(p, otherTask(p.task))) buttons.push(switchButton(otherTask(p.task)));
       buttons.push(ADJUST_BUTTON);
       return { label: p.name, description: describeProfile(p), profile: p, buttons };
     });
+    // The adjust step as an item too, for keyboard users: choosing it arms "adjust first" and goes back to the columns.
+    const adjustItem = (): AdjustToggle => ({
+      label: adjustAll ? '$(check) Settings will be adjusted before fitting' : '$(settings-gear) Adjust the settings before fitting…',
+      description: adjustAll ? 'choose again to fit straight away' : 'trees, features per split, depth, leaf size, seed, holdout, columns left out',
+      adjustToggle: true,
+      alwaysShow: true,
+    });
     // The last column is the usual home of the outcome in a tidy table.
-    const last = qp.items[qp.items.length - 1];
-    if (last) qp.activeItems = [last];
+    const last = columns[columns.length - 1];
+    const setItems = (): void => {
+      qp.items = [...columns, { label: '', kind: vscode.QuickPickItemKind.Separator }, adjustItem()];
+      if (last) qp.activeItems = [last];
+    };
+    setItems();
     let done = false;
     const finish = (value: TargetPick | undefined): void => {
       if (done) return;
@@ -53,11 +70,14 @@ export function pickTarget(profiles: readonly ColumnProfile[], fileLabel: string
       resolve(value);
       qp.dispose();
     };
-    qp.onDidTriggerButton(() => {
+    const toggle = (): void => {
       adjustAll = !adjustAll;
       qp.placeholder = placeholder();
-    });
+      setItems();
+    };
+    qp.onDidTriggerButton(toggle);
     qp.onDidTriggerItemButton((e) => {
+      if (!('profile' in e.item)) return;
       const p = e.item.profile;
       const inferred = p.task ?? 'classification';
       if (e.button === ADJUST_BUTTON) finish({ profile: p, task: inferred, adjust: true });
@@ -65,7 +85,13 @@ export function pickTarget(profiles: readonly ColumnProfile[], fileLabel: string
     });
     qp.onDidAccept(() => {
       const item = qp.selectedItems[0] ?? qp.activeItems[0];
-      if (item) finish({ profile: item.profile, task: item.profile.task ?? 'classification', adjust: adjustAll });
+      if (!item) return;
+      if ('adjustToggle' in item) {
+        qp.value = '';
+        toggle();
+        return;
+      }
+      if ('profile' in item) finish({ profile: item.profile, task: item.profile.task ?? 'classification', adjust: adjustAll });
     });
     qp.onDidHide(() => finish(undefined));
     qp.show();
