@@ -1,6 +1,7 @@
 import * as assert from 'node:assert/strict';
 import { fitForest } from '../../src/core/forest/fit';
-import { predictTable } from '../../src/core/forest/predict';
+import { predictInWorkers } from '../../src/core/forest/parallel-predict';
+import { encodeTable, predictEncoded, predictTable } from '../../src/core/forest/predict';
 import { serializeModel } from '../../src/core/model/file';
 import { threeClass } from './helpers/synthetic';
 import { tableFrom } from './helpers/table';
@@ -36,6 +37,18 @@ describe('forest', () => {
       for (let t = 0; t < 9; t++) if (pred.votes[t * table.rowCount + i] === pred.predicted[i]) agree++;
       assert.equal(pred.agreement![i], agree / 9);
     }
+  });
+
+  it('scores the same on scoring threads as in-process, votes included', async () => {
+    const rep = await fitForest(table, { target: 'label', params: { trees: 40 }, workers: 2 });
+    const big = threeClass(12000, 8, 'scoring rows');
+    const x = encodeTable(rep.forest.schema, big);
+    const a = predictEncoded(rep.forest, x, big.rowCount);
+    const b = await predictInWorkers(rep.forest, x, big.rowCount, 3);
+    assert.deepEqual(b.proba, a.proba);
+    assert.deepEqual(b.votes, a.votes);
+    assert.deepEqual(b.agreement, a.agreement);
+    assert.deepEqual(b.predicted, a.predicted);
   });
 
   it('keeps per-row votes and bootstrap membership, and out-of-bag means only trees that did not see the row', async () => {
