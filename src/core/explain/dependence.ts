@@ -47,7 +47,7 @@ export interface Distribution {
 }
 
 export interface DependenceOptions extends GridOptions {
-  /** Explicit grid (encoded values); replaces gridSize and spacing. */
+  /** Explicit grid (encoded values; numeric ones are sorted); replaces gridSize and spacing. */
   readonly grid?: ArrayLike<number>;
   /** Rows whose curves are computed and averaged (default 200); all rows when there are fewer. */
   readonly sampleRows?: number;
@@ -152,80 +152,189 @@ export function sampleRowIndices(rows: number, wanted: number, seed: number): In
 }
 
 /**
- * Walks one row through a tree with up to two features replaced by a set of points: at a split on a
- * replaced feature the points divide between the children; elsewhere they all follow the row. Each leaf
- * adds its value to the accumulator slot of every point that reaches it.
+ * One axis of a grid walk. A numeric axis keeps its points sorted, so the points on one side of a threshold
+ * are always a run of neighbours; a level axis keeps a list that each level-set split partitions in place.
  */
-class PointWalker {
-  private readonly order: Int32Array;
+class Axis {
+  readonly n: number;
+  /** Numeric: the points in increasing order. Levels: the points as given. */
+  readonly values: Float64Array;
+  /** Numeric: sorted position -> the point's index in the caller's grid. Levels: a working permutation. */
+  readonly order: Int32Array;
+  readonly numeric: boolean;
+
+  constructor(readonly feature: number, numeric: boolean, grid: ArrayLike<number>) {
+    this.n = grid.length;
+    this.numeric = numeric;
+    const index = Int32Array.from({ length: this.n }, (_, i) => i);
+    if (numeric) {
+      for (let i = 0; i < this.n; i++) if (!Number.isFinite(grid[i])) throw new RangeError(`a numeric grid needs finite values; got ${grid[i]}`);
+      index.sort((a, b) => grid[a] - grid[b] || a - b);
+      this.values = Float64Array.from(index, (i) => grid[i]);
+    } else {
+      this.values = Float64Array.from(grid);
+    }
+    this.order = index;
+  }
+}
+
+/**
+ * Walks one row through a tree with one or two features replaced by a grid of points; the other features keep
+ * the row's values. At a split on a replaced feature the points divide between the children, elsewhere they
+ * all follow the row, so the points reaching any node are (x points) x (y points). Each leaf adds its value
+ * to every cell of that product through a difference table (two entries per run of neighbours instead of one
+ * per point); finishRow integrates the table once per row.
+ */
+class GridWalker {
   private readonly levels: Int32Array;
   private readonly K: number;
+  /** Difference table: along x when x is numeric, else along y when y is numeric, else the cells themselves. */
+  private readonly table: Float64Array;
+  private readonly stride: number;
   private tree!: FlatTree;
   private x: ArrayLike<number> = new Float64Array(0);
   private offset = 0;
-  private acc: Float64Array = new Float64Array(0);
-  private slot = 0;
 
-  constructor(
-    forest: Forest,
-    private readonly featureA: number,
-    private readonly valuesA: Float64Array,
-    private readonly featureB: number,
-    private readonly valuesB: Float64Array,
-  ) {
-    this.order = Int32Array.from({ length: valuesA.length }, (_, i) => i);
+  constructor(forest: Forest, private readonly ax: Axis, private readonly ay: Axis) {
     this.levels = levelCounts(forest.schema);
     this.K = outputCount(forest.schema.target);
+    // Rows of the table run along the difference axis: (n + 1) entries each so a run can end past the last point.
+    this.stride = ax.numeric ? ax.n + 1 : ay.numeric ? ay.n + 1 : ax.n;
+    const lines = ax.numeric ? ay.n : ay.numeric ? ax.n : ay.n;
+    this.table = new Float64Array(lines * this.stride * this.K);
   }
 
-  /** Adds tree's output at every point for the row at x[offset..] to acc[(slot + point) * K + k]. */
-  walk(tree: FlatTree, x: ArrayLike<number>, offset: number, acc: Float64Array, slot: number): void {
+  /** Adds the tree's output at every grid point for the row at x[offset..] to the difference table. */
+  walk(tree: FlatTree, x: ArrayLike<number>, offset: number): void {
     this.tree = tree;
     this.x = x;
     this.offset = offset;
-    this.acc = acc;
-    this.slot = slot;
-    this.visit(0, 0, this.order.length);
+    this.visit(0, 0, this.ax.n, 0, this.ay.n);
   }
 
-  private visit(node: number, lo: number, hi: number): void {
+  /** Adds the row's summed outputs to out[(slot + j * nx + i) * K + k] for every cell, and clears the table. */
+  finishRow(out: Float64Array, slot: number): void {
+    const { ax, ay, K, table, stride } = this;
+    const nx = ax.n;
+    // Table coordinates are sorted positions on a numeric axis and the caller's indices on a level axis.
+    const xOf = (c: number) => (ax.numeric ? ax.order[c] : c);
+    const yOf = (c: number) => (ay.numeric ? ay.order[c] : c);
+    if (ax.numeric) {
+      for (let yc = 0; yc < ay.n; yc++) {
+        const base = slot + yOf(yc) * nx;
+        for (let k = 0; k < K; k++) {
+          let run = 0;
+          for (let xc = 0; xc < nx; xc++) {
+            run += table[(yc * stride + xc) * K + k];
+            out[(base + xOf(xc)) * K + k] += run;
+          }
+        }
+      }
+    } else if (ay.numeric) {
+      for (let xc = 0; xc < nx; xc++) {
+        for (let k = 0; k < K; k++) {
+          let run = 0;
+          for (let yc = 0; yc < ay.n; yc++) {
+            run += table[(xc * stride + yc) * K + k];
+            out[(slot + yOf(yc) * nx + xc) * K + k] += run;
+          }
+        }
+      }
+    } else {
+      for (let yc = 0; yc < ay.n; yc++) for (let xc = 0; xc < nx; xc++) for (let k = 0; k < K; k++) out[(slot + yc * nx + xc) * K + k] += table[(yc * stride + xc) * K + k];
+    }
+    table.fill(0);
+  }
+
+  private visit(node: number, xa: number, xb: number, ya: number, yb: number): void {
     const tree = this.tree;
-    const order = this.order;
     for (;;) {
       const left = tree.left[node];
-      if (left < 0) {
-        const K = this.K;
-        const acc = this.acc;
-        const v0 = node * K;
-        for (let m = lo; m < hi; m++) {
-          const a = (this.slot + order[m]) * K;
-          for (let k = 0; k < K; k++) acc[a + k] += tree.value[v0 + k];
-        }
-        return;
-      }
+      if (left < 0) return this.leaf(node, xa, xb, ya, yb);
       const f = tree.feature[node];
-      const levels = this.levels[f];
-      if (f !== this.featureA && f !== this.featureB) {
-        node = goesLeft(tree, node, levels, this.x[this.offset + f]) ? left : tree.right[node];
+      const right = tree.right[node];
+      if (f === this.ax.feature || f === this.ay.feature) {
+        const onX = f === this.ax.feature;
+        const axis = onX ? this.ax : this.ay;
+        const a = onX ? xa : ya;
+        const b = onX ? xb : yb;
+        const mid = this.split(axis, node, a, b);
+        if (mid > a && mid < b) {
+          if (onX) {
+            this.visit(left, xa, mid, ya, yb);
+            xa = mid;
+          } else {
+            this.visit(left, xa, xb, ya, mid);
+            ya = mid;
+          }
+          node = right;
+        } else node = mid > a ? left : right;
         continue;
       }
-      const values = f === this.featureA ? this.valuesA : this.valuesB;
-      let i = lo;
-      let j = hi - 1;
-      while (i <= j) {
-        if (goesLeft(tree, node, levels, values[order[i]])) i++;
-        else {
-          const t = order[i];
-          order[i] = order[j];
-          order[j] = t;
-          j--;
+      node = goesLeft(tree, node, this.levels[f], this.x[this.offset + f]) ? left : right;
+    }
+  }
+
+  /** Puts the axis' points in [a, b) that go left first; returns where the right side starts. */
+  private split(axis: Axis, node: number, a: number, b: number): number {
+    const tree = this.tree;
+    const values = axis.values;
+    if (axis.numeric) {
+      // Sorted finite points: the left side is those at or below the threshold, a leading run.
+      const t = tree.threshold[node];
+      let lo = a;
+      let hi = b;
+      while (lo < hi) {
+        const m = (lo + hi) >>> 1;
+        if (values[m] <= t) lo = m + 1;
+        else hi = m;
+      }
+      return lo;
+    }
+    const order = axis.order;
+    const levels = this.levels[axis.feature];
+    let i = a;
+    let j = b - 1;
+    while (i <= j) {
+      if (goesLeft(tree, node, levels, values[order[i]])) i++;
+      else {
+        const t = order[i];
+        order[i] = order[j];
+        order[j] = t;
+        j--;
+      }
+    }
+    return i;
+  }
+
+  private leaf(node: number, xa: number, xb: number, ya: number, yb: number): void {
+    const { K, table, stride, ax, ay } = this;
+    const value = this.tree.value;
+    const v0 = node * K;
+    if (ax.numeric) {
+      for (let m = ya; m < yb; m++) {
+        const row = (ay.numeric ? m : ay.order[m]) * stride;
+        for (let k = 0; k < K; k++) {
+          table[(row + xa) * K + k] += value[v0 + k];
+          table[(row + xb) * K + k] -= value[v0 + k];
         }
       }
-      if (i > lo && i < hi) {
-        this.visit(left, lo, i);
-        node = tree.right[node];
-        lo = i;
-      } else node = i > lo ? left : tree.right[node];
+    } else if (ay.numeric) {
+      for (let m = xa; m < xb; m++) {
+        const row = ax.order[m] * stride;
+        for (let k = 0; k < K; k++) {
+          table[(row + ya) * K + k] += value[v0 + k];
+          table[(row + yb) * K + k] -= value[v0 + k];
+        }
+      }
+    } else {
+      for (let m = ya; m < yb; m++) {
+        const row = ay.order[m] * stride;
+        for (let q = xa; q < xb; q++) {
+          const at = (row + ax.order[q]) * K;
+          for (let k = 0; k < K; k++) table[at + k] += value[v0 + k];
+        }
+      }
     }
   }
 }
@@ -235,7 +344,8 @@ export function partialDependence(forest: Forest, x: ArrayLike<number>, rows: nu
   checkFeature(forest, feature);
   const info = forest.schema.features[feature];
   const grid: FeatureGrid = options.grid
-    ? { feature, name: info.name, kind: info.kind, values: Float64Array.from(options.grid), labels: info.kind === 'numeric' ? undefined : info.levels }
+    ? // A numeric grid is put in increasing order, so its distribution cells are well defined.
+      { feature, name: info.name, kind: info.kind, values: info.kind === 'numeric' ? Float64Array.from(options.grid).sort() : Float64Array.from(options.grid), labels: info.kind === 'numeric' ? undefined : info.levels }
     : featureGrid(forest, x, rows, feature, options);
   const G = grid.values.length;
   if (G === 0) throw new RangeError(`"${info.name}" has an empty grid.`);
@@ -244,8 +354,11 @@ export function partialDependence(forest: Forest, x: ArrayLike<number>, rows: nu
   const iceRows = sampleRowIndices(rows, options.sampleRows ?? DEFAULT_SAMPLE_ROWS, options.seed ?? forest.params.seed);
   const m = iceRows.length;
   const ice = new Float64Array(m * G * K);
-  const walker = new PointWalker(forest, feature, grid.values, -1, grid.values);
-  for (let s = 0; s < m; s++) for (const tree of forest.trees) walker.walk(tree, x, iceRows[s] * p, ice, s * G);
+  const walker = new GridWalker(forest, new Axis(feature, info.kind === 'numeric', grid.values), new Axis(-1, false, [0]));
+  for (let s = 0; s < m; s++) {
+    for (const tree of forest.trees) walker.walk(tree, x, iceRows[s] * p);
+    walker.finishRow(ice, s * G);
+  }
   const T = forest.trees.length;
   for (let i = 0; i < ice.length; i++) ice[i] /= T;
   const average = new Float64Array(G * K);
@@ -286,18 +399,16 @@ export function partialDependence2D(forest: Forest, x: ArrayLike<number>, rows: 
   const ny = yGrid.length;
   if (nx === 0 || ny === 0) throw new RangeError('both axes need at least one grid value');
   const cells = nx * ny;
-  const a = new Float64Array(cells);
-  const b = new Float64Array(cells);
-  for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
-    a[j * nx + i] = xGrid[i];
-    b[j * nx + i] = yGrid[j];
-  }
   const K = outputCount(forest.schema.target);
   const p = forest.schema.features.length;
   const used = sampleRowIndices(rows, options.sampleRows ?? DEFAULT_SAMPLE_ROWS, options.seed ?? forest.params.seed);
   const values = new Float64Array(cells * K);
-  const walker = new PointWalker(forest, xFeature, a, yFeature, b);
-  for (const r of used) for (const tree of forest.trees) walker.walk(tree, x, r * p, values, 0);
+  const kinds = forest.schema.features;
+  const walker = new GridWalker(forest, new Axis(xFeature, kinds[xFeature].kind === 'numeric', xGrid), new Axis(yFeature, kinds[yFeature].kind === 'numeric', yGrid));
+  for (const r of used) {
+    for (const tree of forest.trees) walker.walk(tree, x, r * p);
+    walker.finishRow(values, 0);
+  }
   const scale = forest.trees.length * used.length;
   if (scale > 0) for (let i = 0; i < values.length; i++) values[i] /= scale;
   return { xFeature, yFeature, xGrid, yGrid, outputs: K, values, rows: used };

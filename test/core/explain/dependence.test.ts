@@ -161,33 +161,45 @@ describe('partial dependence and ICE curves', function () {
     assert.equal(byLevel.distribution.counts[levels.indexOf('blue')], 1);
   });
 
-  it('two-feature partial dependence equals brute force on every cell, with cell (i, j) at j * nx + i', async () => {
+  it('two-feature partial dependence equals brute force on every cell, for every pairing of numeric and level axes', async () => {
     const table = mixed(300, 'pd2');
     const rep = await fitForest(table, { target: 'label', exclude: ['value'], params: { trees: 20 }, workers: 2, permutationImportance: false });
     const forest = rep.forest;
     const x = encodeTable(forest.schema, table);
-    const a = forest.schema.features.findIndex((f) => f.name === 'a');
-    const colour = forest.schema.features.findIndex((f) => f.name === 'colour');
-    const xGrid = featureGrid(forest, x, table.rowCount, a, { gridSize: 7, spacing: 'even' }).values;
-    const yGrid = [0, 1, 2, 3, 4];
-    const pd = partialDependence2D(forest, x, table.rowCount, a, colour, { xGrid, yGrid, sampleRows: 50 });
-    assert.equal(pd.rows.length, 50);
-    let worst = 0;
-    for (let j = 0; j < yGrid.length; j++) {
-      for (let i = 0; i < xGrid.length; i++) {
-        const scored = scoredWith(forest, x, pd.rows, [[a, xGrid[i]], [colour, yGrid[j]]]);
-        for (let k = 0; k < 3; k++) {
-          let mean = 0;
-          for (let s = 0; s < 50; s++) mean += scored[s * 3 + k];
-          worst = Math.max(worst, Math.abs(pd.values[(j * xGrid.length + i) * 3 + k] - mean / 50));
+    const at = (name: string) => forest.schema.features.findIndex((f) => f.name === name);
+    const even = (name: string, n: number) => Array.from(featureGrid(forest, x, table.rowCount, at(name), { gridSize: n, spacing: 'even' }).values);
+    const levels = (name: string) => forest.schema.features[at(name)].levels!.map((_, i) => i);
+    // Grids given out of order and with a level code the model never saw, which scores as missing.
+    const pairs: Array<[string, number[], string, number[]]> = [
+      ['a', even('a', 7).reverse(), 'colour', levels('colour')],
+      ['colour', [...levels('colour'), 9], 'b', even('b', 6)],
+      ['a', even('a', 5), 'b', [1.5, 0.2, 0.9, 0.05]],
+      ['colour', levels('colour').reverse(), 'flag', levels('flag')],
+    ];
+    for (const [fx, xGrid, fy, yGrid] of pairs) {
+      const pd = partialDependence2D(forest, x, table.rowCount, at(fx), at(fy), { xGrid, yGrid, sampleRows: 40 });
+      assert.equal(pd.rows.length, 40);
+      let worst = 0;
+      for (let j = 0; j < yGrid.length; j++) {
+        for (let i = 0; i < xGrid.length; i++) {
+          const scored = scoredWith(forest, x, pd.rows, [[at(fx), xGrid[i]], [at(fy), yGrid[j]]]);
+          for (let k = 0; k < 3; k++) {
+            let mean = 0;
+            for (let s = 0; s < 40; s++) mean += scored[s * 3 + k];
+            worst = Math.max(worst, Math.abs(pd.values[(j * xGrid.length + i) * 3 + k] - mean / 40));
+          }
         }
       }
+      assert.ok(worst < 1e-12, `${fx} x ${fy}: largest difference ${worst}`);
     }
-    assert.ok(worst < 1e-12, `largest difference ${worst}`);
+    const a = at('a');
+    const xGrid = even('a', 4);
     // For the same seed a map and a curve average over the same rows, so they can be read side by side.
-    const one = partialDependence(forest, x, table.rowCount, a, { grid: xGrid, sampleRows: 50 });
-    assert.deepEqual(one.iceRows, pd.rows);
+    const one = partialDependence(forest, x, table.rowCount, a, { grid: xGrid, sampleRows: 40 });
+    const two = partialDependence2D(forest, x, table.rowCount, a, at('b'), { xGrid, yGrid: [0.5], sampleRows: 40 });
+    assert.deepEqual(one.iceRows, two.rows);
     assert.throws(() => partialDependence2D(forest, x, table.rowCount, a, a, { xGrid, yGrid: xGrid }), /two different/);
+    assert.throws(() => partialDependence(forest, x, table.rowCount, a, { grid: [0, NaN] }), /finite/);
   });
 
   it('samples rows deterministically for a seed, without repeats, and takes all rows when there are few', () => {
