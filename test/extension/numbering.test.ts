@@ -1,5 +1,6 @@
 // Table row ↔ the CSV's own data row number (what the panel and protocol call "row").
 import * as assert from 'node:assert/strict';
+import { loadCsvText } from '../../src/core/csv/load';
 import { recordStartLines, RowNumbering } from '../../src/extension/rows/numbering';
 
 describe('extension row numbering', () => {
@@ -31,7 +32,16 @@ describe('extension row numbering', () => {
     assert.equal(n.tableRow(3), undefined);
   });
 
-  it('handles CRLF line ends', () => {
+  it('handles CRLF and lone-CR line ends', () => {
     assert.deepEqual(Array.from(recordStartLines('a,b\r\n1,"x\r\ny"\r\n2,z\r\n', ',')), [1, 2, 4]);
+    assert.deepEqual(Array.from(recordStartLines('a,b\r1,"x\ry"\r2,z\r', ',')), [1, 2, 4]);
+  });
+
+  it('agrees with core\'s lineOfRow on a CR-only file with a quoted line break', async () => {
+    const text = 'a,b,c\r1,"x\ry",p\r2,z,q\r3,w,p\r';
+    const { table, delimiter } = await loadCsvText(text);
+    assert.deepEqual(Array.from(table.lineOfRow), [2, 4, 5]);
+    const n = RowNumbering.build(table.lineOfRow, delimiter, () => text);
+    assert.deepEqual([0, 1, 2].map((r) => n.dataRow(r)), [1, 2, 3]);
   });
 });

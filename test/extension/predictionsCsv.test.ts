@@ -18,6 +18,11 @@ describe('extension predictions file', () => {
     assert.equal(out, 'a;b;p\r\n1;2;"x;y"\r\n3;4;z\r\n');
   });
 
+  it('keeps old Mac CR-only line ends, which core also reads', () => {
+    const out = predictionsCsv('a,b\r1,"x\ry"\r2,z\r', Int32Array.from([2, 4]), ',', [{ name: 'p', cells: ['u', 'v'] }]);
+    assert.equal(out, 'a,b,p\r1,"x\ry",u\r2,z,v\r');
+  });
+
   it('writes rows in file order even when the table held them in another', () => {
     const out = predictionsCsv('h\n1\n2\n3\n', Int32Array.from([4, 2, 3]), ',', [{ name: 'p', cells: ['c', 'a', 'b'] }]);
     assert.equal(out, 'h,p\n1,a\n2,b\n3,c\n');

@@ -1,7 +1,7 @@
 // Writes predictions as a new CSV: every input record copied byte for byte (so columns the model ignored,
 // quoting and number formats survive), with the prediction columns appended. Pure.
 
-import { recordSpan } from '../rows/lineMap';
+import { lineEnding, recordSpan, splitLines } from '../rows/lineMap';
 
 export interface AddedColumn {
   readonly name: string;
@@ -27,9 +27,8 @@ export function uniqueNames(wanted: readonly string[], existing: readonly string
 }
 
 export function predictionsCsv(text: string, lineOfRow: Int32Array, delimiter: string, added: readonly AddedColumn[]): string {
-  const lines = text.split('\n');
-  const eol = lines.length > 1 && lines[0].endsWith('\r') ? '\r\n' : '\n';
-  const clean = lines.map((l) => (l.endsWith('\r') ? l.slice(0, -1) : l));
+  const eol = lineEnding(text);
+  const clean = splitLines(text);
   const read = (line: number): string | undefined => clean[line - 1];
   const record = (start: number): string => clean.slice(start - 1, start - 1 + recordSpan(read, start, delimiter)).join(eol);
   const out: string[] = [];

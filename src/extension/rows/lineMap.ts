@@ -8,6 +8,17 @@
 /** Reads the text of a 1-based line, or undefined past the end of the document. */
 export type LineReader = (line: number) => string | undefined;
 
+/** The file's lines the way core and the editor count them: LF, CRLF and a lone CR each end a line. */
+export function splitLines(text: string): string[] {
+  return text.split(/\r\n|\r|\n/);
+}
+
+/** The line ending a file mostly uses (its first one), so a rewritten file keeps it. */
+export function lineEnding(text: string): '\n' | '\r\n' | '\r' {
+  const m = /\r\n|\r|\n/.exec(text);
+  return (m?.[0] as '\n' | '\r\n' | '\r' | undefined) ?? '\n';
+}
+
 /** How many lines the record starting at `startLine` occupies (at least 1). */
 export function recordSpan(read: LineReader, startLine: number, delimiter: string, maxLines = 10_000): number {
   let inQuotes = false;

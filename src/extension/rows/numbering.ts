@@ -2,25 +2,16 @@
 // carries). They differ when rows were sampled or dropped (missing target), and a data row's line differs
 // from its number when quoted fields span lines, so the numbering comes from the file's record starts.
 
-import { scanLine } from './lineMap';
+import { scanLine, splitLines } from './lineMap';
 
 /** 1-based start line of every non-blank record in `text`, header included (it is the first). */
 export function recordStartLines(text: string, delimiter: string): Int32Array {
   const starts: number[] = [];
   let inQuotes = false;
-  let line = 1;
-  let pos = 0;
-  while (pos <= text.length) {
-    let end = text.indexOf('\n', pos);
-    if (end < 0) end = text.length;
-    let lineText = text.slice(pos, end);
-    if (lineText.endsWith('\r')) lineText = lineText.slice(0, -1);
-    if (!inQuotes && lineText.trim() !== '') starts.push(line);
+  splitLines(text).forEach((lineText, i) => {
+    if (!inQuotes && lineText.trim() !== '') starts.push(i + 1);
     inQuotes = scanLine(lineText, inQuotes, delimiter);
-    if (end >= text.length) break;
-    pos = end + 1;
-    line++;
-  }
+  });
   return Int32Array.from(starts);
 }
 
