@@ -168,15 +168,31 @@ export function quantileIndexFromTrainingTable(forest: Forest, table: Table): Qu
   return buildQuantileIndex(forest, { y, inBag, leaves: trainingLeaves(forest, x, n) });
 }
 
+export interface TrainingFileOptions {
+  /** The missing-value tokens the fit was loaded with, when not the default. */
+  readonly missingTokens?: readonly string[];
+  /** The row sample the fit was loaded with (drawn again under the forest's seed). */
+  readonly sampleRows?: number;
+  readonly signal?: AbortSignal;
+}
+
 /**
- * The index for a saved forest from its training CSV, read with the model's column types. The file must be
- * the one the forest was fitted on (its fingerprint is compared when the model has one).
+ * The index for a saved forest from its training CSV, read with the model's column types and the load
+ * options the fit used. The file must be the one the forest was fitted on (its fingerprint is compared when
+ * the model has one), and its rows must reproduce every leaf, or a TrainingMismatchError says so.
  */
-export async function quantileIndexFromTrainingFile(forest: Forest, file: string, signal?: AbortSignal): Promise<QuantileIndex> {
+export async function quantileIndexFromTrainingFile(forest: Forest, file: string, options: TrainingFileOptions = {}): Promise<QuantileIndex> {
   const columnTypes: Record<string, 'numeric' | 'categorical' | 'boolean'> = Object.create(null);
   for (const f of forest.schema.features) columnTypes[f.name] = f.kind;
   columnTypes[forest.schema.target.name] = 'numeric';
-  const loaded = await loadCsv(file, { target: forest.schema.target.name, columnTypes, signal });
+  const loaded = await loadCsv(file, {
+    target: forest.schema.target.name,
+    columnTypes,
+    missingTokens: options.missingTokens,
+    sampleRows: options.sampleRows,
+    sampleSeed: forest.params.seed,
+    signal: options.signal,
+  });
   if (forest.training.fingerprint && loaded.fingerprint !== forest.training.fingerprint) {
     throw new TrainingMismatchError(`${file} is not the file the forest was fitted on (its contents differ), so its rows cannot give intervals.`);
   }

@@ -138,6 +138,12 @@ describe('prediction intervals (quantile regression forest)', function () {
     const changed = path.join(dir, 'changed.csv');
     writeFileSync(changed, readFileSync(file, 'utf8').replace('\n59,2,32.1', '\n60,2,32.1'));
     await assert.rejects(quantileIndexFromTrainingFile(rep.forest, changed), /not the file the forest was fitted on/);
+    // A fit on a sample of the file's rows: the same sample is drawn again under the forest's seed.
+    const sampled = await loadCsv(file, { target: 'progression', sampleRows: 300, sampleSeed: 5 });
+    const small = await fitForest(sampled.table, { target: 'progression', params: { trees: 10, seed: 5 }, workers: 2, fingerprint: sampled.fingerprint, permutationImportance: false });
+    const again = await quantileIndexFromTrainingFile(small.forest, file, { sampleRows: 300 });
+    assert.deepEqual(again.share, quantileIndexFromFit(small, sampled.table).share);
+    await assert.rejects(quantileIndexFromTrainingFile(small.forest, file), TrainingMismatchError);
   });
 
   for (const [name, file, target] of [['friedman1', 'friedman1.csv', 'y'], ['diabetes', 'diabetes.csv', 'progression']] as const) {
