@@ -48,7 +48,7 @@ describe('extension summary', () => {
   });
 
   it('uses R\'s default quantile rule (type 7; Hyndman and Fan 1996)', () => {
-    // R: quantile(1:10) gives 1.00 3.25 5.50 7.75 10.00.
+    // R: quantile(1:10) gives 1.00 3.25 5.50 7.75 10.00 (from memory; type 7 is h = (n - 1) q + 1, interpolated).
     const xs = Array.from({ length: 10 }, (_, i) => i + 1);
     assert.deepEqual([0, 0.25, 0.5, 0.75, 1].map((q) => quantile(xs, q)), [1, 3.25, 5.5, 7.75, 10]);
     assert.deepEqual(residualSummary(Float64Array.from([1, 2, NaN]), Float64Array.from([0, 0, 0])), { min: 1, q1: 1.25, median: 1.5, q3: 1.75, max: 2 });
