@@ -32,6 +32,18 @@ describe('extension row numbering', () => {
     assert.equal(n.tableRow(3), undefined);
   });
 
+  it('matches the row numbers core\'s loader gives kept rows, after sampling and dropped targets', async () => {
+    const lines = ['id,note,y'];
+    for (let i = 1; i <= 60; i++) lines.push(`${i},${i % 7 === 0 ? '"two\nlines"' : 'n'},${i % 5 === 0 ? '' : i % 2}`);
+    const text = lines.join('\n') + '\n';
+    const { table, delimiter } = await loadCsvText(text, { target: 'y', sampleRows: 25, sampleSeed: 3 });
+    assert.ok(table.rowNumber, 'core numbers kept rows');
+    const scanned = RowNumbering.build(table.lineOfRow, delimiter, () => text);
+    for (let r = 0; r < table.rowCount; r++) assert.equal(scanned.dataRow(r), table.rowNumber![r], `table row ${r}`);
+    const fromCore = RowNumbering.build(table.lineOfRow, delimiter, () => assert.fail('no need to read the file'), table.rowNumber);
+    assert.equal(fromCore.dataRow(0), table.rowNumber![0]);
+  });
+
   it('handles CRLF and lone-CR line ends', () => {
     assert.deepEqual(Array.from(recordStartLines('a,b\r\n1,"x\r\ny"\r\n2,z\r\n', ',')), [1, 2, 4]);
     assert.deepEqual(Array.from(recordStartLines('a,b\r1,"x\ry"\r2,z\r', ',')), [1, 2, 4]);

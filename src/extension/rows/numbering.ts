@@ -29,7 +29,9 @@ export class RowNumbering {
    * When every table row sits on its own line straight after a one-line header, data row = table row + 1
    * and the file need not be read again. Otherwise `text()` supplies it and records are counted.
    */
-  static build(lineOfRow: Int32Array, delimiter: string, text: () => string): RowNumbering {
+  static build(lineOfRow: Int32Array, delimiter: string, text: () => string, rowNumber?: Int32Array): RowNumbering {
+    // Core's loader now numbers kept rows itself; the scan below serves tables built without it.
+    if (rowNumber && rowNumber.length === lineOfRow.length) return new RowNumbering(Int32Array.from(rowNumber));
     const n = lineOfRow.length;
     if (n === 0 || (lineOfRow[0] === 2 && lineOfRow[n - 1] === n + 1 && strictlyIncreasing(lineOfRow))) {
       const ids = new Int32Array(n);

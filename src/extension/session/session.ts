@@ -121,7 +121,7 @@ export class ForestSession {
     const holdout = new Set<number>(init.oob?.holdoutRows ?? []);
     const tolerance = forest.schema.target.task === 'regression' ? 0.25 * targetSd(truth, init.oob?.trainRows) : 0;
     const store = new RowStore(forest.schema.target.task, forest.schema.target.classes ?? [], prediction, truth, oob, holdout, tolerance);
-    const numbering = RowNumbering.build(table.lineOfRow, init.source.delimiter, init.text);
+    const numbering = RowNumbering.build(table.lineOfRow, init.source.delimiter, init.text, table.rowNumber);
     const summary = typeof init.summary === 'function' ? init.summary({ prediction, truth }) : init.summary;
     return new ForestSession(init, summary, encoded, store, numbering, truth);
   }
@@ -230,7 +230,7 @@ export class ForestSession {
     const x = encodeTable(this.forest.schema, table, label);
     const prediction = await this.scorer.predict(x, table.rowCount);
     const store = new RowStore(this.task, this.classes, prediction, truthOf(this.forest, table), undefined, new Set(), this.store.tolerance);
-    return { store, lines: new LineIndex(table.lineOfRow, delimiter), numbering: RowNumbering.build(table.lineOfRow, delimiter, text), label };
+    return { store, lines: new LineIndex(table.lineOfRow, delimiter), numbering: RowNumbering.build(table.lineOfRow, delimiter, text, table.rowNumber), label };
   }
 
   hoverOther(file: ScoredFile, tableRow: number): string {
