@@ -1,6 +1,6 @@
 // How the forest's output moves with one or two features while the others keep each row's own values:
 // partial dependence (Friedman 2001, "Greedy function approximation: a gradient boosting machine", Annals of
-// Statistics 29(5), section 8.2) as the mean of individual conditional expectation curves (Goldstein,
+// Statistics 29(5); section 8.2 from memory) as the mean of individual conditional expectation curves (Goldstein,
 // Kapelner, Bleich & Pitkin 2015, "Peeking inside the black box", J. Computational and Graphical
 // Statistics 24(1)). The values are exactly those of scoring every row with the feature set to every grid
 // value; instead of walking each (row, grid value) pair, a row walks each tree once and splits its set of

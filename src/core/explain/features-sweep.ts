@@ -1,5 +1,5 @@
 // How many features each split should try, chosen by the out-of-bag error: Breiman (2001), "Random forests",
-// Machine Learning 45, section 4-5, suggests exactly this use of the out-of-bag estimate. The forest is refitted
+// Machine Learning 45, suggests exactly this use of the out-of-bag estimate. The forest is refitted
 // with a handful of counts around the default and the error of each is reported; the data are never split.
 import { findColumn, type Table } from '../data/table';
 import { fitForest, inferTask, type FitOptions } from '../forest/fit';

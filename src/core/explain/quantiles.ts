@@ -201,7 +201,7 @@ export async function quantileIndexFromTrainingFile(forest: Forest, file: string
 
 /**
  * Quantiles of the forest's conditional distribution for `rows` encoded rows: out[i * probabilities.length + q].
- * The quantile at a is the smallest training target whose cumulative weight reaches a (Meinshausen 2006, eq. 4).
+ * The quantile at a is the smallest training target whose cumulative weight reaches a (Meinshausen 2006).
  */
 export function predictQuantiles(index: QuantileIndex, x: ArrayLike<number>, rows: number, probabilities: readonly number[]): Float64Array {
   for (const a of probabilities) if (!(a >= 0 && a <= 1)) throw new RangeError(`quantile levels must lie in [0, 1]; got ${a}`);

@@ -1,4 +1,4 @@
-// Partial dependence (Friedman 2001, Annals of Statistics 29(5), section 8.2) as the mean of individual
+// Partial dependence (Friedman 2001, Annals of Statistics 29(5); section 8.2 from memory) as the mean of individual
 // conditional expectation curves (Goldstein, Kapelner, Bleich & Pitkin 2015, JCGS 24(1)), checked against
 // brute force: score every sampled row with the feature overwritten, through the forest's own scorer.
 import * as assert from 'node:assert/strict';
@@ -46,7 +46,7 @@ describe('partial dependence and ICE curves', function () {
 
   it('recover the shape of each term of an additive function (monotone where the term is)', async () => {
     // y = 3 x0 + sin(2 pi x1) + noise, x uniform: the partial dependence on x0 is 3 x0 plus a constant and
-    // on x1 is sin(2 pi x1) plus a constant (Friedman 2001, section 8.2: for additive f it recovers each term).
+    // on x1 is sin(2 pi x1) plus a constant (Friedman 2001: for additive f it recovers each term up to a constant).
     const rng = seedrandom('additive');
     const x0: number[] = [];
     const x1: number[] = [];
