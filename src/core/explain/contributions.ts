@@ -8,6 +8,7 @@
 // whether the row goes that way when it is known) and the permutation weights of every subset size, so each
 // leaf adds its share to every feature on its path in O(depth^2) instead of 2^p subset evaluations.
 // Contributions plus the base value add up to the forest's prediction for the row (local accuracy).
+// (Journal volumes and pages in these comments are cited from memory.)
 import type { Forest } from '../forest/forest';
 import { levelCounts } from '../forest/predict';
 import { outputCount } from '../model/schema';

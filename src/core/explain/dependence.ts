@@ -4,7 +4,7 @@
 // Kapelner, Bleich & Pitkin 2015, "Peeking inside the black box", J. Computational and Graphical
 // Statistics 24(1)). The values are exactly those of scoring every row with the feature set to every grid
 // value; instead of walking each (row, grid value) pair, a row walks each tree once and splits its set of
-// grid points only at nodes that test the varying feature.
+// grid points only at nodes that test the varying feature. (Volumes and pages cited from memory.)
 import type { ColumnKind } from '../data/table';
 import type { Forest } from '../forest/forest';
 import { levelCounts } from '../forest/predict';

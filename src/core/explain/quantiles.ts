@@ -2,7 +2,7 @@
 // "Quantile regression forests", JMLR 7, 983-999. A tree's leaf keeps the targets of the training rows that
 // reached it, not only their mean; a new row's conditional distribution is the average over trees of its
 // leaf's empirical distribution, and quantiles are read off that. Rows weigh by how often the tree's
-// bootstrap drew them, the weighting whose mean is exactly the forest's prediction.
+// bootstrap drew them, the weighting whose mean is exactly the forest's prediction. (Pages cited from memory.)
 import { loadCsv } from '../csv/load';
 import { findColumn, type Table } from '../data/table';
 import { drawSample, sampleSize } from '../forest/bootstrap';
