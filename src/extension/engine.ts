@@ -5,7 +5,8 @@ export type { Table, Column, LevelColumn, NumericColumn, DroppedColumn, ColumnKi
 export { findColumn, cellText, isMissing } from '../core/data/table';
 export type { LoadOptions, LoadResult } from '../core/csv/types';
 export { DataError } from '../core/csv/types';
-export { loadCsv, loadCsvText } from '../core/csv/load';
+// Loading runs on a worker thread: parsing a large file on the host's thread would freeze the editor.
+export { loadCsvOffThread as loadCsv, loadCsvTextOffThread as loadCsvText } from '../core/csv/load-off-thread';
 export type { ForestParams, Task, FeaturesPerSplit } from '../core/forest/params';
 export { defaultParams, resolveFeaturesPerSplit } from '../core/forest/params';
 export type { Schema, FeatureInfo, TargetInfo } from '../core/model/schema';

@@ -11,7 +11,8 @@ import { DEFAULT_PERMUTATION_ROWS, type TrainingJob, type TreeResult } from './g
 import { OobFold, type RowResults } from './oob';
 import { defaultParams, resolveFeaturesPerSplit, validateParams, type ForestParams, type Task } from './params';
 import { defaultWorkers, growInWorkers } from './pool';
-import { encodeTable, predictEncoded, type Prediction } from './predict';
+import { encodeTable, type Prediction } from './predict';
+import { Scorer } from './scorer';
 import { stream, shuffle } from './rng';
 import { codesFor, encodeTarget, inferTask } from './target';
 
@@ -130,13 +131,13 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
   let test: Scores | undefined;
   let testPrediction: Prediction | undefined;
   if (holdout) {
-    ({ scores: test, prediction: testPrediction } = scoreRows(forest, table, holdout, Float64Array.from(holdout, (r) => encoded.y[positions.get(r)!])));
+    ({ scores: test, prediction: testPrediction } = await scoreRows(forest, table, holdout, Float64Array.from(holdout, (r) => encoded.y[positions.get(r)!])));
   } else if (options.test) {
     const testTarget = findColumn(options.test, options.target);
     if (!testTarget) throw new RangeError(`The test data has no column "${options.target}".`);
     const truth = task === 'classification' ? codesFor(testTarget, encoded.classes!) : Float64Array.from(testTarget.kind === 'numeric' ? testTarget.values : []);
     const all = Int32Array.from({ length: options.test.rowCount }, (_, i) => i);
-    ({ scores: test, prediction: testPrediction } = scoreRows(forest, options.test, all, truth));
+    ({ scores: test, prediction: testPrediction } = await scoreRows(forest, options.test, all, truth));
   }
   const fitNotes = [...notes];
   if (holdout) fitNotes.push(`${holdout.length} rows were held out for scoring and not used in training.`);
@@ -190,12 +191,19 @@ function rowWeights(target: TargetData, mode: ForestParams['classWeight']): Floa
 }
 
 /** Scores the given table rows, whose truth (class code, -1 for unknown labels, or value) is given. */
-function scoreRows(forest: Forest, table: Table, rows: Int32Array, truth: Float64Array): { scores: Scores; prediction: Prediction } {
+async function scoreRows(forest: Forest, table: Table, rows: Int32Array, truth: Float64Array): Promise<{ scores: Scores; prediction: Prediction }> {
   const all = encodeTable(forest.schema, table);
   const p = forest.schema.features.length;
   const x = new Float64Array(rows.length * p);
   rows.forEach((r, i) => x.set(all.subarray(r * p, (r + 1) * p), i * p));
-  const prediction = predictEncoded(forest, x, rows.length);
+  // On a scoring thread, like the trees: the caller's thread may be an editor's.
+  const scorer = new Scorer(forest);
+  let prediction: Prediction;
+  try {
+    prediction = await scorer.predict(x, rows.length);
+  } finally {
+    await scorer.dispose();
+  }
   const target = forest.schema.target;
   if (target.task === 'classification') {
     return { scores: classificationScores(truth, prediction.proba!, target.classes!, (i) => truth[i] >= 0), prediction };
