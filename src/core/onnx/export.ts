@@ -1,0 +1,208 @@
+// A fitted forest as an ONNX graph: one ai.onnx.ml TreeEnsembleClassifier or TreeEnsembleRegressor (operator
+// set 3, which ONNX 1.12 and every current runtime read) over a float tensor of encoded rows.
+import type { Forest } from '../forest/forest';
+import { levelCounts } from '../forest/predict';
+import { ModelError } from '../model/validate';
+import { outputCount } from '../model/schema';
+import type { FlatTree } from '../tree/tree';
+import { roundDown32 } from './float32';
+import { exportMetadata, INPUT_NAME } from './metadata';
+import { ATTR, DTYPE, encodeModel, type OnnxAttribute, type OnnxModel, type OnnxNode, type OnnxValueInfo } from './proto';
+
+/** ONNX IR version 8 and default-domain operator set 13: what ONNX 1.12's checker and onnxruntime both accept. */
+const IR_VERSION = 8;
+const OPSET = 13;
+const ML_OPSET = 3;
+/** Protocol buffers cannot hold a message of 2 GiB or more. */
+const MAX_BYTES = 2 ** 31 - 1;
+
+const utf8 = new TextEncoder();
+const LEAF = utf8.encode('LEAF');
+const LEQ = utf8.encode('BRANCH_LEQ');
+const EQ = utf8.encode('BRANCH_EQ');
+
+/** Node lists of the whole ensemble, in the operator's attribute layout. */
+class EnsembleLists {
+  readonly treeIds: number[] = [];
+  readonly nodeIds: number[] = [];
+  readonly featureIds: number[] = [];
+  readonly values: number[] = [];
+  readonly modes: Uint8Array[] = [];
+  readonly trueIds: number[] = [];
+  readonly falseIds: number[] = [];
+  readonly missingTrue: number[] = [];
+  readonly hitRates: number[] = [];
+  readonly weightTree: number[] = [];
+  readonly weightNode: number[] = [];
+  readonly weightTarget: number[] = [];
+  readonly weightValue: number[] = [];
+
+  node(tree: number, id: number, mode: Uint8Array, feature: number, value: number, t: number, f: number, missingTrue: number, cover: number): void {
+    this.treeIds.push(tree);
+    this.nodeIds.push(id);
+    this.modes.push(mode);
+    this.featureIds.push(feature);
+    this.values.push(value);
+    this.trueIds.push(t);
+    this.falseIds.push(f);
+    this.missingTrue.push(missingTrue);
+    this.hitRates.push(cover);
+  }
+
+  weight(tree: number, id: number, target: number, w: number): void {
+    this.weightTree.push(tree);
+    this.weightNode.push(id);
+    this.weightTarget.push(target);
+    this.weightValue.push(w);
+  }
+}
+
+/** Serialises the forest as an ONNX model; see src/core/onnx/README.md for the encoding. */
+export function exportOnnx(forest: Forest): Uint8Array {
+  const { schema, trees } = forest;
+  const classification = schema.target.task === 'classification';
+  const K = outputCount(schema.target);
+  const T = trees.length;
+  if (T === 0) throw new ModelError('The forest has no trees to export.');
+  const counts = levelCounts(schema);
+  const lists = new EnsembleLists();
+  const seen = new Uint8Array(K);
+  trees.forEach((tree, t) => addTree(lists, tree, t, counts, classification, K, T, seen));
+  // A class no leaf votes for still needs one entry, or a runtime may infer fewer classes than the labels list.
+  for (let k = 0; k < K; k++) if (!seen[k]) lists.weight(0, leafId(trees[0]), k, 0);
+
+  const estimate = lists.treeIds.length * 40 + lists.weightTree.length * 24;
+  if (estimate > MAX_BYTES) throw new ModelError(`The forest is too large for one ONNX file (about ${Math.round(estimate / 2 ** 20)} MiB; the format's limit is 2 GiB).`);
+
+  const prefix = classification ? 'class' : 'target';
+  const attributes: OnnxAttribute[] = [
+    ints('nodes_treeids', lists.treeIds),
+    ints('nodes_nodeids', lists.nodeIds),
+    ints('nodes_featureids', lists.featureIds),
+    floats('nodes_values', lists.values),
+    { name: 'nodes_modes', type: ATTR.STRINGS, strings: lists.modes },
+    ints('nodes_truenodeids', lists.trueIds),
+    ints('nodes_falsenodeids', lists.falseIds),
+    ints('nodes_missing_value_tracks_true', lists.missingTrue),
+    floats('nodes_hitrates', lists.hitRates),
+    ints(`${prefix}_treeids`, lists.weightTree),
+    ints(`${prefix}_nodeids`, lists.weightNode),
+    ints(`${prefix}_ids`, lists.weightTarget),
+    floats(`${prefix}_weights`, lists.weightValue),
+    text('post_transform', 'NONE'),
+  ];
+  const rows = { dim_param: 'rows' };
+  const input: OnnxValueInfo = tensorInfo(INPUT_NAME, DTYPE.FLOAT, [rows, { dim_value: schema.features.length }]);
+  let nodes: OnnxNode[];
+  let outputs: OnnxValueInfo[];
+  const initializer = [];
+  if (classification) {
+    const classes = schema.target.classes!;
+    attributes.push({ name: 'classlabels_strings', type: ATTR.STRINGS, strings: classes.map((c) => utf8.encode(c)) });
+    // The operator's own label output is left unused: for two classes runtimes disagree on how to derive it, while
+    // ArgMax over the probabilities is the forest's vote everywhere.
+    nodes = [
+      { op_type: 'TreeEnsembleClassifier', domain: 'ai.onnx.ml', name: 'forest', input: [INPUT_NAME], output: ['ensemble_label', 'probabilities'], attribute: attributes },
+      { op_type: 'ArgMax', domain: '', name: 'vote', input: ['probabilities'], output: ['class_index'], attribute: [int('axis', 1), int('keepdims', 0)] },
+      { op_type: 'Gather', domain: '', name: 'class_name', input: ['class_names', 'class_index'], output: ['label'], attribute: [int('axis', 0)] },
+    ];
+    initializer.push({ name: 'class_names', data_type: DTYPE.STRING, dims: [K], string_data: classes.map((c) => utf8.encode(c)) });
+    outputs = [tensorInfo('label', DTYPE.STRING, [rows]), tensorInfo('probabilities', DTYPE.FLOAT, [rows, { dim_value: K }])];
+  } else {
+    attributes.push(int('n_targets', 1), text('aggregate_function', 'AVERAGE'));
+    nodes = [{ op_type: 'TreeEnsembleRegressor', domain: 'ai.onnx.ml', name: 'forest', input: [INPUT_NAME], output: ['value'], attribute: attributes }];
+    outputs = [tensorInfo('value', DTYPE.FLOAT, [rows, { dim_value: 1 }])];
+  }
+  const model: OnnxModel = {
+    ir_version: IR_VERSION,
+    opset_import: [
+      { domain: '', version: OPSET },
+      { domain: 'ai.onnx.ml', version: ML_OPSET },
+    ],
+    producer_name: 'copse',
+    doc_string: `Random forest of ${T} trees (${schema.target.task} of "${schema.target.name}"), exported by Copse.`,
+    graph: { name: 'copse_forest', node: nodes, input: [input], output: outputs, initializer },
+    metadata_props: exportMetadata(forest),
+  };
+  const bytes = encodeModel(model);
+  if (bytes.length > MAX_BYTES) throw new ModelError('The forest is too large for one ONNX file (the format\'s limit is 2 GiB).');
+  return bytes;
+}
+
+function addTree(lists: EnsembleLists, tree: FlatTree, t: number, counts: Int32Array, classification: boolean, K: number, T: number, seen: Uint8Array): void {
+  const { left, right, feature, threshold, missingLeft, value, cover, catBits } = tree;
+  // Chain nodes of level-set splits get ids after the tree's own nodes, so node i keeps id i and the root stays 0.
+  let nextId = tree.nodeCount;
+  for (let i = 0; i < tree.nodeCount; i++) {
+    const c = cover[i];
+    if (left[i] < 0) {
+      lists.node(t, i, LEAF, 0, 0, 0, 0, 0, c);
+      if (classification) {
+        // The operator sums leaf weights over trees; dividing by T makes the sum the forest's average. Zero weights
+        // are left out, except with two classes: onnxruntime treats a row that no weight of the second class
+        // reached as a one-score binary case and reports [-p, p] instead of [p, 0].
+        for (let k = 0; k < K; k++) {
+          const w = value[i * K + k];
+          if (w !== 0 || K === 2) {
+            lists.weight(t, i, k, w / T);
+            seen[k] = 1;
+          }
+        }
+      } else {
+        lists.weight(t, i, 0, value[i]);
+        seen[0] = 1;
+      }
+      continue;
+    }
+    const f = feature[i];
+    const levels = counts[f];
+    if (levels === 0) {
+      lists.node(t, i, LEQ, f, roundDown32(threshold[i]), left[i], right[i], missingLeft[i], c);
+      continue;
+    }
+    // Chain the levels of the side missing values do not take; the chain's end is the missing side, so NaN and
+    // any code outside the level list land where Copse sends them.
+    const missingSide = missingLeft[i] === 1 ? left[i] : right[i];
+    const otherSide = missingLeft[i] === 1 ? right[i] : left[i];
+    const at = threshold[i];
+    const chain: number[] = [];
+    for (let l = 0; l < levels; l++) {
+      const inSet = (catBits[at + (l >>> 5)] & (1 << (l & 31))) !== 0;
+      if (inSet !== (missingLeft[i] === 1)) chain.push(l);
+    }
+    // No level on the other side: one test no code passes (-1) sends everything to the missing side.
+    if (chain.length === 0) chain.push(-1);
+    let id = i;
+    for (let j = 0; j < chain.length; j++) {
+      const last = j === chain.length - 1;
+      const next = last ? missingSide : nextId++;
+      lists.node(t, id, EQ, f, chain[j], otherSide, next, 0, c);
+      id = next;
+    }
+  }
+}
+
+function leafId(tree: FlatTree): number {
+  for (let i = 0; i < tree.nodeCount; i++) if (tree.left[i] < 0) return i;
+  return 0;
+}
+
+function ints(name: string, values: number[]): OnnxAttribute {
+  return { name, type: ATTR.INTS, ints: values };
+}
+
+function floats(name: string, values: number[]): OnnxAttribute {
+  return { name, type: ATTR.FLOATS, floats: values };
+}
+
+function int(name: string, value: number): OnnxAttribute {
+  return { name, type: ATTR.INT, i: value };
+}
+
+function text(name: string, value: string): OnnxAttribute {
+  return { name, type: ATTR.STRING, s: utf8.encode(value) };
+}
+
+function tensorInfo(name: string, elemType: number, dims: Array<{ dim_value?: number; dim_param?: string }>): OnnxValueInfo {
+  return { name, type: { tensor_type: { elem_type: elemType, shape: { dim: dims } } } };
+}
