@@ -15,6 +15,7 @@ Commands:
   fit      fit a random forest on a CSV file and report what it learned
   predict  score a CSV file with a saved forest
   votes    show how every tree votes on chosen rows
+  explain  show each feature's contribution to chosen rows' predictions
 
 Run "copse COMMAND --help" for a command's options.
 `;

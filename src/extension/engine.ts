@@ -20,3 +20,4 @@ export type { Prediction } from '../core/forest/predict';
 export { encodeTable, SchemaMismatchError } from '../core/forest/predict';
 export { Scorer } from '../core/forest/scorer';
 export { saveModel, loadModel } from '../core/model/file';
+export { predictionColumns, writePredictions } from '../core/forest/score-file';

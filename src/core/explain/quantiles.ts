@@ -6,10 +6,9 @@
 import { loadCsv } from '../csv/load';
 import { findColumn, type Table } from '../data/table';
 import { drawSample, sampleSize } from '../forest/bootstrap';
-import type { FitReport } from '../forest/fit';
+import { splitRows, type FitReport } from '../forest/fit';
 import type { Forest } from '../forest/forest';
 import { encodeTable, leafOf, levelCounts } from '../forest/predict';
-import { shuffle, stream } from '../forest/rng';
 import { encodeTarget } from '../forest/target';
 
 export interface QuantileTraining {
@@ -144,13 +143,7 @@ export function quantileIndexFromTrainingTable(forest: Forest, table: Table): Qu
   if (encoded.rows.length < n) {
     throw new TrainingMismatchError(`The forest was fitted on ${n} rows; this data has only ${encoded.rows.length} with a target.`);
   }
-  let train = encoded.rows;
-  if (encoded.rows.length > n) {
-    // The same draw as the fit's holdout split: shuffle under the seed, hold out the first rows, keep the rest in order.
-    const order = encoded.rows.slice();
-    shuffle(order, stream(params.seed, 'holdout'));
-    train = order.subarray(encoded.rows.length - n).slice().sort();
-  }
+  const { train } = splitRows(encoded.rows, encoded.rows.length - n, params.seed);
   const positions = new Map<number, number>();
   encoded.rows.forEach((r, i) => positions.set(r, i));
   const y = Float64Array.from(train, (r) => encoded.y[positions.get(r)!]);

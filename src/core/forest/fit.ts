@@ -77,7 +77,8 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
     throw new RangeError(`The target "${options.target}" has a single value ("${encoded.classes[0] ?? ''}"), so there is nothing to predict.`);
   }
 
-  const { train, holdout } = splitRows(encoded.rows, options.holdout, params.seed);
+  const holdoutCount = options.holdout ? Math.max(1, Math.floor(encoded.rows.length * options.holdout)) : 0;
+  const { train, holdout } = splitRows(encoded.rows, holdoutCount, params.seed);
   const positions = new Map<number, number>();
   encoded.rows.forEach((r, i) => positions.set(r, i));
   const trainY = Float64Array.from(train, (r) => encoded.y[positions.get(r)!]);
@@ -157,13 +158,16 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
   };
 }
 
-function splitRows(rows: Int32Array, holdout: number | undefined, seed: number): { train: Int32Array; holdout?: Int32Array } {
-  if (!holdout) return { train: rows };
+/**
+ * The fit's holdout split: rows shuffled under the seed, the first `holdoutCount` held out, both parts back
+ * in file order. Exported so a saved forest (which keeps its seed and row count) can find its rows again.
+ */
+export function splitRows(rows: Int32Array, holdoutCount: number, seed: number): { train: Int32Array; holdout?: Int32Array } {
+  if (holdoutCount <= 0) return { train: rows };
+  if (holdoutCount >= rows.length) throw new RangeError('The holdout leaves no rows to train on.');
   const order = rows.slice();
   shuffle(order, stream(seed, 'holdout'));
-  const h = Math.max(1, Math.floor(order.length * holdout));
-  if (h >= order.length) throw new RangeError('The holdout leaves no rows to train on.');
-  return { train: order.subarray(h).slice().sort(), holdout: order.subarray(0, h).slice().sort() };
+  return { train: order.subarray(holdoutCount).slice().sort(), holdout: order.subarray(0, holdoutCount).slice().sort() };
 }
 
 function sharedTarget(y: Float64Array, classes?: number): TargetData {

@@ -1,14 +1,11 @@
 // "Copse: Predict into a new CSV": scores a CSV with the active forest and writes a copy with the
 // prediction columns appended. The input is never overwritten.
 
-import { promises as fs } from 'node:fs';
 import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { encodeTable } from '../engine';
+import { encodeTable, predictionColumns, writePredictions } from '../engine';
 import { samePath } from '../editor/csvDocuments';
 import { guarded, readCsv, requireFile, resolveCsv } from '../fit/fitFlow';
-import { predictionColumns } from '../predict/predictionColumns';
-import { predictionsCsv } from '../predict/predictionsCsv';
 import { COMMANDS, type Host } from './host';
 
 export function suggestedOutputPath(input: string): string {
@@ -48,15 +45,13 @@ export function registerPredictToFile(host: Host): vscode.Disposable {
         { location: vscode.ProgressLocation.Notification, title: `Copse: predicting ${loaded.load.table.rowCount} rows` },
         () => session.scorer.predict(x, loaded.load.table.rowCount),
       );
-      const text = await fs.readFile(inputPath, 'utf8');
-      const added = predictionColumns(session.forest.schema, prediction, loaded.load.header);
-      const csv = predictionsCsv(text, loaded.load.table.lineOfRow, loaded.load.delimiter, added);
-      const tmp = `${outPath}.${process.pid}.tmp`;
-      await fs.writeFile(tmp, csv, 'utf8');
-      await fs.rename(tmp, outPath);
-      ctx.log.info(
-        `Predicted ${prediction.rows} rows of ${inputPath} into ${outPath} (${added.map((a) => a.name).join(', ')}) in ${Math.round(performance.now() - started)} ms.`,
-      );
+      const { table, header, delimiter } = loaded.load;
+      const added = predictionColumns(session.forest, prediction, header);
+      // The same writer as `copse predict --out`: records copied as they stand, written atomically.
+      const rowOf = new Map<number, number>();
+      for (let i = 0; i < table.rowCount; i++) rowOf.set(table.rowNumber ? table.rowNumber[i] : i + 1, i);
+      await writePredictions(inputPath, outPath, delimiter, added, (k) => rowOf.get(k + 1) ?? -1);
+      ctx.log.info(`Predicted ${prediction.rows} rows of ${inputPath} into ${outPath} (${added.names.join(', ')}) in ${Math.round(performance.now() - started)} ms.`);
       const openIt = 'Open';
       const answer = await vscode.window.showInformationMessage(`Copse: wrote ${prediction.rows} predictions to ${path.basename(outPath)}.`, openIt);
       if (answer === openIt) await vscode.window.showTextDocument(vscode.Uri.file(outPath));
