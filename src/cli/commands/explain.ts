@@ -1,11 +1,10 @@
 import { cellText, findColumn } from '../../core/data/table';
 import { ContributionExplainer } from '../../core/explain/contributions';
-import { encodeTable, predictEncoded } from '../../core/forest/predict';
-import { loadForScoring } from '../../core/forest/score-file';
-import { dataRowOf } from '../../core/forest/summary';
+import { predictEncoded } from '../../core/forest/predict';
 import { argmaxAt } from '../../core/metrics/scores';
 import { loadModel } from '../../core/model/file';
-import { flag, list, parse, text, UsageError, wholeNumber, type Options } from '../args';
+import { flag, parse, text, UsageError, wholeNumber, type Options } from '../args';
+import { chooseRows, wantedRows } from '../rows';
 
 export const EXPLAIN_HELP = `Usage: copse explain MODEL.json DATA.csv --rows 1,7,12 [--json]
 
@@ -37,12 +36,7 @@ interface ExplainedRow {
 export async function runExplain(argv: string[]): Promise<void> {
   const args = parse('explain', argv, OPTIONS, 2);
   if (flag(args, 'help')) return void process.stdout.write(EXPLAIN_HELP);
-  const wanted = list(args, 'rows').map((r) => {
-    const n = Number(r);
-    if (!Number.isInteger(n) || n < 1) throw new UsageError(`--rows takes data row numbers counted from 1; got "${r}".`, 'explain');
-    return n;
-  });
-  if (wanted.length === 0) throw new UsageError('copse explain needs --rows, such as --rows 1,7,12.', 'explain');
+  const wanted = wantedRows(args, 'explain');
   const top = wholeNumber(args, 'top', 1) ?? 10;
   const [modelPath, dataPath] = args.positionals;
   const forest = await loadModel(modelPath);
@@ -53,18 +47,10 @@ export async function runExplain(argv: string[]): Promise<void> {
     if (target.task !== 'classification') throw new UsageError('--class applies to classification forests; this one is a regression.', 'explain');
     if (!classes.includes(chosen)) throw new UsageError(`--class: the forest has no class "${chosen}"; its classes are ${classes.map((c) => `"${c}"`).join(', ')}.`, 'explain');
   }
-  const loaded = await loadForScoring(dataPath, forest.schema);
+  const { loaded, tableRows, x } = await chooseRows(forest, dataPath, wanted, 'explain');
   const table = loaded.table;
-  const index = new Map<number, number>();
-  for (let i = 0; i < table.rowCount; i++) index.set(dataRowOf(table, i), i);
-  const missing = wanted.filter((r) => !index.has(r));
-  if (missing.length) throw new UsageError(`${dataPath} has ${table.rowCount} data rows; there is no row ${missing.join(', ')}.`, 'explain');
-
-  const all = encodeTable(forest.schema, table, dataPath);
   const names = forest.schema.features.map((f) => f.name);
   const p = names.length;
-  const x = new Float64Array(wanted.length * p);
-  wanted.forEach((r, j) => x.set(all.subarray(index.get(r)! * p, (index.get(r)! + 1) * p), j * p));
   const pred = predictEncoded(forest, x, wanted.length);
   const explainer = new ContributionExplainer(forest);
   const K = explainer.outputs;
@@ -72,7 +58,7 @@ export async function runExplain(argv: string[]): Promise<void> {
 
   const rows = wanted.map((r, j): ExplainedRow => {
     const phi = explainer.explainRow(x, j * p);
-    const tableRow = index.get(r)!;
+    const tableRow = tableRows[j];
     const values = Object.fromEntries(names.map((n, f) => [n, cellText(columns[f], tableRow)]));
     const line = table.lineOfRow[tableRow];
     if (target.task === 'classification') {

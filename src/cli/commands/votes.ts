@@ -1,9 +1,8 @@
 import { argmaxAt } from '../../core/metrics/scores';
-import { encodeTable, predictEncoded } from '../../core/forest/predict';
-import { loadForScoring } from '../../core/forest/score-file';
-import { dataRowOf } from '../../core/forest/summary';
+import { predictEncoded } from '../../core/forest/predict';
 import { loadModel } from '../../core/model/file';
-import { flag, list, parse, UsageError, type Options } from '../args';
+import { flag, parse, type Options } from '../args';
+import { chooseRows, wantedRows } from '../rows';
 
 export const VOTES_HELP = `Usage: copse votes MODEL.json DATA.csv --rows 1,7,12 [--json]
 
@@ -32,30 +31,17 @@ interface VoteRow {
 export async function runVotes(argv: string[]): Promise<void> {
   const args = parse('votes', argv, OPTIONS, 2);
   if (flag(args, 'help')) return void process.stdout.write(VOTES_HELP);
-  const wanted = list(args, 'rows').map((r) => {
-    const n = Number(r);
-    if (!Number.isInteger(n) || n < 1) throw new UsageError(`--rows takes data row numbers counted from 1; got "${r}".`, 'votes');
-    return n;
-  });
-  if (wanted.length === 0) throw new UsageError('copse votes needs --rows, such as --rows 1,7,12.', 'votes');
+  const wanted = wantedRows(args, 'votes');
   const [modelPath, dataPath] = args.positionals;
   const forest = await loadModel(modelPath);
-  const loaded = await loadForScoring(dataPath, forest.schema);
+  const { loaded, tableRows, x } = await chooseRows(forest, dataPath, wanted, 'votes');
   const table = loaded.table;
-  const index = new Map<number, number>();
-  for (let i = 0; i < table.rowCount; i++) index.set(dataRowOf(table, i), i);
-  const missing = wanted.filter((r) => !index.has(r));
-  if (missing.length) throw new UsageError(`${dataPath} has ${table.rowCount} data rows; there is no row ${missing.join(', ')}.`, 'votes');
-  const all = encodeTable(forest.schema, table, dataPath, loaded.header);
-  const p = forest.schema.features.length;
-  const x = new Float64Array(wanted.length * p);
-  wanted.forEach((r, j) => x.set(all.subarray(index.get(r)! * p, (index.get(r)! + 1) * p), j * p));
   const pred = predictEncoded(forest, x, wanted.length);
   const target = forest.schema.target;
   const T = forest.trees.length;
   const rows = wanted.map((r, j): VoteRow => {
     const treeVotes = Array.from({ length: T }, (_, t) => pred.votes[t * wanted.length + j]);
-    const line = table.lineOfRow[index.get(r)!];
+    const line = table.lineOfRow[tableRows[j]];
     if (target.task === 'classification') {
       const classes = target.classes!;
       const counts: Record<string, number> = Object.create(null);

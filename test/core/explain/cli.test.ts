@@ -44,9 +44,9 @@ describe('copse explain', function () {
         assert.ok(Math.abs(row.base[c] + sum(row.contributions[c]) - row.probabilities[c]) < 1e-9);
       }
       const same = scored.find((s: { row: number }) => s.row === row.row);
-      assert.equal(row.prediction, same['predicted species']);
+      assert.equal(row.prediction, same.predicted_species);
       // predict prints six significant digits.
-      assert.ok(Math.abs(row.probabilities.virginica - same['probability virginica']) < 1e-5);
+      assert.ok(Math.abs(row.probabilities.virginica - same.probability_virginica) < 1e-5);
     }
   });
 
@@ -58,7 +58,7 @@ describe('copse explain', function () {
     const scored = JSON.parse(copse('predict', diabetesModel, diabetes, '--json').stdout).predictions[2];
     assert.ok(Math.abs(row.base + sum(row.contributions) - row.prediction) < 1e-9);
     // predict prints six significant digits.
-    assert.ok(Math.abs(row.prediction - scored['predicted progression']) <= 1e-5 * row.prediction);
+    assert.ok(Math.abs(row.prediction - scored.predicted_progression) <= 1e-5 * row.prediction);
   });
 
   it('prints a readable table, largest contribution first, and folds the rest into one line with --top', () => {
