@@ -5,6 +5,7 @@ import { OverwriteError } from '../core/forest/score-file';
 import { ModelError } from '../core/model/file';
 import { UsageError } from './args';
 import { EXPLAIN_HELP, runExplain } from './commands/explain';
+import { EXPORT_HELP, runExport } from './commands/export';
 import { FIT_HELP, runFit } from './commands/fit';
 import { PREDICT_HELP, runPredict } from './commands/predict';
 import { runVotes, VOTES_HELP } from './commands/votes';
@@ -25,6 +26,7 @@ const COMMANDS: Record<string, { run: (argv: string[]) => Promise<void>; help: s
   predict: { run: runPredict, help: PREDICT_HELP },
   votes: { run: runVotes, help: VOTES_HELP },
   explain: { run: runExplain, help: EXPLAIN_HELP },
+  export: { run: runExport, help: EXPORT_HELP },
 };
 
 /** Errors that are about the user's input get one sentence; anything else is a bug and says so. */

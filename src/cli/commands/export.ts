@@ -1,0 +1,66 @@
+import { randomBytes } from 'node:crypto';
+import { promises as fs } from 'node:fs';
+import * as path from 'node:path';
+import { OverwriteError } from '../../core/forest/score-file';
+import { loadModel } from '../../core/model/file';
+import { exportOnnx } from '../../core/onnx/export';
+import { INPUT_NAME } from '../../core/onnx/metadata';
+import { flag, parse, UsageError, type Options } from '../args';
+
+export const EXPORT_HELP = `Usage: copse export MODEL.json OUT.onnx [--json]
+
+Writes a saved forest as an ONNX model (ai.onnx.ml TreeEnsembleClassifier or TreeEnsembleRegressor), for
+scoring with any ONNX runtime.
+
+The graph reads one float tensor "${INPUT_NAME}" [rows, features], one column per feature in the model's order:
+numeric values as they are; categorical and boolean features as the position of the level in the model's level
+list (0 for the first); NaN for a missing cell or an unknown level. Classification gives "label" (the class
+name) and "probabilities" [rows, classes]; regression gives "value" [rows, 1]. The file's metadata
+(copse.schema) lists the features, their levels and the classes.
+
+Options:
+  --json    print one JSON object: output path, operator, trees, nodes, bytes
+  --debug   show stack traces on errors
+`;
+
+const OPTIONS: Options = { json: { type: 'boolean' } };
+
+export async function runExport(argv: string[]): Promise<void> {
+  const args = parse('export', argv, OPTIONS, 2);
+  if (flag(args, 'help')) return void process.stdout.write(EXPORT_HELP);
+  const [modelPath, outPath] = args.positionals;
+  const [a, b] = await Promise.all([fs.realpath(modelPath).catch(() => path.resolve(modelPath)), fs.realpath(outPath).catch(() => path.resolve(outPath))]);
+  if (a === b) throw new OverwriteError(`Refusing to write the ONNX file over the model ${modelPath}; choose another output file.`);
+  if (/\.onnx$/i.test(modelPath)) throw new UsageError(`${modelPath} looks like an ONNX file already; copse export reads a Copse model (MODEL.json) and writes ONNX.`, 'export');
+  const forest = await loadModel(modelPath);
+  const bytes = exportOnnx(forest);
+  // A temporary file beside the target, renamed into place: a reader never sees half a file.
+  const tmp = `${outPath}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`;
+  try {
+    await fs.writeFile(tmp, bytes, { flag: 'wx' });
+    await fs.rename(tmp, outPath);
+  } catch (e) {
+    await fs.rm(tmp, { force: true });
+    throw e;
+  }
+  const classification = forest.schema.target.task === 'classification';
+  const summary = {
+    output: outPath,
+    operator: classification ? 'TreeEnsembleClassifier' : 'TreeEnsembleRegressor',
+    trees: forest.trees.length,
+    nodes: forest.trees.reduce((s, t) => s + t.nodeCount, 0),
+    bytes: bytes.length,
+    input: { name: INPUT_NAME, features: forest.schema.features.map((f) => f.name) },
+    outputs: classification ? ['label', 'probabilities'] : ['value'],
+  };
+  if (flag(args, 'json')) {
+    process.stdout.write(JSON.stringify(summary, null, 2) + '\n');
+    return;
+  }
+  const levelled = forest.schema.features.filter((f) => f.kind !== 'numeric').map((f) => `"${f.name}"`);
+  let out = `Wrote ${summary.trees} trees (${summary.nodes} nodes) to ${outPath} as an ONNX ${summary.operator}, ${(bytes.length / 1024).toFixed(0)} KiB.\n`;
+  out += `Input "${INPUT_NAME}": float [rows, ${forest.schema.features.length}], columns ${summary.input.features.map((f) => `"${f}"`).join(', ')}.\n`;
+  if (levelled.length) out += `Give ${levelled.join(', ')} as level codes: the level's position in the model's list (see the file's copse.schema metadata).\n`;
+  out += `Outputs: ${summary.outputs.map((o) => `"${o}"`).join(', ')}.\n`;
+  process.stdout.write(out);
+}
