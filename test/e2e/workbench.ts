@@ -11,9 +11,9 @@ import { answerDialog, Dialog, waitForDialog } from './harness/dialogs';
 import { BrowserElement } from './harness/dom';
 import { CodeServer, startCodeServer } from './harness/codeServer';
 import { hoverLine, HoverOptions, selectedText, selectLines, statusBarSelection, visibleLines } from './harness/editor';
-import { explorerContextMenu, openFromExplorer, pickContextMenu, revealInExplorer } from './harness/explorer';
+import { explorerContextMenu, explorerContextMenuLabels, openFromExplorer, pickContextMenu, revealInExplorer } from './harness/explorer';
 import { allNotifications, clickNotificationButton, Notification, notifications, waitForNotification } from './harness/notifications';
-import { answerInputBox, escapeRegExp, pickQuickItem, runCommand } from './harness/palette';
+import { answerFileDialog, answerInputBox, escapeRegExp, pickQuickItem, runCommand } from './harness/palette';
 import { artifactsDir, safeName } from './harness/paths';
 import { descendants, groupMembers, sleep } from './harness/processes';
 import { webview, webviewFrame, WebviewQuery } from './harness/webview';
@@ -158,6 +158,11 @@ export class Workbench {
     return answerInputBox(this.page, text);
   }
 
+  /** Types a path into the workbench's file dialog (what showSaveDialog/showOpenDialog open in the web) and accepts it. */
+  answerFileDialog(filePath: string): Promise<void> {
+    return answerFileDialog(this.page, filePath);
+  }
+
   /** Opens `relativePath` (from the opened folder) by clicking it in the explorer. */
   openFile(relativePath: string, options: { pin?: boolean } = {}): Promise<void> {
     return openFromExplorer(this.page, relativePath, options);
@@ -171,6 +176,11 @@ export class Workbench {
   /** Right-clicks an explorer item and picks a menu entry; more labels walk into submenus. */
   explorerContextMenu(relativePath: string, ...labels: string[]): Promise<void> {
     return explorerContextMenu(this.page, relativePath, ...labels);
+  }
+
+  /** The entries of an explorer item's context menu, read and closed again. */
+  explorerContextMenuLabels(relativePath: string): Promise<string[]> {
+    return explorerContextMenuLabels(this.page, relativePath);
   }
 
   /**
@@ -259,11 +269,25 @@ export class Workbench {
     return answerDialog(this.page, button);
   }
 
-  /** Reloads the window (a new extension host starts) and waits until it is ready again. */
-  async reload(timeoutMs?: number): Promise<void> {
+  /**
+   * Reloads the window the way a person does, with Developer: Reload Window,
+   * and waits until it is ready again (a new extension host starts). That
+   * command has the workbench write its state (open editors, webview panels
+   * and their saved state) to storage before the page goes. `browser: true`
+   * reloads the page instead, as F5 in the browser would: the web workbench
+   * writes that state to IndexedDB asynchronously and unloading does not wait,
+   * so editors opened in the last seconds may not come back.
+   */
+  async reload(options: { browser?: boolean; timeoutMs?: number } = {}): Promise<void> {
     this.expectedExtensionHosts = this.server.extensionHostLogs().length + 1;
-    await this.page.reload();
-    await this.waitForReady(timeoutMs);
+    if (options.browser) {
+      await this.page.reload();
+    } else {
+      const loaded = this.page.waitForEvent('load', { timeout: options.timeoutMs ?? 120_000 });
+      await this.runCommand('Developer: Reload Window');
+      await loaded;
+    }
+    await this.waitForReady(options.timeoutMs);
   }
 
   /** Saves a PNG of the window into the artifacts folder and returns its path. */
@@ -286,6 +310,13 @@ export class Workbench {
     this.closed = true;
     const errors: unknown[] = [];
     await this.browser.close().catch((error) => errors.push(error));
+    // The server's logs (each extension host's, and every extension's output
+    // channel) go with the temporary user-data folder; keep them for reading.
+    try {
+      fs.cpSync(path.join(this.server.userDataDir, 'logs'), path.join(this.artifacts, 'server-logs'), { recursive: true });
+    } catch {
+      // no logs written yet
+    }
     await this.server.stop().catch((error) => errors.push(error));
     if (errors.length > 0) throw errors[0];
   }

@@ -65,6 +65,18 @@ export async function explorerContextMenu(page: Page, relativePath: string, ...l
   await pickContextMenu(page, labels);
 }
 
+/** The labels of an explorer row's context menu (closed again without picking one). */
+export async function explorerContextMenuLabels(page: Page, relativePath: string, timeoutMs = 10_000): Promise<string[]> {
+  const row = await revealInExplorer(page, relativePath);
+  await row.click({ button: 'right' });
+  const menu = page.locator('.context-view.monaco-menu-container .monaco-menu').first();
+  await menu.locator('.action-menu-item').first().waitFor({ state: 'visible', timeout: timeoutMs });
+  const labels = (await menu.locator('.action-menu-item .action-label').allInnerTexts()).map((l) => l.trim());
+  await page.keyboard.press('Escape');
+  await page.locator('.context-view.monaco-menu-container').filter({ visible: true }).first().waitFor({ state: 'hidden', timeout: timeoutMs });
+  return labels;
+}
+
 export async function pickContextMenu(page: Page, labels: string[], timeoutMs = 10_000): Promise<void> {
   // Each submenu opens as one more .monaco-menu; the newest is the last one.
   for (const [level, label] of labels.entries()) {

@@ -1,5 +1,6 @@
 import { Locator, Page } from 'playwright-core';
 import { BrowserElement } from './dom';
+import { sleep } from './processes';
 
 const WIDGET = '.quick-input-widget';
 
@@ -54,6 +55,40 @@ export async function answerInputBox(page: Page, text: string, timeoutMs = 15_00
   await input.waitFor({ state: 'visible', timeout: timeoutMs });
   await input.fill(text);
   await page.keyboard.press('Enter');
+}
+
+/**
+ * Answers the workbench's own file dialog (the web workbench has no native
+ * one: showSaveDialog / showOpenDialog become a quick input holding a path).
+ * That dialog opens on the folder and fills in the suggested name a moment
+ * later, overwriting anything typed before; it also re-reads the folder as the
+ * path changes and ignores an Enter that comes before it has caught up. So:
+ * wait for its own value to settle, type, check the path stuck, and repeat
+ * Enter until the dialog closes.
+ */
+export async function answerFileDialog(page: Page, filePath: string, timeoutMs = 15_000): Promise<void> {
+  const widget = page.locator(WIDGET);
+  const input = widget.locator('.quick-input-box input');
+  await input.waitFor({ state: 'visible', timeout: timeoutMs });
+  const deadline = Date.now() + timeoutMs;
+  let last = await input.inputValue();
+  let stableSince = Date.now();
+  while (Date.now() - stableSince < 500) {
+    await sleep(50);
+    const now = await input.inputValue();
+    if (now !== last) [last, stableSince] = [now, Date.now()];
+    if (Date.now() > deadline) throw new Error('the file dialog kept changing its path');
+  }
+  for (;;) {
+    if ((await input.inputValue()) !== filePath) await input.fill(filePath);
+    await sleep(300);
+    if ((await input.inputValue()) === filePath) {
+      await page.keyboard.press('Enter');
+      const closed = await widget.waitFor({ state: 'hidden', timeout: 2_000 }).then(() => true, () => false);
+      if (closed) return;
+    }
+    if (Date.now() > deadline) throw new Error(`the file dialog did not accept ${filePath} (it shows ${await input.inputValue().catch(() => '?')})`);
+  }
 }
 
 function exactRow(widget: Locator, label: string): Locator {
