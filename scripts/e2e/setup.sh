@@ -10,7 +10,17 @@
 #   COPSE_E2E_CACHE  where the workbench is cached (default ~/.cache/copse-e2e);
 #                    kept outside the repo so a fresh work tree reuses it.
 #   COPSE_E2E_FORCE=1  reinstall even when the stamp says it is done.
+# Options:
+#   --no-browser     skip Chromium: for scripts/demo.sh, whose user brings a browser.
 set -euo pipefail
+
+want_browser=true
+for arg in "$@"; do
+  case "$arg" in
+    --no-browser) want_browser=false ;;
+    *) printf 'e2e-setup: unknown option %s\n' "$arg" >&2; exit 2 ;;
+  esac
+done
 
 # 4.100.3 is the last code-server line that runs on Node 20; later ones need
 # Node 22/24. It bundles the VS Code 1.100 workbench that package.json targets.
@@ -73,6 +83,7 @@ check_requirements() {
   for entry in "${requirements[@]}"; do
     IFS='|' read -r when pkg file why <<<"$entry"
     if [ "$when" = build ] && [ "$installed" = true ]; then continue; fi
+    if [ "$pkg" = chromium ] && [ "$want_browser" = false ]; then continue; fi
     if [ ! -e "$file" ]; then
       missing_pkgs+=("$pkg")
       missing_lines+=("  $pkg (no $file): $why")
