@@ -22,4 +22,8 @@ rm -f "$tsc_log"
 if [ $# -eq 0 ]; then set -- out/test/e2e/*.e2e.js; fi
 # --no-config: mocha merges .mocharc.json's spec (all unit tests) with the
 # files named here, so the config is left out.
-exec npx mocha --no-config --reporter spec --timeout 300000 "$@"
+started=$(date +%s)
+status=0
+npx mocha --no-config --reporter spec --timeout 300000 "$@" || status=$?
+echo "e2e: mocha took $(( $(date +%s) - started )) s (exit $status)"
+exit "$status"

@@ -64,7 +64,9 @@ describe('npm run demo (scripts/demo.sh) with the bundled workbench', function (
     browser = await launchChromium({ width: 1280, height: 800 });
     const page = browser.context.pages()[0] ?? (await browser.context.newPage());
     await page.goto(address[1]);
-    await revealInExplorer(page, 'kite-flights.csv', 90_000);
+    // The explorer of a fresh profile is open; its first row means the workbench has loaded the folder.
+    await page.locator('.explorer-folders-view .monaco-list-row').first().waitFor({ state: 'visible', timeout: 90_000 });
+    await revealInExplorer(page, 'kite-flights.csv');
     await runCommand(page, 'Extensions: Show Enabled Extensions', 30_000);
     const copse = page.locator('.extensions-viewlet .monaco-list-row[aria-label^="Copse, "]');
     await copse.waitFor({ timeout: 30_000 });
