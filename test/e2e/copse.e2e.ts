@@ -151,7 +151,7 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
     // Switch the feature across, through the picker as a person does.
     const panel = wb!.webview({ extensionId: EXTENSION_ID });
     const picker = panel.locator('[data-testid=region-x]');
-    const next = before.y === 'sail' ? 'frame' : 'sail';
+    const next = ['sail', 'frame', 'tail_ribbons'].find((f) => f !== before.x && f !== before.y)!;
     await picker.click();
     await picker.locator('li[role=option]', { hasText: new RegExp(`^\\s*${next}\\s*$`) }).click();
     const deadline = Date.now() + 60_000;
