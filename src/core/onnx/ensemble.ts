@@ -57,6 +57,7 @@ export interface Ensemble {
   /** Largest feature index used, plus one. */
   readonly featuresUsed: number;
   readonly ignored: readonly string[];
+  readonly notes: readonly string[];
 }
 
 function checkCount(fail: Fail, what: string, n: number, max: number): void {
@@ -117,11 +118,15 @@ export function readLegacy(attrs: Attributes, classifier: boolean, fail: Fail, w
     if (!(node >= 0 && node < sizes[t])) fail(`${what} names node ${node} of tree ${tree}, whose node ids run 0 to ${sizes[t] - 1}`);
     return offset[t] + node;
   };
+  const firstListed = new Int32Array(sorted.length).fill(-1);
   for (let i = 0; i < n; i++) {
     const u = position(treeIds[i], nodeIds[i], `node entry ${i}`);
     if (at[u] >= 0) fail(`tree ${treeIds[i]} lists node ${nodeIds[i]} twice`);
     at[u] = i;
+    const t = treeIndex.get(treeIds[i])!;
+    if (firstListed[t] < 0) firstListed[t] = nodeIds[i];
   }
+  const otherStart = sorted.filter((_, t) => firstListed[t] !== 0);
 
   const mode = new Uint8Array(n);
   const feature = new Int32Array(n);
@@ -222,6 +227,9 @@ export function readLegacy(attrs: Attributes, classifier: boolean, fail: Fail, w
     base,
     featuresUsed,
     ignored: attrs.unused(),
+    notes: otherStart.length
+      ? [`${otherStart.length === 1 ? 'Tree' : 'Trees'} ${otherStart.slice(0, 5).join(', ')}${otherStart.length > 5 ? ', ...' : ''} list another node before node 0; Copse starts each tree at node 0, as the operator's numbering implies, while onnxruntime starts at the first node listed.`]
+      : [],
   };
 }
 
@@ -358,6 +366,7 @@ export function readTreeEnsemble(attrs: Attributes, fail: Fail, where: string, l
     base: new Float64Array(outputs),
     featuresUsed,
     ignored: attrs.unused(),
+    notes: [],
   };
 }
 

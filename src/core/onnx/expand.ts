@@ -141,6 +141,12 @@ export function expandTree(ctx: ExpandContext, root: number): FlatTree {
       }
       continue;
     }
+    // Both branches to one node (as a Copse export's pass-through nodes): nothing to decide, so no split.
+    if (e.trueNext[u] === e.falseNext[u]) {
+      if (--ctx.steps < 0) ctx.fail('its chains of pass-through nodes are too long or too often shared to convert');
+      work.push({ kind: 'node', node: e.trueNext[u], slot });
+      continue;
+    }
     const f = e.feature[u];
     const v = e.split[u];
     const levels = ctx.levels[f];

@@ -15,6 +15,7 @@ const OPSET = 13;
 const ML_OPSET = 3;
 /** Protocol buffers cannot hold a message of 2 GiB or more. */
 const MAX_BYTES = 2 ** 31 - 1;
+const F32_MAX = 3.4028234663852886e38;
 
 const utf8 = new TextEncoder();
 const LEAF = utf8.encode('LEAF');
@@ -172,13 +173,21 @@ function addTree(lists: EnsembleLists, tree: FlatTree, t: number, counts: Int32A
     }
     // No level on the other side: one test no code passes (-1) sends everything to the missing side.
     if (chain.length === 0) chain.push(-1);
+    // onnxruntime 1.30 merges an EQ node with an EQ node on the same feature in its false branch into one set
+    // test even when their true branches differ (ensembles of more than one output). When the missing side
+    // splits on this feature again, a pass-through node (every value, NaN included, to the same child) keeps
+    // the two chains apart.
+    const passThrough = left[missingSide] >= 0 && feature[missingSide] === f;
+    const exit = passThrough ? nextId++ : missingSide;
     let id = i;
     for (let j = 0; j < chain.length; j++) {
       const last = j === chain.length - 1;
-      const next = last ? missingSide : nextId++;
+      const next = last ? exit : nextId++;
       lists.node(t, id, EQ, f, chain[j], otherSide, next, 0, c);
       id = next;
     }
+    // Listed after the chain: onnxruntime takes the first node it meets of each tree as the root.
+    if (passThrough) lists.node(t, exit, LEQ, f, F32_MAX, missingSide, missingSide, 1, cover[missingSide]);
   }
 }
 

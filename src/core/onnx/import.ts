@@ -65,12 +65,12 @@ export function readOnnx(bytes: Uint8Array, label = 'the ONNX file', options: Im
   const op = node.op_type as Ensemble['operator'];
   if (op === 'TreeEnsemble' && mlOpset < 5) fail(`it uses TreeEnsemble, which ai.onnx.ml operator set ${mlOpset} does not have (it arrived in set 5)`);
 
-  const notes: string[] = [];
   const input = checkInput(graph, node, fail);
   const where = `its ${op} node`;
   const attrs = new Attributes(node, fail, where);
   const ensemble = op === 'TreeEnsemble' ? readTreeEnsemble(attrs, fail, where, limits) : readLegacy(attrs, op === 'TreeEnsembleClassifier', fail, where, limits);
   checkAcyclic(ensemble, fail);
+  const notes: string[] = [...ensemble.notes];
   if (ensemble.ignored.length) notes.push(`Attributes Copse does not read were ignored: ${ensemble.ignored.join(', ')}.`);
   const meta = readMetadata(model, fail);
   const others = (graph.node ?? []).filter((n) => n !== node).map((n) => n.op_type ?? '?');

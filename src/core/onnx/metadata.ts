@@ -40,8 +40,10 @@ export function exportMetadata(forest: Forest): Array<{ key: string; value: stri
       META.levelSplits,
       'BRANCH_EQ chains: a split on a categorical or boolean feature is a chain of BRANCH_EQ nodes, one per level code on the ' +
         'side of the split that missing values do not take, each sending its level to that side; the last node of the chain ' +
-        'sends everything else (other codes and NaN) to the side missing values take. Chain nodes after the first are shared ' +
-        'targets of the chain, so a node can have several parents.',
+        'sends everything else (other codes and NaN) to the side missing values take. The node a chain leads to is shared by ' +
+        'its links, so a node can have several parents. Where that missing side splits on the same feature again, the chain ' +
+        'ends in a BRANCH_LEQ node whose two branches are the same node, so runtimes that merge runs of BRANCH_EQ nodes keep ' +
+        'the two splits apart.',
     ],
     [
       META.missing,
