@@ -2,8 +2,8 @@
 'use strict';
 // Bundles what the extension package ships, with esbuild:
 //   dist/extension.js      the extension host client (vscode stays external: the workbench provides it)
-//   dist/<name>-worker.js  every worker entry in src/core, next to the bundles that start them, because
-//                          core loads path.join(__dirname, '<name>-worker.js') at run time
+//   dist/<name>-worker.js  every worker entry in src/core and src/extension/workers, next to the bundles that
+//                          start them, because each loads path.join(__dirname, '<name>-worker.js') at run time
 //   dist/cli.js            the command line, when src/cli/main.ts exists (run as `node dist/cli.js`)
 //   dist/icon.png          the marketplace icon, drawn here so no binary lives in git
 //   media/panel.js/.css    the webview, via webview/build.js
@@ -18,7 +18,10 @@ const esbuild = require('esbuild');
 const root = path.resolve(__dirname, '..');
 const defaultDist = path.join(root, 'dist');
 
-/** Every `*-worker.ts` under src/core, so a worker core adds later is bundled without editing this file. */
+/**
+ * Every `*-worker.ts` under src/core and src/extension/workers (the editor's own explanation thread), so a
+ * worker added later is bundled without editing this file.
+ */
 function workerEntries() {
   const found = [];
   const walk = (dir) => {
@@ -29,6 +32,8 @@ function workerEntries() {
     }
   };
   walk(path.join(root, 'src', 'core'));
+  const editorWorkers = path.join(root, 'src', 'extension', 'workers');
+  if (fs.existsSync(editorWorkers)) walk(editorWorkers);
   return found.sort();
 }
 

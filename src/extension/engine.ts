@@ -21,3 +21,20 @@ export { encodeTable, SchemaMismatchError } from '../core/forest/predict';
 export { Scorer } from '../core/forest/scorer';
 export { saveModel, loadModel } from '../core/model/file';
 export { predictionColumns, writePredictions } from '../core/forest/score-file';
+// Explanations. The slow ones (contributions, dependence, intervals) run in src/extension/workers.
+export {
+  ContributionExplainer,
+  meanAbsoluteContributions,
+  partialDependence,
+  partialDependence2D,
+  predictInterval,
+  quantileIndexFromFit,
+  quantileIndexFromTrainingTable,
+  sweepFeaturesPerSplit,
+  TrainingMismatchError,
+  type Contributions,
+  type FeaturesSweep,
+  type PartialDependence,
+  type QuantileIndex,
+} from '../core/explain/index';
+export { shuffle, stream } from '../core/forest/rng';

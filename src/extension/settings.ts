@@ -48,11 +48,17 @@ export interface EditorSettings {
   readonly suspectLimit: number;
 }
 
+export interface ExplainSettings {
+  /** Share of the conditional distribution a regression prediction interval holds, strictly between 0 and 1. */
+  readonly intervalLevel: number;
+}
+
 export interface CopseSettings {
   readonly training: TrainingSettings;
   readonly data: DataSettings;
   readonly panel: PanelSettings;
   readonly editor: EditorSettings;
+  readonly explain: ExplainSettings;
 }
 
 /** Defaults, keyed exactly as in package.json (without the `copse.` prefix). */
@@ -79,6 +85,7 @@ export const SETTING_DEFAULTS = {
   'editor.hover': true,
   'editor.markSuspects': true,
   'editor.suspectLimit': 200,
+  'explain.intervalLevel': 0.9,
 } as const;
 
 export type SettingKey = keyof typeof SETTING_DEFAULTS;
@@ -178,6 +185,9 @@ export function readSettings(source: ConfigSource): SettingsRead {
         hover: bool('editor.hover'),
         markSuspects: bool('editor.markSuspects'),
         suspectLimit: int('editor.suspectLimit', 0, 100000),
+      },
+      explain: {
+        intervalLevel: num('explain.intervalLevel', 0, 1, true, true),
       },
     },
     problems,

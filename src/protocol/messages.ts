@@ -195,6 +195,15 @@ export interface RowVotes {
   votes: number[];
   /** Indices of the trees for which this row was out-of-bag (empty if not a training row). */
   outOfBag: number[];
+  /** Regression: the central prediction interval at `level` (quantile regression forest); absent otherwise. */
+  interval?: PredictionInterval;
+}
+
+export interface PredictionInterval {
+  /** Share of the conditional distribution inside, e.g. 0.9. */
+  level: number;
+  lower: number;
+  upper: number;
 }
 
 export interface SuspectRow {
@@ -203,6 +212,84 @@ export interface SuspectRow {
   margin: number;
   label: number;
   oobPredicted: number;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Explanations
+
+/** One feature's share of one row's prediction. */
+export interface FeatureContribution {
+  feature: string;
+  /** The row's value of the feature, as text to show ("(missing)" when missing). */
+  value: string;
+  /** Signed: what knowing this feature's value moved the prediction by. */
+  contribution: number;
+}
+
+/** Exact per-feature contributions to one row's prediction: base + sum of contributions = prediction. */
+export interface RowContributions {
+  row: number;
+  /** The class whose probability is explained (the predicted one), or null for a regression value. */
+  output: number | null;
+  /** The forest's expected output when no feature is known. */
+  base: number;
+  prediction: number;
+  /** Every feature, in the forest's feature order. */
+  features: FeatureContribution[];
+}
+
+/** The global view: mean absolute contribution per feature over a sample of rows, summed over classes. */
+export interface GlobalContributions {
+  /** Rows averaged over so far. */
+  rows: number;
+  /** Rows the sample will hold when finished. */
+  planned: number;
+  done: boolean;
+  features: { feature: string; meanAbs: number }[];
+}
+
+/** One-feature partial dependence with the individual curves it averages and where the data lie. */
+export interface Dependence {
+  feature: string;
+  kind: FeatureKind;
+  /** Numeric: grid values, increasing. Level features: the level codes 0..L-1. */
+  grid: number[];
+  /** Level names (one per grid point), or null for a numeric feature. */
+  labels: string[] | null;
+  /** The class whose probability is shown, or null for a regression value. */
+  output: number | null;
+  /** Mean of the curves at each grid point. */
+  average: number[];
+  /** One curve per sampled row, each grid.length long. */
+  ice: number[][];
+  /** Data rows the curves belong to. */
+  iceRows: number[];
+  /** Training rows whose value falls in each grid point's cell (see boundaries). */
+  counts: number[];
+  /** Numeric: the grid.length - 1 cell edges between neighbouring points; [] for levels. */
+  boundaries: number[];
+  /** Training rows with the feature missing. */
+  missing: number;
+}
+
+export interface SweepPointSummary {
+  featuresPerSplit: number;
+  /** Out-of-bag misclassification rate or mean squared error. */
+  oobError: number;
+  /** Out-of-bag accuracy or R², for reading beside the error. */
+  oobScore: number;
+  seconds: number;
+}
+
+export interface SweepSummary {
+  task: TaskKind;
+  features: number;
+  /** The count the fit's setting resolves to. */
+  defaultCount: number;
+  points: SweepPointSummary[];
+  best: number;
+  /** The count the forest now shown was fitted with, when it was fitted on the same data and settings. */
+  current: number | null;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -217,14 +304,25 @@ export type HostToPanel =
   | { type: 'disagreement'; rows: RowVotes[] }
   | { type: 'suspects'; rows: SuspectRow[] }
   | { type: 'highlight'; rows: number[] }
-  | { type: 'status'; state: 'idle' | 'working' | 'error'; text: string; progress: number | null };
+  | { type: 'status'; state: 'idle' | 'working' | 'error'; text: string; progress: number | null }
+  /** The selected (or asked-for) row's contributions; `text` says why there are none yet. */
+  | { type: 'contributions'; row: number | null; state: 'working' | 'ready' | 'unavailable'; contributions: RowContributions | null; text: string }
+  | { type: 'globalContributions'; global: GlobalContributions | null; text: string }
+  | { type: 'dependence'; dependence: Dependence }
+  | { type: 'sweep'; state: 'running' | 'done' | 'cancelled' | 'error'; progress: number | null; text: string; result: SweepSummary | null };
 
 export type PanelToHost =
   | { type: 'ready'; version: number }
   | { type: 'chooseMap'; x: string; y: string; reference: ReferenceChoice }
   | { type: 'openMap'; x: string; y: string }
   | { type: 'revealRow'; row: number }
-  | { type: 'refit'; leaveOut: string[]; trees: number | null };
+  | { type: 'refit'; leaveOut: string[]; trees: number | null }
+  | { type: 'explainRow'; row: number }
+  /** output: the class to show for classification (null: let the host choose), null for regression. */
+  | { type: 'chooseDependence'; feature: string; output: number | null }
+  | { type: 'runSweep' }
+  | { type: 'cancelSweep' }
+  | { type: 'sweepRefit'; featuresPerSplit: number };
 
 /** What the panel keeps in getState/setState; the host's serializer may read `dataset` from it. */
 export interface PanelState {
@@ -362,9 +460,14 @@ export function isRegionMap(v: unknown): v is RegionMap {
   );
 }
 
+function isInterval(v: unknown): v is PredictionInterval {
+  return isObj(v) && isNum(v.level) && v.level > 0 && v.level < 1 && isNum(v.lower) && isNum(v.upper) && v.lower <= v.upper;
+}
+
 function isRowVotes(v: unknown): v is RowVotes {
   return (
     isObj(v) &&
+    (v.interval === undefined || isInterval(v.interval)) &&
     isRow(v.row) &&
     isNumArr(v.counts) &&
     isNum(v.agreement) &&
@@ -378,6 +481,59 @@ function isRowVotes(v: unknown): v is RowVotes {
 
 function isSuspect(v: unknown): v is SuspectRow {
   return isObj(v) && isRow(v.row) && isNum(v.margin) && isNum(v.label) && isNum(v.oobPredicted);
+}
+
+function isRowContributions(v: unknown): v is RowContributions {
+  return (
+    isObj(v) &&
+    isRow(v.row) &&
+    (v.output === null || (isInt(v.output) && (v.output as number) >= 0)) &&
+    isNum(v.base) &&
+    isNum(v.prediction) &&
+    isArr(v.features, (f) => isObj(f) && isStr(f.feature) && isStr(f.value) && isNum(f.contribution))
+  );
+}
+
+function isGlobalContributions(v: unknown): v is GlobalContributions {
+  return (
+    isObj(v) &&
+    isInt(v.rows) &&
+    isInt(v.planned) &&
+    typeof v.done === 'boolean' &&
+    isArr(v.features, (f) => isObj(f) && isStr(f.feature) && isNum(f.meanAbs) && (f.meanAbs as number) >= 0)
+  );
+}
+
+export function isDependence(v: unknown): v is Dependence {
+  if (!isObj(v) || !isStr(v.feature) || !isFeatureKind(v.kind) || !isNumArr(v.grid) || !isNumArr(v.average) || !isInt(v.missing)) return false;
+  const G = v.grid.length;
+  if (G === 0 || v.average.length !== G) return false;
+  if (v.kind === 'numeric' ? v.labels !== null : !(isStrArr(v.labels) && v.labels.length === G)) return false;
+  // A numeric axis must rise, or the curve and the cells under it would not line up.
+  if (v.kind === 'numeric') for (let g = 1; g < G; g++) if (!(v.grid[g] > v.grid[g - 1])) return false;
+  return (
+    (v.output === null || (isInt(v.output) && (v.output as number) >= 0)) &&
+    isArr(v.ice, (c) => isNumArr(c) && c.length === G) &&
+    isArr(v.iceRows, isRow) &&
+    (v.iceRows as number[]).length === (v.ice as unknown[]).length &&
+    isArr(v.counts, isInt) &&
+    (v.counts as number[]).length === G &&
+    isNumArr(v.boundaries) &&
+    v.boundaries.length === (v.kind === 'numeric' ? G - 1 : 0)
+  );
+}
+
+function isSweepSummary(v: unknown): v is SweepSummary {
+  return (
+    isObj(v) &&
+    isTask(v.task) &&
+    isInt(v.features) &&
+    isInt(v.defaultCount) &&
+    isArr(v.points, (q) => isObj(q) && isInt(q.featuresPerSplit) && (q.featuresPerSplit as number) >= 1 && isNum(q.oobError) && isNum(q.oobScore) && isNum(q.seconds)) &&
+    (v.points as unknown[]).length > 0 &&
+    isInt(v.best) &&
+    (v.current === null || isInt(v.current))
+  );
 }
 
 export function isHostToPanel(v: unknown): v is HostToPanel {
@@ -397,6 +553,21 @@ export function isHostToPanel(v: unknown): v is HostToPanel {
       return isArr(v.rows, isRow);
     case 'status':
       return (v.state === 'idle' || v.state === 'working' || v.state === 'error') && isStr(v.text) && isNumOrNull(v.progress);
+    case 'contributions':
+      if (!isStr(v.text) || !(v.row === null || isRow(v.row))) return false;
+      if (v.state === 'ready') return isRowContributions(v.contributions) && v.contributions.row === v.row;
+      return (v.state === 'working' || v.state === 'unavailable') && v.contributions === null;
+    case 'globalContributions':
+      return isStr(v.text) && (v.global === null || isGlobalContributions(v.global));
+    case 'dependence':
+      return isDependence(v.dependence);
+    case 'sweep':
+      return (
+        (v.state === 'running' || v.state === 'done' || v.state === 'cancelled' || v.state === 'error') &&
+        isStr(v.text) &&
+        isNumOrNull(v.progress) &&
+        (v.state === 'done' ? isSweepSummary(v.result) : v.result === null || isSweepSummary(v.result))
+      );
     default:
       return false;
   }
@@ -415,6 +586,15 @@ export function isPanelToHost(v: unknown): v is PanelToHost {
       return isRow(v.row);
     case 'refit':
       return isStrArr(v.leaveOut) && (v.trees === null || (isInt(v.trees) && v.trees >= 1));
+    case 'explainRow':
+      return isRow(v.row);
+    case 'chooseDependence':
+      return isStr(v.feature) && (v.output === null || (isInt(v.output) && (v.output as number) >= 0));
+    case 'runSweep':
+    case 'cancelSweep':
+      return true;
+    case 'sweepRefit':
+      return isInt(v.featuresPerSplit) && (v.featuresPerSplit as number) >= 1;
     default:
       return false;
   }

@@ -7,6 +7,10 @@ import * as fs from 'node:fs';
 import * as os from 'node:os';
 import * as path from 'node:path';
 import { builtinModules } from 'node:module';
+import { Worker } from 'node:worker_threads';
+import { loadCsv } from '../../src/core/csv/load';
+import { fitForest } from '../../src/core/forest/fit';
+import { encodeTable } from '../../src/core/forest/predict';
 
 const root = path.resolve(__dirname, '..', '..', '..');
 // eslint-disable-next-line @typescript-eslint/no-require-imports
@@ -25,10 +29,30 @@ describe('extension bundles', function () {
   });
   after(() => fs.rmSync(out, { recursive: true, force: true }));
 
-  it('emits a bundle for every *-worker.ts in src/core', () => {
+  it('emits a bundle for every *-worker.ts in src/core and src/extension/workers', () => {
     const workers = builder.workerEntries().map((w) => path.basename(w, '.ts') + '.js');
-    assert.ok(workers.includes('forest-worker.js') && workers.includes('score-worker.js'));
+    assert.ok(workers.includes('forest-worker.js') && workers.includes('score-worker.js') && workers.includes('explain-worker.js'));
     for (const w of workers) assert.ok(fs.existsSync(path.join(out, w)), w);
+  });
+
+  it('runs the bundled explanation thread as the extension starts it', async () => {
+    const load = await loadCsv(path.join(root, 'test', 'fixtures', 'open', 'iris.csv'));
+    const { forest } = await fitForest(load.table, { target: 'species', params: { trees: 5, seed: 1 }, workers: 1 });
+    const x = encodeTable(forest.schema, load.table);
+    const worker = new Worker(path.join(out, 'explain-worker.js'));
+    try {
+      worker.postMessage({ setup: { forest, trainX: x, trainCount: 150, quantiles: null } });
+      worker.postMessage({ id: 7, request: { kind: 'contributions', x: x.slice(0, 4), rows: 1 } });
+      const reply = await new Promise<{ id: number; ok: boolean; result: { values: Float64Array } }>((resolve, reject) => {
+        worker.once('message', resolve);
+        worker.once('error', reject);
+      });
+      assert.equal(reply.id, 7);
+      assert.equal(reply.ok, true);
+      assert.equal(reply.result.values.length, 4 * 3);
+    } finally {
+      await worker.terminate();
+    }
   });
 
   it('keeps vscode external and requires nothing else outside Node', () => {

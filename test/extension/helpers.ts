@@ -6,6 +6,7 @@ import { Scorer } from '../../src/core/forest/scorer';
 import type { FitReport } from '../../src/core/forest/fit';
 import type { LoadResult } from '../../src/core/csv/types';
 import { ForestSession } from '../../src/extension/session/session';
+import { ExplainClient } from '../../src/extension/workers/explainClient';
 import { buildSummary } from '../../src/extension/summary/summary';
 import { readFileSync } from 'node:fs';
 
@@ -18,7 +19,12 @@ export interface Fitted {
   session: ForestSession;
 }
 
-export async function fitFixture(file: string, target: string, params: { trees: number; seed: number }, extra: { holdout?: number } = {}): Promise<Fitted> {
+export async function fitFixture(
+  file: string,
+  target: string,
+  params: { trees: number; seed: number; minLeaf?: number },
+  extra: { holdout?: number; intervalLevel?: number } = {},
+): Promise<Fitted> {
   const load = await loadCsv(file);
   const report = await fitForest(load.table, { target, params, workers: 2, holdout: extra.holdout });
   const summary = buildSummary({
@@ -37,6 +43,9 @@ export async function fitFixture(file: string, target: string, params: { trees: 
     oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag: report.rows.inBag, margin: report.rows.margin },
     summary,
     scorer: new Scorer(report.forest),
+    explainer: (setup) => new ExplainClient(setup),
+    quantiles: { from: 'fit', report },
+    intervalLevel: extra.intervalLevel,
   });
   return { file, load, report, session };
 }

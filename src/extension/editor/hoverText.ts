@@ -106,6 +106,51 @@ function regression(a: RowAnswer, ctx: HoverContext, out: string[]): void {
   out.push('', `Agreement: ${formatShare(a.agreement)} of trees${within}`);
 }
 
+export interface HoverContributions {
+  /** The class whose probability is explained, or undefined for a regression value. */
+  readonly className?: string;
+  readonly target: string;
+  readonly base: number;
+  readonly prediction: number;
+  /** Largest in size first. */
+  readonly top: ReadonlyArray<{ readonly feature: string; readonly contribution: number }>;
+  /** Features not listed, and what their contributions add up to. */
+  readonly others: number;
+  readonly rest: number;
+}
+
+/** The hover's explanation part: the three (or so) features that moved this row's prediction most. */
+export function contributionsMarkdown(c: HoverContributions): string {
+  const what = c.className !== undefined ? `the probability of ${escapeMd(c.className)}` : `the predicted ${escapeMd(c.target)}`;
+  const list = c.top.map((t) => `${escapeMd(t.feature)} ${formatContribution(t.contribution)}`).join(' · ');
+  const tail = c.others > 0 ? ` · ${c.others} other${c.others === 1 ? '' : 's'} ${formatContribution(c.rest)}` : '';
+  return (
+    `**Largest contributions** to ${what} (from ${formatNumber(c.base)} on average to ${formatNumber(c.prediction)} here): ${list}${tail}\n\n` +
+    'Each is what knowing that feature moves this prediction by (exact Shapley values of the trees).'
+  );
+}
+
+/** The hover's interval part for a regression row. */
+export function intervalMarkdown(level: number, lower: number, upper: number, target: string): string {
+  return (
+    `**${formatLevel(level)} prediction interval** for ${escapeMd(target)}: ${formatNumber(lower)} to ${formatNumber(upper)}\n\n` +
+    'The middle of the training values that share this row\'s leaves, pooled over the trees (a quantile regression forest).'
+  );
+}
+
+/** A contribution, signed, to about two significant digits: enough to rank and compare in a hover. */
+export function formatContribution(v: number): string {
+  if (!Number.isFinite(v)) return formatNumber(v);
+  const a = Math.abs(v);
+  const s = a >= 10 ? String(Math.round(a)) : a === 0 ? '0' : String(Number(a.toPrecision(2)));
+  return v < 0 && s !== '0' ? `\u2212${s}` : `+${s}`;
+}
+
+/** 0.9 → "90%", 0.95 → "95%", 0.975 → "97.5%". */
+export function formatLevel(level: number): string {
+  return `${Number((level * 100).toFixed(1))}%`;
+}
+
 function formatSigned(v: number): string {
   const s = formatNumber(Math.abs(v));
   return v < 0 ? `\u2212${s}` : `+${s}`;

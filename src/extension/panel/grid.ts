@@ -2,9 +2,9 @@
 // Pure: the caller scores the batches (with core's Scorer, in a worker) and feeds predictions back.
 //
 // Two features vary over the grid; the others are held at one reference row ('typical' = training medians
-// and most frequent levels, or a chosen row), or averaged over a sample of rows. The averaged form is the
-// two-variable partial dependence of Friedman (2001), "Greedy function approximation: a gradient boosting
-// machine", Annals of Statistics 29(5), section 8.2: the mean prediction over rows with x_S set to the grid point.
+// and most frequent levels, or a chosen row). Maps averaged over rows (two-feature partial dependence) come
+// from core's partialDependence2D instead, which never scores the grid row by row; both end in
+// cellsFromAverages, so the two kinds of map read their cells the same way.
 
 import type { MapAxis, RegionCells } from '../../protocol/messages';
 import { cellCentre } from '../../protocol/messages';
@@ -126,25 +126,30 @@ export class GridAccumulator {
 
   finish(): RegionCells {
     const n = this.copies || 1;
-    if (this.task === 'regression') return { task: 'regression', value: Array.from(this.sums, (s) => s / n) };
-    const K = this.classes;
-    const predicted = new Array<number>(this.cells);
-    const strength = new Array<number>(this.cells);
-    for (let c = 0; c < this.cells; c++) {
-      let best = -1;
-      let bestP = 0;
-      for (let k = 0; k < K; k++) {
-        const v = this.sums[c * K + k] / n;
-        if (v > bestP) {
-          best = k;
-          bestP = v;
-        }
-      }
-      predicted[c] = best;
-      strength[c] = bestP;
-    }
-    return { task: 'classification', predicted, strength };
+    const K = this.task === 'classification' ? this.classes : 1;
+    return cellsFromAverages(this.task, K, this.cells, this.sums.map((s) => s / n));
   }
+}
+
+/** Map cells from averaged outputs per cell ([c * outputs + k]): the class with the largest mean probability, or the mean value. */
+export function cellsFromAverages(task: 'classification' | 'regression', outputs: number, cells: number, values: ArrayLike<number>): RegionCells {
+  if (task === 'regression') return { task, value: Array.from({ length: cells }, (_, c) => values[c]) };
+  const predicted = new Array<number>(cells);
+  const strength = new Array<number>(cells);
+  for (let c = 0; c < cells; c++) {
+    let best = -1;
+    let bestP = 0;
+    for (let k = 0; k < outputs; k++) {
+      const v = values[c * outputs + k];
+      if (v > bestP) {
+        best = k;
+        bestP = v;
+      }
+    }
+    predicted[c] = best;
+    strength[c] = bestP;
+  }
+  return { task, predicted, strength };
 }
 
 /** Index pairs (a < b) among the first `k` features of `ranked`, most important pairs first. */

@@ -4,19 +4,34 @@
 // Scoring always goes through a ScorerLike (core's Scorer in the extension: a worker thread), so the
 // extension host's own thread only encodes rows and reads arrays.
 
-import type { FitSummary, ReferenceChoice, RegionMap, RowVotes, SuspectRow, PointSample } from '../../protocol/messages';
-import type { Forest, Prediction, Table } from '../engine';
+import type { Dependence, FitSummary, GlobalContributions, ReferenceChoice, RegionMap, RowContributions, RowVotes, SuspectRow, PointSample } from '../../protocol/messages';
+import type { FitReport, Forest, Prediction, Table } from '../engine';
 import { cellText, encodeTable, findColumn } from '../engine';
 import { formatNumber, formatShare } from '../format';
-import { hoverMarkdown, type HoverContext } from '../editor/hoverText';
-import { GridAccumulator, gridBatches, planAxis, rankFeatures, topPairs, type GridPlan } from '../panel/grid';
+import { contributionsMarkdown, hoverMarkdown, intervalMarkdown, type HoverContext } from '../editor/hoverText';
+import type { ExplainerLike, Urgency } from '../workers/explainClient';
+import type { ExplainSetup } from '../workers/explainJobs';
+import {
+  defaultDependenceOutput,
+  dependenceMessage,
+  Explanations,
+  featureValueText,
+  largestContributions,
+  rowContributionsMessage,
+  type IntervalAnswer,
+  type RowContribution,
+} from './explanations';
+import { cellsFromAverages, GridAccumulator, gridBatches, planAxis, rankFeatures, topPairs, type GridPlan } from '../panel/grid';
 import { LineIndex, type LineReader } from '../rows/lineMap';
 import { RowNumbering } from '../rows/numbering';
 import { majority, RowStore, voteEntropy, type OobPart } from './rowStore';
 import type { PanelSettings } from '../settings';
 import { sampleRows } from '../summary/warnings';
 
-/** Cells per axis at most for partial-dependence maps: 40 x 40 cells x 40 rows is about 64k predictions. */
+/**
+ * Cells per axis at most for partial-dependence maps, as copse.panel.gridResolution's description promises.
+ * Core's grid walk would afford finer maps; the cap stays until that description changes with it.
+ */
 export const AVERAGED_RESOLUTION = 40;
 
 export interface ScorerLike {
@@ -57,11 +72,25 @@ export interface SessionInit {
   readonly scorer: ScorerLike;
   /** Seeds the samples drawn for points and averaged maps; the forest's own seed when absent. */
   readonly seed?: number;
+  /**
+   * Starts the explanation thread (contributions, dependence, intervals); without it the session explains
+   * nothing, and averaged maps are refused.
+   */
+  readonly explainer?: (setup: ExplainSetup) => ExplainerLike;
+  /** Where regression intervals come from: the fit in memory, or the table taken as the training data. */
+  readonly quantiles?: { readonly from: 'fit'; readonly report: FitReport } | { readonly from: 'table' };
+  /** Regression: the interval level to prepare for every row at once. */
+  readonly intervalLevel?: number;
 }
+
+/** How many contributions a hover lists. */
+export const HOVER_CONTRIBUTIONS = 3;
 
 /** Another CSV scored with the active forest, for hovers. */
 export interface ScoredFile {
   readonly store: RowStore;
+  /** Its rows in the forest's feature space, for explanations. */
+  readonly encoded: Float64Array;
   readonly lines: LineIndex;
   readonly numbering: RowNumbering;
   readonly label: string;
@@ -86,6 +115,8 @@ export class ForestSession {
   private readonly suspectList: SuspectRow[];
   private readonly suspectByRow = new Map<number, SuspectRow>();
   private readonly seed: number;
+  /** Absent when the session was made without an explanation thread. */
+  readonly explanations: Explanations | undefined;
   private disposed = false;
 
   private constructor(init: SessionInit, summary: FitSummary, encoded: Float64Array, store: RowStore, numbering: RowNumbering, truth: Float64Array) {
@@ -104,6 +135,21 @@ export class ForestSession {
     this.seed = init.seed ?? init.forest.params.seed;
     this.suspectList = this.findSuspects();
     for (const s of this.suspectList) this.suspectByRow.set(s.row, s);
+    this.explanations = init.explainer ? this.startExplanations(init) : undefined;
+  }
+
+  private startExplanations(init: SessionInit): Explanations {
+    const { p } = this;
+    const trainX = new Float64Array(this.trainRows.length * p);
+    this.trainRows.forEach((r, i) => trainX.set(this.encoded.subarray(r * p, r * p + p), i * p));
+    const q = init.quantiles;
+    const regression = this.forest.schema.target.task === 'regression';
+    const quantiles: ExplainSetup['quantiles'] =
+      !regression || !q ? null : q.from === 'fit' ? { from: 'fit', report: q.report, table: this.table } : { from: 'table', table: this.table };
+    const explainer = init.explainer!({ forest: quantiles?.from === 'fit' ? undefined : this.forest, trainX, trainCount: this.trainRows.length, quantiles });
+    const e = new Explanations(this.forest, explainer, this.encoded, this.table.rowCount, this.trainRows, this.seed);
+    if (init.intervalLevel !== undefined) e.prepareIntervals(init.intervalLevel);
+    return e;
   }
 
   /** Scores the whole table once (in the scorer's thread) and indexes it for hovers and the panel. */
@@ -156,6 +202,58 @@ export class ForestSession {
     return hoverMarkdown(this.store.answer(tableRow), ctx);
   }
 
+  /** The hover's contributions part for a table row, once computed; undefined without explanations. */
+  async hoverContributions(tableRow: number, urgency: Urgency = 'now'): Promise<string | undefined> {
+    const e = this.explanations;
+    if (!e) return undefined;
+    return this.contributionsText(this.store, tableRow, await e.rowContributions(tableRow, urgency));
+  }
+
+  /** The hover's interval part for a table row (regression), or why there is none. */
+  async hoverInterval(tableRow: number, level: number, urgency: Urgency = 'now'): Promise<string | undefined> {
+    const e = this.explanations;
+    if (!e || !e.regression) return undefined;
+    return this.intervalText(await e.interval(tableRow, level, urgency), level);
+  }
+
+  async hoverOtherContributions(file: ScoredFile, tableRow: number): Promise<string | undefined> {
+    const e = this.explanations;
+    if (!e) return undefined;
+    return this.contributionsText(file.store, tableRow, await e.contributions(file, tableRow, file.encoded, 'now'));
+  }
+
+  async hoverOtherInterval(file: ScoredFile, tableRow: number, level: number): Promise<string | undefined> {
+    const e = this.explanations;
+    if (!e || !e.regression) return undefined;
+    return this.intervalText(await e.otherInterval(file, tableRow, file.encoded, level, 'now'), level);
+  }
+
+  /** Starts working out a row's contributions before anyone asks (the cursor just landed on it). */
+  prefetchContributions(tableRow: number): void {
+    this.explanations?.rowContributions(tableRow, 'soon').catch(() => undefined);
+  }
+
+  private contributionsText(store: RowStore, tableRow: number, c: RowContribution): string {
+    const predicted = store.answer(tableRow).predicted;
+    const e = this.explanations!.explanationOf(c, this.task === 'classification' ? predicted : null);
+    const names = this.forest.schema.features.map((f) => f.name);
+    const { top, rest, others } = largestContributions(names, e.values, HOVER_CONTRIBUTIONS);
+    return contributionsMarkdown({
+      className: e.output === null ? undefined : (this.classes[e.output] ?? `class ${e.output}`),
+      target: this.forest.schema.target.name,
+      base: e.base,
+      prediction: e.prediction,
+      top,
+      rest,
+      others,
+    });
+  }
+
+  private intervalText(a: IntervalAnswer, level: number): string {
+    if ('unavailable' in a) return `No ${Math.round(level * 1000) / 10}% prediction interval: ${a.unavailable}`;
+    return intervalMarkdown(a.level, a.lower, a.upper, this.forest.schema.target.name);
+  }
+
   suspects(limit: number): SuspectRow[] {
     return this.suspectList.slice(0, limit);
   }
@@ -183,15 +281,71 @@ export class ForestSession {
   // ---------------------------------------------------------------------------------------------
   // Panel
 
-  /** Per-tree votes for data rows (the protocol's 1-based numbers); unknown rows are skipped. */
-  rowVotes(dataRows: readonly number[]): RowVotes[] {
+  /**
+   * Per-tree votes for data rows (the protocol's 1-based numbers); unknown rows are skipped. Regression rows
+   * carry their interval at `level` when it is already computed (see intervalsReady).
+   */
+  rowVotes(dataRows: readonly number[], level?: number): RowVotes[] {
     const out: RowVotes[] = [];
     for (const dataRow of dataRows) {
       const r = this.numbering.tableRow(dataRow);
       if (r === undefined) continue;
-      out.push(rowVotesOf(this.store, r, dataRow));
+      const votes = rowVotesOf(this.store, r, dataRow);
+      const a = level === undefined ? undefined : this.explanations?.cachedInterval(r, level);
+      out.push(a && !('unavailable' in a) ? { ...votes, interval: a } : votes);
     }
     return out;
+  }
+
+  /** Whether rowVotes can already give every one of these rows its interval; computes the missing ones. */
+  async intervalsReady(dataRows: readonly number[], level: number): Promise<boolean> {
+    const e = this.explanations;
+    if (!e || !e.regression) return false;
+    let changed = false;
+    for (const dataRow of dataRows) {
+      const r = this.numbering.tableRow(dataRow);
+      if (r === undefined || e.cachedInterval(r, level)) continue;
+      const a = await e.interval(r, level, 'now');
+      if ('unavailable' in a) return false;
+      changed = true;
+    }
+    return changed;
+  }
+
+  /** The full contribution chart of one data row, for the predicted class (or the value). */
+  async contributions(dataRow: number, urgency: Urgency = 'now'): Promise<RowContributions> {
+    const e = this.requireExplanations();
+    const r = this.numbering.tableRow(dataRow);
+    if (r === undefined) throw new RangeError(`Row ${dataRow} is not among the rows the forest was shown against.`);
+    const c = await e.rowContributions(r, urgency);
+    const ex = e.explanationOf(c, this.task === 'classification' ? this.store.answer(r).predicted : null);
+    return rowContributionsMessage(this.forest, this.encoded, r * this.p, dataRow, ex);
+  }
+
+  /** Mean absolute contribution per feature over a background sample of training rows (see Explanations). */
+  globalContributions(onUpdate: (g: GlobalContributions) => void, signal?: AbortSignal): Promise<GlobalContributions> {
+    return this.requireExplanations().globalContributions(onUpdate, signal);
+  }
+
+  /** One feature's partial dependence and individual curves; output: the class to show (null: the liveliest). */
+  async dependence(feature: string, output: number | null): Promise<Dependence> {
+    const e = this.requireExplanations();
+    const f = this.featureIndex(feature);
+    const pd = await e.dependence(f);
+    const classification = this.task === 'classification';
+    const k = classification ? (output !== null && output < pd.outputs ? output : defaultDependenceOutput(pd)) : 0;
+    return dependenceMessage(pd, k, classification, (i) => this.numbering.dataRow(this.trainRows[i]));
+  }
+
+  /** The feature the dependence view opens on: the most important one. */
+  defaultDependenceFeature(): string | undefined {
+    const f = this.ranked()[0];
+    return f === undefined ? undefined : this.forest.schema.features[f].name;
+  }
+
+  private requireExplanations(): Explanations {
+    if (!this.explanations) throw new RangeError('Explanations are not available for this forest.');
+    return this.explanations;
   }
 
   /** The two most important features, for the first map. */
@@ -230,7 +384,7 @@ export class ForestSession {
     const x = encodeTable(this.forest.schema, table, label);
     const prediction = await this.scorer.predict(x, table.rowCount);
     const store = new RowStore(this.task, this.classes, prediction, truthOf(this.forest, table), undefined, new Set(), this.store.tolerance);
-    return { store, lines: new LineIndex(table.lineOfRow, delimiter), numbering: RowNumbering.build(table.lineOfRow, delimiter, text, table.rowNumber), label };
+    return { store, encoded: x, lines: new LineIndex(table.lineOfRow, delimiter), numbering: RowNumbering.build(table.lineOfRow, delimiter, text, table.rowNumber), label };
   }
 
   hoverOther(file: ScoredFile, tableRow: number): string {
@@ -246,7 +400,7 @@ export class ForestSession {
   async dispose(): Promise<void> {
     if (this.disposed) return;
     this.disposed = true;
-    await this.scorer.dispose();
+    await Promise.all([this.scorer.dispose(), this.explanations?.dispose()]);
   }
 
   // ---------------------------------------------------------------------------------------------
@@ -276,7 +430,6 @@ export class ForestSession {
     const xa = planAxis(fx, schema.features[fx], this.encoded, p, rows, resolution);
     const ya = planAxis(fy, schema.features[fy], this.encoded, p, rows, resolution);
     let base: Float64Array;
-    let baseRows = 1;
     let used: RegionMap['reference'];
     let heldAt: RegionMap['heldAt'] = [];
     if (reference.mode === 'row') {
@@ -286,20 +439,18 @@ export class ForestSession {
       used = { mode: 'row', row: reference.row };
       heldAt = this.heldAtText(base, fx, fy);
     } else if (reference.mode === 'averaged') {
-      const pick = sampleRows(this.trainRows.length, averageRows, this.seed);
-      baseRows = pick.length;
-      base = new Float64Array(baseRows * p);
-      pick.forEach((i, s) => {
-        const r = this.trainRows[i];
-        base.set(this.encoded.subarray(r * p, r * p + p), s * p);
-      });
-      used = { mode: 'averaged', sampleRows: baseRows };
+      // Two-feature partial dependence (Friedman 2001, section 8.2 from memory): core walks each sampled row
+      // through each tree once, splitting the grid only where a tree tests one of the two features.
+      const e = this.requireExplanations();
+      const d = await e.dependence2D(fx, fy, xa.values, ya.values, averageRows);
+      const cells = cellsFromAverages(this.task, d.outputs, xa.n * ya.n, d.values);
+      return { x: xa.axis, y: ya.axis, nx: xa.n, ny: ya.n, cells, reference: { mode: 'averaged', sampleRows: d.rows }, heldAt: [] };
     } else {
       base = Float64Array.from(schema.features, (f) => f.reference);
       used = { mode: 'typical' };
       heldAt = this.heldAtText(base, fx, fy);
     }
-    const plan: GridPlan = { x: xa, y: ya, p, base, baseRows };
+    const plan: GridPlan = { x: xa, y: ya, p, base, baseRows: 1 };
     const acc = new GridAccumulator(this.task, this.classes.length, xa.n * ya.n);
     for (const batch of gridBatches(plan)) {
       const scored = await this.scorer.predict(batch.x, batch.rows);
@@ -312,11 +463,7 @@ export class ForestSession {
     return this.forest.schema.features
       .map((f, i) => ({ f, i }))
       .filter(({ i }) => i !== fx && i !== fy)
-      .map(({ f, i }) => {
-        const v = base[i];
-        const value = Number.isNaN(v) ? '(missing)' : f.kind === 'numeric' ? formatNumber(v) : (f.levels?.[v] ?? String(v));
-        return { feature: f.name, value };
-      });
+      .map(({ f, i }) => ({ feature: f.name, value: featureValueText(f, base[i]) }));
   }
 
   /** A seeded sample of training rows with both coordinates, for drawing over a map. */

@@ -1,0 +1,370 @@
+// Explanations of the active forest as the editor and the panel ask for them: per-row contributions,
+// prediction intervals, partial dependence and the global view. The numbers come from core, computed on the
+// explanation thread (see workers/explainClient.ts); this keeps what was computed, decides what runs first,
+// and shapes answers into protocol data. No `vscode` here.
+//
+// What is cheap is done for every row up front (intervals: one pass over a row's leaves); what is not
+// (contributions: hundreds of milliseconds a row for a deep regression forest) is done for the rows someone
+// looks at, and for a bounded random sample in the background for the global view.
+
+import type { Dependence, GlobalContributions, PredictionInterval, RowContributions } from '../../protocol/messages';
+import type { FeatureInfo, Forest, PartialDependence } from '../engine';
+import { meanAbsoluteContributions, outputCount, shuffle, stream } from '../engine';
+import { formatNumber } from '../format';
+import type { ExplainerLike, Urgency } from '../workers/explainClient';
+import type { ExplainResults } from '../workers/explainJobs';
+
+/** Rows in the background sample for the global view (a random sample, so its first k rows are one too). */
+export const GLOBAL_SAMPLE_ROWS = 100;
+/** Thread time the global view may take before it settles for the rows it has (our choice). */
+export const GLOBAL_TIME_BUDGET_MS = 15_000;
+/** Points along a numeric feature's axis in the dependence view. */
+export const DEPENDENCE_GRID = 40;
+/** Rows whose curves the dependence view draws and averages (core's default sample). */
+export const DEPENDENCE_ROWS = 200;
+/** Rows per background interval request: small, so a hover never waits long behind one. */
+const INTERVAL_CHUNK = 500;
+const ROW_CACHE = 256;
+
+export type RowContribution = ExplainResults['contributions'];
+
+/** The signed contributions of one row to one output, ready to show. */
+export interface RowExplanation {
+  /** Class code explained, or null for a regression value. */
+  readonly output: number | null;
+  readonly base: number;
+  readonly prediction: number;
+  /** One per feature, in the forest's order. */
+  readonly values: Float64Array;
+}
+
+export type IntervalAnswer = PredictionInterval | { readonly unavailable: string };
+
+/** A map that forgets the least recently used entry beyond a size. */
+class Recent<V> {
+  private readonly map = new Map<number, V>();
+  constructor(private readonly limit: number) {}
+
+  get(key: number): V | undefined {
+    const v = this.map.get(key);
+    if (v !== undefined) {
+      this.map.delete(key);
+      this.map.set(key, v);
+    }
+    return v;
+  }
+
+  set(key: number, v: V): void {
+    this.map.delete(key);
+    this.map.set(key, v);
+    if (this.map.size > this.limit) this.map.delete(this.map.keys().next().value!);
+  }
+
+  delete(key: number): void {
+    this.map.delete(key);
+  }
+}
+
+interface IntervalTable {
+  readonly level: number;
+  readonly lower: Float64Array;
+  readonly upper: Float64Array;
+  unavailable?: string;
+  readonly finished: Promise<void>;
+}
+
+export class Explanations {
+  private readonly p: number;
+  private readonly outputs: number;
+  /** Per scope (the fitted table, or another scored file): contributions of its rows by row. */
+  private readonly rows = new WeakMap<object, Recent<Promise<RowContribution>>>();
+  private readonly otherIntervals = new WeakMap<object, Recent<Promise<IntervalAnswer>>>();
+  private intervals: IntervalTable | undefined;
+  private readonly dependenceByFeature = new Map<number, Promise<PartialDependence>>();
+  /** The fitted table's scope in the row caches. */
+  private readonly table = {};
+  private readonly closed = new AbortController();
+
+  constructor(
+    private readonly forest: Forest,
+    private readonly explainer: ExplainerLike,
+    /** The fitted table, encoded [row * p + f]. */
+    private readonly encoded: Float64Array,
+    private readonly rowCount: number,
+    /** Table rows the forest was trained on, in training order (the explanation thread's trainX). */
+    private readonly trainRows: Int32Array,
+    private readonly seed: number,
+  ) {
+    this.p = forest.schema.features.length;
+    this.outputs = outputCount(forest.schema.target);
+  }
+
+  get regression(): boolean {
+    return this.forest.schema.target.task === 'regression';
+  }
+
+  // ---------------------------------------------------------------------------------------------
+  // Contributions
+
+  /** All outputs' contributions for row r of the fitted table; computed once. */
+  rowContributions(r: number, urgency: Urgency): Promise<RowContribution> {
+    return this.contributions(this.table, r, this.encoded, urgency);
+  }
+
+  /** All outputs' contributions for row r of `scope`, another scored file whose encoded rows are x. */
+  contributions(scope: object, r: number, x: Float64Array, urgency: Urgency): Promise<RowContribution> {
+    let cache = this.rows.get(scope);
+    if (!cache) this.rows.set(scope, (cache = new Recent(ROW_CACHE)));
+    const known = cache.get(r);
+    if (known) {
+      this.explainer.raise?.(known, urgency);
+      return known;
+    }
+    const { p } = this;
+    const promise = this.explainer.run({ kind: 'contributions', x: x.slice(r * p, r * p + p), rows: 1 }, urgency);
+    cache.set(r, promise);
+    // A failure is not kept: the next hover may ask again.
+    promise.catch(() => cache.delete(r));
+    return promise;
+  }
+
+  /** The contributions to the output shown for a row: the predicted class, or the value. */
+  explanationOf(c: RowContribution, predictedClass: number | null): RowExplanation {
+    const K = c.outputs;
+    const k = this.regression || predictedClass === null ? 0 : predictedClass;
+    const values = new Float64Array(c.features);
+    let sum = c.base[k];
+    for (let j = 0; j < c.features; j++) {
+      values[j] = c.values[j * K + k];
+      sum += values[j];
+    }
+    return { output: this.regression ? null : k, base: c.base[k], prediction: sum, values };
+  }
+
+  /**
+   * Mean absolute contribution per feature over a random sample of training rows, summed over outputs,
+   * computed a row at a time in the background and reported as it grows.
+   */
+  async globalContributions(onUpdate: (g: GlobalContributions) => void, signal?: AbortSignal): Promise<GlobalContributions> {
+    const n = this.trainRows.length;
+    const order = Int32Array.from({ length: n }, (_, i) => i);
+    shuffle(order, stream(this.seed, 'global contributions'));
+    const planned = Math.min(GLOBAL_SAMPLE_ROWS, n);
+    const { p } = this;
+    const K = this.outputs;
+    const values = new Float64Array(planned * p * K);
+    let base: Float64Array = new Float64Array(K);
+    let done = 0;
+    let spent = 0;
+    let reported = performance.now();
+    const features = this.forest.schema.features;
+    const summary = (finished: boolean): GlobalContributions => {
+      const mean = meanAbsoluteContributions({ rows: done, features: p, outputs: K, base, contributions: values.subarray(0, done * p * K) });
+      return { rows: done, planned, done: finished, features: features.map((f, j) => ({ feature: f.name, meanAbs: mean.overall[j] })) };
+    };
+    const both = anySignal(signal, this.closed.signal);
+    while (done < planned && spent < GLOBAL_TIME_BUDGET_MS) {
+      const r = this.trainRows[order[done]];
+      const started = performance.now();
+      const c = await this.rowContributions(r, 'idle');
+      spent += performance.now() - started;
+      if (both.aborted) throw Object.assign(new Error('The global view was stopped.'), { name: 'AbortError' });
+      values.set(c.values, done * p * K);
+      base = c.base;
+      done++;
+      if (performance.now() - reported > 1500 && done < planned) {
+        reported = performance.now();
+        onUpdate(summary(false));
+      }
+    }
+    const result = summary(true);
+    onUpdate(result);
+    return result;
+  }
+
+  // ---------------------------------------------------------------------------------------------
+  // Prediction intervals (regression)
+
+  /** Starts (or keeps) intervals for every row of the fitted table at `level`; cheap enough to do up front. */
+  prepareIntervals(level: number): void {
+    if (!this.regression || this.intervals?.level === level) return;
+    const n = this.rowCount;
+    const lower = new Float64Array(n).fill(NaN);
+    const upper = new Float64Array(n).fill(NaN);
+    const table: IntervalTable = { level, lower, upper, finished: Promise.resolve() };
+    this.intervals = table;
+    (table as { finished: Promise<void> }).finished = (async () => {
+      const { p } = this;
+      for (let from = 0; from < n && this.intervals === table; from += INTERVAL_CHUNK) {
+        const to = Math.min(n, from + INTERVAL_CHUNK);
+        const a = await this.explainer.run({ kind: 'intervals', x: this.encoded.slice(from * p, to * p), rows: to - from, level }, 'idle');
+        if ('unavailable' in a) {
+          table.unavailable = a.unavailable;
+          return;
+        }
+        lower.set(a.lower, from);
+        upper.set(a.upper, from);
+      }
+    })().catch((e: unknown) => {
+      if (!isAbort(e)) table.unavailable = `they could not be computed (${e instanceof Error ? e.message : String(e)}).`;
+    });
+  }
+
+  /** Row r's interval at `level` if already computed, or why there is none; undefined while pending. */
+  cachedInterval(r: number, level: number): IntervalAnswer | undefined {
+    const t = this.intervals;
+    if (!this.regression || !t || t.level !== level) return undefined;
+    if (t.unavailable) return { unavailable: t.unavailable };
+    return Number.isNaN(t.lower[r]) ? undefined : { level, lower: t.lower[r], upper: t.upper[r] };
+  }
+
+  /** Row r's interval, asking the thread for it alone when the background pass has not reached it. */
+  async interval(r: number, level: number, urgency: Urgency): Promise<IntervalAnswer> {
+    this.prepareIntervals(level);
+    const known = this.cachedInterval(r, level);
+    if (known) return known;
+    const t = this.intervals!;
+    const { p } = this;
+    const a = await this.explainer.run({ kind: 'intervals', x: this.encoded.slice(r * p, r * p + p), rows: 1, level }, urgency);
+    if ('unavailable' in a) return { unavailable: a.unavailable };
+    if (this.intervals === t) {
+      t.lower[r] = a.lower[0];
+      t.upper[r] = a.upper[0];
+    }
+    return { level, lower: a.lower[0], upper: a.upper[0] };
+  }
+
+  /** Intervals for a row of another scored file (x holds its encoded rows). */
+  otherInterval(scope: object, r: number, x: Float64Array, level: number, urgency: Urgency): Promise<IntervalAnswer> {
+    let cache = this.otherIntervals.get(scope);
+    if (!cache) this.otherIntervals.set(scope, (cache = new Recent(ROW_CACHE)));
+    const key = r * 1000 + Math.round(level * 999);
+    const known = cache.get(key);
+    if (known) return known;
+    const { p } = this;
+    const promise = this.explainer
+      .run({ kind: 'intervals', x: x.slice(r * p, r * p + p), rows: 1, level }, urgency)
+      .then((a): IntervalAnswer => ('unavailable' in a ? { unavailable: a.unavailable } : { level, lower: a.lower[0], upper: a.upper[0] }));
+    cache.set(key, promise);
+    promise.catch(() => cache.delete(key));
+    return promise;
+  }
+
+  // ---------------------------------------------------------------------------------------------
+  // Partial dependence
+
+  /** One feature's partial dependence with its individual curves, over the training rows; kept per feature. */
+  dependence(feature: number): Promise<PartialDependence> {
+    let d = this.dependenceByFeature.get(feature);
+    if (!d) {
+      d = this.explainer.run(
+        { kind: 'dependence', feature, gridSize: DEPENDENCE_GRID, spacing: 'even', sampleRows: DEPENDENCE_ROWS, seed: this.seed },
+        'now',
+      );
+      this.dependenceByFeature.set(feature, d);
+      d.catch(() => this.dependenceByFeature.delete(feature));
+    }
+    return d;
+  }
+
+  /** Two-feature partial dependence on a map's grid, over a sample of training rows. */
+  dependence2D(xFeature: number, yFeature: number, xGrid: Float64Array, yGrid: Float64Array, sampleRows: number): Promise<ExplainResults['dependence2D']> {
+    return this.explainer.run({ kind: 'dependence2D', xFeature, yFeature, xGrid, yGrid, sampleRows, seed: this.seed }, 'now');
+  }
+
+  async dispose(): Promise<void> {
+    this.closed.abort();
+    await this.explainer.dispose();
+  }
+}
+
+// -------------------------------------------------------------------------------------------------
+// Shaping answers for the panel and the hover (pure)
+
+/** A feature's encoded value as a person reads it. */
+export function featureValueText(f: FeatureInfo, v: number): string {
+  if (Number.isNaN(v)) return '(missing)';
+  if (f.kind === 'numeric') return formatNumber(v);
+  return f.levels?.[v] ?? String(v);
+}
+
+export function rowContributionsMessage(forest: Forest, x: ArrayLike<number>, offset: number, dataRow: number, e: RowExplanation): RowContributions {
+  return {
+    row: dataRow,
+    output: e.output,
+    base: e.base,
+    prediction: e.prediction,
+    features: forest.schema.features.map((f, j) => ({ feature: f.name, value: featureValueText(f, x[offset + j]), contribution: e.values[j] })),
+  };
+}
+
+/** The n contributions largest in size, largest first (ties: forest order), and what the rest add up to. */
+export function largestContributions(names: readonly string[], values: ArrayLike<number>, n: number): { top: Array<{ feature: string; contribution: number }>; rest: number; others: number } {
+  const order = Array.from({ length: values.length }, (_, j) => j).sort((a, b) => Math.abs(values[b]) - Math.abs(values[a]) || a - b);
+  const top = order.slice(0, n).map((j) => ({ feature: names[j], contribution: values[j] }));
+  let rest = 0;
+  for (const j of order.slice(n)) rest += values[j];
+  return { top, rest, others: Math.max(0, order.length - n) };
+}
+
+/**
+ * The class a dependence view shows when none was asked for: the one whose average curve moves most, since
+ * a flat curve says little. Regression has one output.
+ */
+export function defaultDependenceOutput(pd: PartialDependence): number {
+  const G = pd.grid.values.length;
+  const K = pd.outputs;
+  let best = 0;
+  let bestRange = -1;
+  for (let k = 0; k < K; k++) {
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (let g = 0; g < G; g++) {
+      const v = pd.average[g * K + k];
+      lo = Math.min(lo, v);
+      hi = Math.max(hi, v);
+    }
+    if (hi - lo > bestRange + 1e-12) {
+      best = k;
+      bestRange = hi - lo;
+    }
+  }
+  return best;
+}
+
+/** Partial dependence for one output as the protocol carries it; rows become data rows through `dataRowOf`. */
+export function dependenceMessage(pd: PartialDependence, output: number, classification: boolean, dataRowOf: (trainPosition: number) => number): Dependence {
+  const G = pd.grid.values.length;
+  const K = pd.outputs;
+  const k = Math.min(Math.max(0, output), K - 1);
+  const average = Array.from({ length: G }, (_, g) => pd.average[g * K + k]);
+  const ice = Array.from(pd.iceRows, (_, s) => Array.from({ length: G }, (_, g) => pd.ice[(s * G + g) * K + k]));
+  return {
+    feature: pd.grid.name,
+    kind: pd.grid.kind,
+    grid: Array.from(pd.grid.values),
+    labels: pd.grid.kind === 'numeric' ? null : [...(pd.grid.labels ?? [])],
+    output: classification ? k : null,
+    average,
+    ice,
+    iceRows: Array.from(pd.iceRows, dataRowOf),
+    counts: Array.from(pd.distribution.counts),
+    boundaries: Array.from(pd.distribution.boundaries),
+    missing: pd.distribution.missing,
+  };
+}
+
+function isAbort(e: unknown): boolean {
+  return e instanceof Error && e.name === 'AbortError';
+}
+
+/** A signal that fires when either does (AbortSignal.any needs Node 20.3). */
+function anySignal(a: AbortSignal | undefined, b: AbortSignal): AbortSignal {
+  if (!a) return b;
+  const c = new AbortController();
+  const fire = () => c.abort();
+  if (a.aborted || b.aborted) c.abort();
+  a.addEventListener('abort', fire, { once: true });
+  b.addEventListener('abort', fire, { once: true });
+  return c.signal;
+}
