@@ -63,7 +63,7 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
     fs.mkdirSync(folder);
     fs.cpSync(path.join(repoRoot(), 'demo'), path.join(folder, 'demo'), { recursive: true });
     fs.writeFileSync(path.join(folder, RAGGED), RAGGED_TEXT);
-    vsix = packagedVsix(path.join(temp, 'package.log'));
+    vsix = packagedVsix();
     const cliModel = path.join(temp, 'cli-kite.forest.json');
     // The reference fits run while the workbench starts.
     const reference = Promise.all([
@@ -147,6 +147,9 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
     const first = checkMap(cliForest, before);
     assert.deepStrictEqual(first.problems, [], first.problems.slice(0, 10).join('\n'));
     assert.ok(first.checked >= 40 && first.classesSeen >= 2, `only ${first.checked} cells of ${first.classesSeen} classes were clear enough to check`);
+    // The comparison must be able to fail: with the legend's colours handed to the wrong classes it does.
+    const rotated = before.legend.map((l, k, all) => ({ label: l.label, colour: all[(k + 1) % all.length].colour }));
+    assert.ok(checkMap(cliForest, { ...before, legend: rotated }).problems.length > first.checked / 2, 'the pixel check passes with the colours swapped');
 
     // Switch the feature across, through the picker as a person does.
     const panel = wb!.webview({ extensionId: EXTENSION_ID });

@@ -29,7 +29,7 @@ describe('npm run demo (scripts/demo.sh) with the bundled workbench', function (
   let browser: BrowserSession | undefined;
 
   before(function () {
-    const vsix = packagedVsix(path.join(os.tmpdir(), 'copse-e2e-demo-package.log'));
+    const vsix = packagedVsix();
     fs.rmSync(path.dirname(vsix.file), { recursive: true, force: true });
     version = vsix.version;
     profile = fs.mkdtempSync(path.join(os.tmpdir(), 'copse-e2e-demo-'));

@@ -2,7 +2,7 @@ import { spawnSync } from 'child_process';
 import * as fs from 'fs';
 import * as os from 'os';
 import * as path from 'path';
-import { repoRoot } from './paths';
+import { artifactsRoot, repoRoot } from './paths';
 
 // The suites test the .vsix a user would install, not the sources: `npm run
 // package` (esbuild bundles + vsce) is the only way one is made. Building
@@ -25,10 +25,11 @@ export interface PackagedVsix {
 
 /**
  * The repo's `copse-<version>.vsix`, built first if missing or stale.
+ * The build's output goes to `logFile` (by default .artifacts/e2e/npm-run-package.log).
  * COPSE_E2E_VSIX=path uses that file as it is; COPSE_E2E_NO_BUILD=1 refuses
  * to build and fails on a stale package instead (for runs that packaged already).
  */
-export function packagedVsix(logFile: string): PackagedVsix {
+export function packagedVsix(logFile = path.join(artifactsRoot(), 'npm-run-package.log')): PackagedVsix {
   const root = repoRoot();
   const version = String(JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8')).version);
   const given = process.env.COPSE_E2E_VSIX;

@@ -39,10 +39,15 @@ export function repoRoot(): string {
  * a run starts so that what it holds is all from the latest run.
  */
 export function artifactsDir(runName: string): string {
-  const dir = path.join(process.env.COPSE_E2E_ARTIFACTS ?? path.join(repoRoot(), '.artifacts', 'e2e'), safeName(runName));
+  const dir = path.join(artifactsRoot(), safeName(runName));
   fs.rmSync(dir, { recursive: true, force: true });
   fs.mkdirSync(dir, { recursive: true });
   return dir;
+}
+
+/** The folder holding every run's artifacts folder (not emptied). */
+export function artifactsRoot(): string {
+  return process.env.COPSE_E2E_ARTIFACTS ?? path.join(repoRoot(), '.artifacts', 'e2e');
 }
 
 export function safeName(name: string): string {
