@@ -14,10 +14,12 @@ import { CsvDocuments } from './editor/csvDocuments';
 import { registerHover } from './editor/hoverProvider';
 import { RowMarks } from './editor/rowMarks';
 import { Scorer } from './engine';
-import { refitCommand } from './fit/fitFlow';
+import { refitCommand, refitFeaturesCommand } from './fit/fitFlow';
+import { SweepRunner } from './fit/sweepFlow';
 import { PanelHost } from './panel/panelHost';
 import { restoreLastFit } from './session/restore';
 import { registerStatusBar } from './statusBar';
+import { ExplainClient } from './workers/explainClient';
 
 let active: CopseContext | undefined;
 
@@ -32,8 +34,14 @@ export function activate(extension: vscode.ExtensionContext): { readonly context
       revealRow: (row) => revealRow(ctx, row, panel.viewColumn),
       refit: (leaveOut, trees) => refitCommand(ctx, panel, leaveOut, trees),
       restore: () => (restoring ??= restore(ctx).finally(() => (restoring = undefined))),
+      sweep: () => sweeps.run(),
+      cancelSweep: () => sweeps.cancel(),
+      sweepResult: () => sweeps.resultForCurrent(),
+      refitFeatures: (n) => refitFeaturesCommand(ctx, panel, n),
     }),
   );
+  const sweeps = new SweepRunner(ctx, panel);
+  ctx.track({ dispose: () => sweeps.cancel() });
   const host: Host = { ctx, panel };
   ctx.track(registerFit(host));
   ctx.track(registerOpenModel(host));
@@ -60,7 +68,10 @@ export function deactivate(): void {
 async function restore(ctx: CopseContext): Promise<void> {
   try {
     const started = performance.now();
-    const restored = await restoreLastFit(ctx.storageDir, (forest) => new Scorer(forest));
+    const restored = await restoreLastFit(ctx.storageDir, (forest) => new Scorer(forest), {
+      explainer: (setup) => new ExplainClient(setup),
+      intervalLevel: ctx.settings().explain.intervalLevel,
+    });
     if (!restored || ctx.session) {
       if (restored) await restored.session.dispose();
       return;

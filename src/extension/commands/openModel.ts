@@ -6,6 +6,7 @@ import * as vscode from 'vscode';
 import { loadModel, Scorer } from '../engine';
 import { guarded, readCsv, requireFile } from '../fit/fitFlow';
 import { ForestSession } from '../session/session';
+import { ExplainClient } from '../workers/explainClient';
 import { openedSummary } from '../summary/openedSummary';
 import { COMMANDS, type Host } from './host';
 
@@ -81,6 +82,10 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
             warnings,
           }),
         scorer,
+        explainer: (setup) => new ExplainClient(setup),
+        // Intervals need the forest's training rows: they are there when this CSV is its training file.
+        quantiles: { from: 'table' },
+        intervalLevel: ctx.settings().explain.intervalLevel,
       });
     } catch (e) {
       await scorer.dispose();

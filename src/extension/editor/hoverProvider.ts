@@ -1,13 +1,80 @@
-// Hovers on CSV rows: the editor seam over ForestSession.hover, which reads precomputed arrays.
+// Hovers on CSV rows. Three providers, because VS Code shows each provider's part as soon as it resolves
+// (its hover operation merges providers in the order they answer, and renders again as more arrive): the
+// votes part reads precomputed arrays and is there at once; a regression row's interval comes from an
+// array filled in the background, or one quick request; the contributions part waits for the explanation
+// thread, which for a deep regression forest takes a few hundred milliseconds a row.
+//
+// Parts are ordered by provider rank, and VS Code ranks providers with the same selector newest first, so
+// the votes provider is registered last to come first.
 
 import * as vscode from 'vscode';
 import type { CopseContext } from '../context';
+import type { ForestSession, ScoredFile } from '../session/session';
 import { CSV_SELECTOR, lineReader, type CsvDocuments } from './csvDocuments';
 
 export const SHOW_ROW_VOTES_COMMAND = 'copse.showRowVotes';
 
+/** Longest a hover waits for contributions before it settles without them (the work goes on, cached). */
+export const CONTRIBUTIONS_WAIT_MS = 15_000;
+
+type HoverRow = { kind: 'fitted'; session: ForestSession; row: number } | { kind: 'other'; session: ForestSession; file: ScoredFile; row: number };
+
 export function registerHover(ctx: CopseContext, docs: CsvDocuments): vscode.Disposable {
-  return vscode.languages.registerHoverProvider(CSV_SELECTOR, {
+  let warned = '';
+  const warnOnce = (what: string, e: unknown) => {
+    if (e instanceof Error && e.name === 'AbortError') return;
+    const text = `${what}: ${e instanceof Error ? e.message : String(e)}`;
+    if (text !== warned) ctx.log.warn(text);
+    warned = text;
+  };
+
+  /** The row under the pointer, when the forest can speak about it and hovers are on. */
+  const rowAt = async (doc: vscode.TextDocument, position: vscode.Position): Promise<HoverRow | undefined> => {
+    if (!ctx.settings().editor.hover) return undefined;
+    const resolved = await docs.resolve(doc);
+    if (!resolved || resolved.kind === 'stale') return undefined;
+    const read = lineReader(doc);
+    if (resolved.kind === 'fitted') {
+      const row = resolved.session.rowAtLine(position.line + 1, read);
+      return row === undefined ? undefined : { kind: 'fitted', session: resolved.session, row };
+    }
+    const row = resolved.file.lines.rowAt(position.line + 1, read);
+    return row === undefined ? undefined : { kind: 'other', session: resolved.session, file: resolved.file, row };
+  };
+
+  const part = (text: string | undefined, doc: vscode.TextDocument, position: vscode.Position): vscode.Hover | undefined =>
+    text === undefined ? undefined : new vscode.Hover(new vscode.MarkdownString(text, true), doc.lineAt(position.line).range);
+
+  const contributions = vscode.languages.registerHoverProvider(CSV_SELECTOR, {
+    async provideHover(doc, position, token) {
+      const at = await rowAt(doc, position);
+      if (!at || !at.session.explanations) return undefined;
+      const work = at.kind === 'fitted' ? at.session.hoverContributions(at.row) : at.session.hoverOtherContributions(at.file, at.row);
+      try {
+        return part(await untilCancelled(work, token, CONTRIBUTIONS_WAIT_MS), doc, position);
+      } catch (e) {
+        warnOnce('Hover contributions', e);
+        return undefined;
+      }
+    },
+  });
+
+  const interval = vscode.languages.registerHoverProvider(CSV_SELECTOR, {
+    async provideHover(doc, position, token) {
+      const at = await rowAt(doc, position);
+      if (!at || !at.session.explanations?.regression) return undefined;
+      const level = ctx.settings().explain.intervalLevel;
+      const work = at.kind === 'fitted' ? at.session.hoverInterval(at.row, level) : at.session.hoverOtherInterval(at.file, at.row, level);
+      try {
+        return part(await untilCancelled(work, token, CONTRIBUTIONS_WAIT_MS), doc, position);
+      } catch (e) {
+        warnOnce('Hover interval', e);
+        return undefined;
+      }
+    },
+  });
+
+  const votes = vscode.languages.registerHoverProvider(CSV_SELECTOR, {
     async provideHover(doc, position) {
       if (!ctx.settings().editor.hover) return undefined;
       const resolved = await docs.resolve(doc);
@@ -32,6 +99,28 @@ export function registerHover(ctx: CopseContext, docs: CsvDocuments): vscode.Dis
       md.isTrusted = { enabledCommands: [SHOW_ROW_VOTES_COMMAND] };
       return new vscode.Hover(md, doc.lineAt(position.line).range);
     },
+  });
+
+  return vscode.Disposable.from(contributions, interval, votes);
+}
+
+/** The work's answer, or undefined once the hover is gone or the wait is over (the work itself goes on). */
+function untilCancelled<T>(work: Promise<T>, token: vscode.CancellationToken, ms: number): Promise<T | undefined> {
+  return new Promise<T | undefined>((resolve, reject) => {
+    const timer = setTimeout(() => finish(() => resolve(undefined)), ms);
+    const sub = token.onCancellationRequested(() => finish(() => resolve(undefined)));
+    let done = false;
+    function finish(f: () => void): void {
+      if (done) return;
+      done = true;
+      clearTimeout(timer);
+      sub.dispose();
+      f();
+    }
+    work.then(
+      (v) => finish(() => resolve(v)),
+      (e: unknown) => finish(() => reject(e)),
+    );
   });
 }
 

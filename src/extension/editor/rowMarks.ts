@@ -64,11 +64,22 @@ export class RowMarks implements vscode.Disposable {
   }
 
   private selectionChanged(e: vscode.TextEditorSelectionChangeEvent): void {
-    if (!this.ctx.session || !this.panel.isOpen || !this.docs.isFitted(e.textEditor.document)) return;
+    if (!this.ctx.session || !this.docs.isFitted(e.textEditor.document)) return;
     if (this.docs.isStale(e.textEditor.document)) return;
     if (this.timer) clearTimeout(this.timer);
     const editor = e.textEditor;
-    this.timer = setTimeout(() => this.postSelection(editor), SELECTION_SETTLE_MS);
+    this.timer = setTimeout(() => {
+      this.prefetch(editor);
+      if (this.panel.isOpen) this.postSelection(editor);
+    }, SELECTION_SETTLE_MS);
+  }
+
+  /** The row at the cursor is the likeliest next hover: start on its contributions, which take a while. */
+  private prefetch(editor: vscode.TextEditor): void {
+    const s = this.ctx.session;
+    if (!s || !this.ctx.settings().editor.hover) return;
+    const row = s.rowAtLine(editor.selection.active.line + 1, lineReader(editor.document));
+    if (row !== undefined) s.prefetchContributions(row);
   }
 
   private postSelection(editor: vscode.TextEditor): void {

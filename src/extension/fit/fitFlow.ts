@@ -12,6 +12,7 @@ import type { PanelHost } from '../panel/panelHost';
 import { saveLastFit } from '../session/lastFit';
 import { loadForForest } from '../session/loadFor';
 import { ForestSession } from '../session/session';
+import { ExplainClient } from '../workers/explainClient';
 import { buildSummary } from '../summary/summary';
 import { cautions } from '../summary/warnings';
 import { choicesFrom, paramsFor, type FitChoices } from './choices';
@@ -170,6 +171,15 @@ export async function fitCommand(ctx: CopseContext, panel: PanelHost, uri?: vsco
 
 /** A refit from the panel: same data and target, some columns left out, maybe another tree count. */
 export async function refitCommand(ctx: CopseContext, panel: PanelHost, leaveOut: string[], trees: number | null): Promise<void> {
+  await refitWith(ctx, panel, (c) => ({ ...c, exclude: [...new Set([...c.exclude, ...leaveOut])], trees: trees ?? c.trees }));
+}
+
+/** The sweep's one action: the same fit again with the count of features per split it found best. */
+export async function refitFeaturesCommand(ctx: CopseContext, panel: PanelHost, featuresPerSplit: number): Promise<void> {
+  await refitWith(ctx, panel, (c) => ({ ...c, featuresPerSplit }));
+}
+
+async function refitWith(ctx: CopseContext, panel: PanelHost, change: (c: FitChoices) => FitChoices): Promise<void> {
   await guarded(ctx, 'Refit', async () => {
     const origin = ctx.origin;
     if (!origin) throw new RangeError('There is no fit to repeat here; fit a forest on the CSV first.');
@@ -177,10 +187,8 @@ export async function refitCommand(ctx: CopseContext, panel: PanelHost, leaveOut
       void vscode.window.showInformationMessage('Copse: a fit is already running.');
       return;
     }
-    const exclude = [...new Set([...origin.choices.exclude, ...leaveOut])];
-    const choices: FitChoices = { ...origin.choices, exclude, trees: trees ?? origin.choices.trees };
     const loaded: LoadedCsv = { ...origin, seconds: origin.loadSeconds };
-    await runFit(ctx, panel, loaded, choices);
+    await runFit(ctx, panel, loaded, change(origin.choices));
   });
 }
 
@@ -298,6 +306,9 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
       oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag: report.rows.inBag, margin: report.rows.margin },
       summary,
       scorer,
+      explainer: (setup) => new ExplainClient(setup),
+      quantiles: { from: 'fit', report },
+      intervalLevel: settings.explain.intervalLevel,
     });
   } catch (e) {
     await scorer.dispose();

@@ -7,13 +7,17 @@ import {
   PROTOCOL_VERSION,
   isHostToPanel,
   isPanelToHost,
+  type Dependence,
+  type GlobalContributions,
   type HostToPanel,
   type PanelToHost,
   type ReferenceChoice,
   type RegionMap,
+  type RowContributions,
+  type SweepSummary,
 } from '../../protocol/messages';
 import type { CopseContext } from '../context';
-import { isUserError, userMessage } from '../errors';
+import { isAbort, isUserError, userMessage } from '../errors';
 import type { ForestSession } from '../session/session';
 import { panelHtml } from './html';
 import { PANEL_VIEW_TYPE_ID } from './viewType';
@@ -25,7 +29,16 @@ export interface PanelActions {
   refit(leaveOut: string[], trees: number | null): Promise<void>;
   /** Called when a restored panel finds no active forest: bring the last one back if we can. */
   restore(): Promise<void>;
+  /** Refits the last fit's data with several features-per-split counts; progress goes to the panel. */
+  sweep(): Promise<void>;
+  cancelSweep(): void;
+  /** The last sweep's result, when it still describes the forest shown. */
+  sweepResult(): SweepSummary | undefined;
+  refitFeatures(featuresPerSplit: number): Promise<void>;
 }
+
+/** How long an explanation may take before the panel says it is being worked out (no flicker when cached). */
+const WORKING_NOTE_MS = 150;
 
 export class PanelHost implements vscode.Disposable {
   private panel: vscode.WebviewPanel | undefined;
@@ -34,6 +47,9 @@ export class PanelHost implements vscode.Disposable {
   private readonly panelDisposables: vscode.Disposable[] = [];
   /** Bumped per map request so a slow map never overwrites a newer one. */
   private mapTicket = 0;
+  /** The same for the contribution chart and the dependence view. */
+  private explainTicket = 0;
+  private dependenceTicket = 0;
   /** While the last fit is being brought back after a reload, the panel says so rather than "no forest". */
   private restoring = false;
   /**
@@ -47,6 +63,13 @@ export class PanelHost implements vscode.Disposable {
     map?: RegionMap;
     matrix?: RegionMap[];
     rows?: number[];
+    /** The row whose contributions are charted: the first selected, or the one last asked for. */
+    explained?: number;
+    contributions?: RowContributions;
+    dependence?: Dependence;
+    global?: GlobalContributions;
+    /** The background run of the global view; stopped when the session changes. */
+    globalRun?: AbortController;
   } | undefined;
 
   constructor(
@@ -118,14 +141,28 @@ export class PanelHost implements vscode.Disposable {
     this.post({ type: 'status', state, text, progress });
   }
 
-  /** Shows one row's tree votes in the panel (opening it if needed) and marks it on the map. */
+  /** Shows rows' tree votes in the panel, marks them on the map, and charts the first one's contributions. */
   showRows(dataRows: number[]): void {
     const s = this.ctx.session;
     if (!s) return;
     const rows = dataRows.slice(0, LIMITS.selectedRows);
     if (this.shown?.session === s) this.shown.rows = rows;
-    this.post({ type: 'disagreement', rows: s.rowVotes(rows) });
+    this.postRows(s, rows);
     this.post({ type: 'highlight', rows });
+    if (rows.length > 0) void this.guard(this.sendContributions(rows[0]));
+  }
+
+  /** Votes at once; again with intervals once the rows' are computed, if the selection has not moved on. */
+  private postRows(s: ForestSession, rows: number[]): void {
+    const level = this.ctx.settings().explain.intervalLevel;
+    this.post({ type: 'disagreement', rows: s.rowVotes(rows, level) });
+    void this.guard(
+      s.intervalsReady(rows, level).then((changed) => {
+        if (changed && this.ctx.session === s && (this.shown?.session !== s || this.shown.rows === rows)) {
+          this.post({ type: 'disagreement', rows: s.rowVotes(rows, level) });
+        }
+      }),
+    );
   }
 
   dispose(): void {
@@ -191,6 +228,21 @@ export class PanelHost implements vscode.Disposable {
         case 'refit':
           await this.actions.refit(msg.leaveOut, msg.trees);
           break;
+        case 'explainRow':
+          await this.sendContributions(msg.row);
+          break;
+        case 'chooseDependence':
+          await this.sendDependence(msg.feature, msg.output);
+          break;
+        case 'runSweep':
+          await this.actions.sweep();
+          break;
+        case 'cancelSweep':
+          this.actions.cancelSweep();
+          break;
+        case 'sweepRefit':
+          await this.actions.refitFeatures(msg.featuresPerSplit);
+          break;
       }
     } catch (e) {
       if (!isUserError(e)) this.ctx.log.error(e instanceof Error ? (e.stack ?? e.message) : String(e));
@@ -198,7 +250,19 @@ export class PanelHost implements vscode.Disposable {
     }
   }
 
+  /** Runs a panel task whose failure should become a status line, not an unhandled rejection. */
+  private async guard(work: Promise<unknown>): Promise<void> {
+    try {
+      await work;
+    } catch (e) {
+      if (isAbort(e)) return;
+      if (!isUserError(e)) this.ctx.log.error(e instanceof Error ? (e.stack ?? e.message) : String(e));
+      this.status('error', userMessage(e));
+    }
+  }
+
   private async sessionChanged(session: ForestSession | undefined): Promise<void> {
+    if (this.shown && this.shown.session !== session) this.shown.globalRun?.abort();
     if (!this.panel || !this.ready) return;
     try {
       await this.sendAll(session);
@@ -224,11 +288,8 @@ export class PanelHost implements vscode.Disposable {
       this.post({ type: 'regionMap', map: shown.map });
     } else {
       const first = shown.choice ?? (session.defaultAxes() ? { ...session.defaultAxes()!, reference: { mode: 'typical' } as ReferenceChoice } : undefined);
-      if (!first) {
-        this.status('idle', 'A map needs at least two features the forest can draw.');
-        return;
-      }
-      await this.sendMap(first.x, first.y, first.reference);
+      if (first) await this.sendMap(first.x, first.y, first.reference);
+      else this.status('idle', 'A map needs at least two features the forest can draw.');
     }
     if (session !== this.ctx.session) return;
     if (!shown.matrix) {
@@ -239,9 +300,95 @@ export class PanelHost implements vscode.Disposable {
     if (session !== this.ctx.session) return;
     this.post({ type: 'mapMatrix', maps: shown.matrix });
     if (shown.rows?.length) {
-      this.post({ type: 'disagreement', rows: session.rowVotes(shown.rows) });
+      this.postRows(session, shown.rows);
       this.post({ type: 'highlight', rows: shown.rows });
     }
+    const sweep = this.actions.sweepResult();
+    if (sweep) this.post({ type: 'sweep', state: 'done', progress: null, text: '', result: sweep });
+    if (!session.explanations) {
+      const why = 'Explanations are not available for this forest.';
+      this.post({ type: 'contributions', row: null, state: 'unavailable', contributions: null, text: why });
+      this.post({ type: 'globalContributions', global: null, text: why });
+      return;
+    }
+    if (shown.contributions && shown.contributions.row === shown.explained) {
+      this.post({ type: 'contributions', row: shown.explained, state: 'ready', contributions: shown.contributions, text: '' });
+    } else if (shown.explained !== undefined) {
+      void this.guard(this.sendContributions(shown.explained));
+    }
+    this.sendGlobal(session);
+    if (shown.dependence) this.post({ type: 'dependence', dependence: shown.dependence });
+    else {
+      const feature = session.defaultDependenceFeature();
+      if (feature) await this.sendDependence(feature, null);
+    }
+  }
+
+  /** The contribution chart of one data row; a newer request wins over a slower older one. */
+  private async sendContributions(row: number): Promise<void> {
+    const session = this.ctx.session;
+    if (!session) return;
+    if (this.shown?.session !== session) this.shown = { session };
+    const shown = this.shown;
+    shown.explained = row;
+    const ticket = ++this.explainTicket;
+    if (!session.explanations) {
+      this.post({ type: 'contributions', row, state: 'unavailable', contributions: null, text: 'Explanations are not available for this forest.' });
+      return;
+    }
+    const note = setTimeout(() => {
+      if (ticket === this.explainTicket) this.post({ type: 'contributions', row, state: 'working', contributions: null, text: `Working out row ${row}’s contributions…` });
+    }, WORKING_NOTE_MS);
+    try {
+      const started = performance.now();
+      const c = await session.contributions(row);
+      if (ticket !== this.explainTicket || session !== this.ctx.session) return;
+      this.ctx.log.debug(`Contributions of row ${row} in ${Math.round(performance.now() - started)} ms.`);
+      shown.contributions = c;
+      this.post({ type: 'contributions', row, state: 'ready', contributions: c, text: '' });
+    } catch (e) {
+      if (ticket === this.explainTicket && !isAbort(e)) {
+        this.post({ type: 'contributions', row, state: 'unavailable', contributions: null, text: userMessage(e) });
+      }
+      if (!isUserError(e)) throw e;
+    } finally {
+      clearTimeout(note);
+    }
+  }
+
+  /** Starts the global view's background sample once per session, and re-sends what it has so far. */
+  private sendGlobal(session: ForestSession): void {
+    const shown = this.shown!;
+    if (shown.global) this.post({ type: 'globalContributions', global: shown.global, text: '' });
+    if (shown.globalRun) return;
+    if (!shown.global) this.post({ type: 'globalContributions', global: null, text: 'Working out contributions over a sample of rows…' });
+    const run = (shown.globalRun = new AbortController());
+    const started = performance.now();
+    void this.guard(
+      session
+        .globalContributions((g) => {
+          if (session !== this.ctx.session) return;
+          shown.global = g;
+          this.post({ type: 'globalContributions', global: g, text: '' });
+        }, run.signal)
+        .then((g) => this.ctx.log.info(`Global view: contributions of ${g.rows} rows in ${Math.round(performance.now() - started)} ms.`)),
+    );
+  }
+
+  private async sendDependence(feature: string, output: number | null): Promise<void> {
+    const session = this.ctx.session;
+    if (!session?.explanations) return;
+    if (this.shown?.session !== session) this.shown = { session };
+    const shown = this.shown;
+    const ticket = ++this.dependenceTicket;
+    this.status('working', `Working out the dependence on ${feature}…`, null);
+    const started = performance.now();
+    const d = await session.dependence(feature, output);
+    if (ticket !== this.dependenceTicket || session !== this.ctx.session) return;
+    this.ctx.log.info(`Dependence on ${feature}: ${d.grid.length} points, ${d.ice.length} curves in ${Math.round(performance.now() - started)} ms.`);
+    shown.dependence = d;
+    this.post({ type: 'dependence', dependence: d });
+    this.status('idle', '');
   }
 
   private async sendMap(x: string, y: string, reference: ReferenceChoice): Promise<void> {

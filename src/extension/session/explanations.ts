@@ -83,6 +83,9 @@ export class Explanations {
   private readonly dependenceByFeature = new Map<number, Promise<PartialDependence>>();
   /** The fitted table's scope in the row caches. */
   private readonly table = {};
+  /** The one row waiting to be prefetched, and whether a prefetch is on the thread now. */
+  private prefetchWanted: number | undefined;
+  private prefetching = false;
   private readonly closed = new AbortController();
 
   constructor(
@@ -109,6 +112,24 @@ export class Explanations {
   /** All outputs' contributions for row r of the fitted table; computed once. */
   rowContributions(r: number, urgency: Urgency): Promise<RowContribution> {
     return this.contributions(this.table, r, this.encoded, urgency);
+  }
+
+  /**
+   * Works out a row's contributions before anyone asks (the cursor just settled on it). One prefetch at a
+   * time, and only the latest row waits: moving through a file never stacks up stale work.
+   */
+  prefetch(r: number): void {
+    this.prefetchWanted = r;
+    if (this.prefetching) return;
+    this.prefetching = true;
+    void (async () => {
+      while (this.prefetchWanted !== undefined && !this.closed.signal.aborted) {
+        const next = this.prefetchWanted;
+        this.prefetchWanted = undefined;
+        await this.rowContributions(next, 'soon').catch(() => undefined);
+      }
+      this.prefetching = false;
+    })();
   }
 
   /** All outputs' contributions for row r of `scope`, another scored file whose encoded rows are x. */

@@ -7,7 +7,7 @@ import { readFileSync } from 'node:fs';
 import type { FitChoices } from '../fit/choices';
 import { loadCsv, type LoadResult } from '../engine';
 import { loadLastFit } from './lastFit';
-import { ForestSession, type ScorerLike } from './session';
+import { ForestSession, type ScorerLike, type SessionInit } from './session';
 import type { Forest } from '../engine';
 
 export interface Restored {
@@ -27,7 +27,11 @@ export interface Restored {
   readonly note?: string;
 }
 
-export async function restoreLastFit(dir: string, scorerFor: (forest: Forest) => ScorerLike): Promise<Restored | undefined> {
+export async function restoreLastFit(
+  dir: string,
+  scorerFor: (forest: Forest) => ScorerLike,
+  explain: Pick<SessionInit, 'explainer' | 'intervalLevel'> = {},
+): Promise<Restored | undefined> {
   const saved = await loadLastFit(dir);
   if (!saved) return undefined;
   const { meta, forest } = saved;
@@ -57,6 +61,10 @@ export async function restoreLastFit(dir: string, scorerFor: (forest: Forest) =>
       oob: same ? { trainRows: saved.trainRows, holdoutRows: saved.holdoutRows, inBag: saved.inBag } : undefined,
       summary,
       scorer,
+      explainer: explain.explainer,
+      // The saved forest keeps its seed, so the same rows give back its bootstrap draws for intervals.
+      quantiles: same ? { from: 'table' } : undefined,
+      intervalLevel: explain.intervalLevel,
     });
     const origin =
       same && meta.choices

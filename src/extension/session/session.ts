@@ -230,7 +230,7 @@ export class ForestSession {
 
   /** Starts working out a row's contributions before anyone asks (the cursor just landed on it). */
   prefetchContributions(tableRow: number): void {
-    this.explanations?.rowContributions(tableRow, 'soon').catch(() => undefined);
+    this.explanations?.prefetch(tableRow);
   }
 
   private contributionsText(store: RowStore, tableRow: number, c: RowContribution): string {
