@@ -9,6 +9,8 @@
 // before it): starting a workbench costs ~20 s, so one start keeps the run short.
 //
 // Run: bash scripts/e2e/run.sh out/test/e2e/copse.e2e.js
+// (run.sh compiles first; bin/copse.js runs the compiled out/, so a mocha run
+// on a stale out/ would compare the fresh .vsix with an older CLI.)
 // The .vsix is built with `npm run package` first when missing or older than
 // its sources (see harness/package.ts; COPSE_E2E_NO_BUILD=1 refuses to build).
 
