@@ -42,30 +42,45 @@ function finite(t: number): number {
   return t > Number.MAX_VALUE ? Number.MAX_VALUE : t < -Number.MAX_VALUE ? -Number.MAX_VALUE : t;
 }
 
+/** Typed arrays that double when full: a large tree costs bytes per node, not boxed numbers. */
 class Builder {
-  readonly left: number[] = [];
-  readonly right: number[] = [];
-  readonly feature: number[] = [];
-  readonly threshold: number[] = [];
-  readonly missingLeft: number[] = [];
-  readonly cover: number[] = [];
-  readonly value: number[] = [];
-  readonly catBits: number[] = [];
+  left = new Int32Array(64);
+  right = new Int32Array(64);
+  feature = new Int32Array(64);
+  threshold = new Float64Array(64);
+  missingLeft = new Uint8Array(64);
+  cover = new Float32Array(64);
+  value: Float64Array;
+  catBits = new Uint32Array(8);
+  count = 0;
+  words = 0;
 
-  constructor(private readonly ctx: ExpandContext, private readonly outputs: number) {}
+  constructor(private readonly ctx: ExpandContext, private readonly outputs: number) {
+    this.value = new Float64Array(64 * outputs);
+  }
 
   alloc(): number {
     if (--this.ctx.budget < 0) {
       this.ctx.fail(`it converts to more than ${this.ctx.maxNodes} nodes (nodes reached along several paths are copied, set tests become several splits)`);
     }
-    const id = this.left.length;
-    this.left.push(-1);
-    this.right.push(-1);
-    this.feature.push(-1);
-    this.threshold.push(0);
-    this.missingLeft.push(0);
-    this.cover.push(0);
-    for (let k = 0; k < this.outputs; k++) this.value.push(0);
+    if (this.count === this.left.length) {
+      const grow = <T extends Int32Array | Float64Array | Uint8Array | Float32Array>(a: T): T => {
+        const b = new (a.constructor as new (n: number) => T)(a.length * 2);
+        b.set(a);
+        return b;
+      };
+      this.left = grow(this.left);
+      this.right = grow(this.right);
+      this.feature = grow(this.feature);
+      this.threshold = grow(this.threshold);
+      this.missingLeft = grow(this.missingLeft);
+      this.cover = grow(this.cover);
+      this.value = grow(this.value);
+    }
+    const id = this.count++;
+    this.left[id] = -1;
+    this.right[id] = -1;
+    this.feature[id] = -1;
     return id;
   }
 
@@ -76,25 +91,37 @@ class Builder {
     this.cover[id] = cover;
   }
 
+  /** Children are allocated before this is called: allocating may replace the arrays. */
+  link(id: number, left: number, right: number): void {
+    this.left[id] = left;
+    this.right[id] = right;
+  }
+
   levelSet(levels: number, inSet: (code: number) => boolean): number {
-    const at = this.catBits.length;
+    const at = this.words;
     const words = (levels + 31) >>> 5;
-    for (let w = 0; w < words; w++) this.catBits.push(0);
-    for (let c = 0; c < levels; c++) if (inSet(c)) this.catBits[at + (c >>> 5)] = (this.catBits[at + (c >>> 5)] | (1 << (c & 31))) >>> 0;
+    if (at + words > this.catBits.length) {
+      const b = new Uint32Array(Math.max(this.catBits.length * 2, at + words));
+      b.set(this.catBits);
+      this.catBits = b;
+    }
+    this.words += words;
+    for (let c = 0; c < levels; c++) if (inSet(c)) this.catBits[at + (c >>> 5)] |= 1 << (c & 31);
     return at;
   }
 
   finish(): FlatTree {
+    const n = this.count;
     return {
-      nodeCount: this.left.length,
-      left: Int32Array.from(this.left),
-      right: Int32Array.from(this.right),
-      feature: Int32Array.from(this.feature),
-      threshold: Float64Array.from(this.threshold),
-      missingLeft: Uint8Array.from(this.missingLeft),
-      value: Float32Array.from(this.value),
-      cover: Float32Array.from(this.cover),
-      catBits: Uint32Array.from(this.catBits),
+      nodeCount: n,
+      left: this.left.slice(0, n),
+      right: this.right.slice(0, n),
+      feature: this.feature.slice(0, n),
+      threshold: this.threshold.slice(0, n),
+      missingLeft: this.missingLeft.slice(0, n),
+      value: Float32Array.from(this.value.subarray(0, n * this.outputs)),
+      cover: this.cover.slice(0, n),
+      catBits: this.catBits.slice(0, this.words),
     };
   }
 }
@@ -163,8 +190,8 @@ export function expandTree(ctx: ExpandContext, root: number): FlatTree {
       const t = finite(m === MODE.LEQ || m === MODE.GT ? atMost(ctx, v) : below(ctx, v));
       const flip = m === MODE.GTE || m === MODE.GT;
       b.split(slot, f, t, (e.missingTrue[u] === 1) !== flip, cover);
-      b.left[slot] = child(flip ? no : yes);
-      b.right[slot] = child(flip ? yes : no);
+      const l = child(flip ? no : yes);
+      b.link(slot, l, child(flip ? yes : no));
       continue;
     }
     const test = setTest(ctx, u);
@@ -216,8 +243,8 @@ function range(n: number): number[] {
 function categorical(b: Builder, slot: number, f: number, levels: number, test: SetTest, cover: number, child: (node: number) => number): void {
   const codes = new Set(test.values.filter((c) => Number.isInteger(c) && c >= 0 && c < levels));
   b.split(slot, f, b.levelSet(levels, (c) => codes.has(c)), test.nanInside, cover);
-  b.left[slot] = child(test.inside);
-  b.right[slot] = child(test.outside);
+  const l = child(test.inside);
+  b.link(slot, l, child(test.outside));
 }
 
 /** The value intervals (lo, hi] the runtime counts as equal to one of the values, sorted and merged. */
@@ -257,12 +284,11 @@ function searchStep(
   b.split(t.slot, t.f, t.lo[mid], !t.nanInside, t.cover);
   const before = b.alloc();
   const rest = b.alloc();
-  b.left[t.slot] = before;
-  b.right[t.slot] = rest;
+  b.link(t.slot, before, rest);
   work.push({ ...t, slot: before, b: mid - 1 });
   b.split(rest, t.f, t.hi[mid], true, t.cover);
-  b.left[rest] = child(t.inside);
+  const inside = child(t.inside);
   const after = b.alloc();
-  b.right[rest] = after;
+  b.link(rest, inside, after);
   work.push({ ...t, slot: after, a: mid + 1 });
 }

@@ -95,6 +95,9 @@ export function readOnnx(bytes: Uint8Array, label = 'the ONNX file', options: Im
   const names = meta ? 'metadata' : 'positions';
   const schema = meta ? checkSchema(meta.schema, p, task, ensemble, fail) : positionalSchema(p, task, ensemble, node);
   const levels = Int32Array.from(schema.features, (f) => (f.kind === 'numeric' ? 0 : (f.levels?.length ?? 0)));
+  // A faithful conversion stays within a small multiple of the file's own nodes; a graph built to explode when its
+  // shared nodes are copied is stopped at that multiple, long before the absolute limit costs memory.
+  const budget = Math.min(limits.maxForestNodes, 16 * (ensemble.nodes + ensemble.members.length) + 1024);
   // The runtime sums (or averages) over trees; Copse averages, so a summed ensemble's leaves are scaled by T.
   const ctx: ExpandContext = {
     ensemble,
@@ -103,9 +106,9 @@ export function readOnnx(bytes: Uint8Array, label = 'the ONNX file', options: Im
     scale: ensemble.aggregate === 'sum' ? T : 1,
     withCover: meta !== undefined,
     fail,
-    budget: limits.maxForestNodes,
-    maxNodes: limits.maxForestNodes,
-    steps: 4 * limits.maxForestNodes,
+    budget,
+    maxNodes: budget,
+    steps: 4 * budget,
   };
   if (ensemble.base.some((b) => b !== 0)) notes.push('Its base values were added to every leaf.');
   const trees = Array.from(ensemble.roots, (root) => expandTree(ctx, root));

@@ -85,8 +85,10 @@ function model(): protobuf.Type {
   return modelType;
 }
 
+/** A plain Uint8Array: under Node protobufjs returns a Buffer, whose slice() would share memory instead of copying. */
 export function encodeModel(m: OnnxModel): Uint8Array {
-  return model().encode(m as Record<string, unknown>).finish();
+  const b = model().encode(m as Record<string, unknown>).finish();
+  return new Uint8Array(b.buffer, b.byteOffset, b.byteLength);
 }
 
 /**
