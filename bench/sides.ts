@@ -122,8 +122,8 @@ export function copseSide(repoRoot: string): Side {
       let predictAccuracy: number | undefined;
       if (!pred.ok) notes.push(failure('copse predict', pred));
       else {
-        predictAccuracy = accuracyFromCsv(out, s.target, `predicted ${s.target}`);
-        if (predictAccuracy === undefined) notes.push(`copse predict: no "predicted ${s.target}" column in ${path.basename(out)} to score`);
+        predictAccuracy = accuracyFromCsv(out, s.target, `predicted_${s.target}`);
+        if (predictAccuracy === undefined) notes.push(`copse predict: no "predicted_${s.target}" column in ${path.basename(out)} to score`);
         predictSeconds = numberAt(pred.json, 'seconds.predict');
         if (predictSeconds === undefined) {
           predictSeconds = pred.wallSeconds;
