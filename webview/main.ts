@@ -19,8 +19,11 @@ import { append, clear, h, section } from './dom';
 import { loadState, post, saveState } from './host';
 import { MapMatrixView } from './map/matrix';
 import { RegionMapView } from './map/view';
+import { ContributionsView } from './sections/contributions';
 import { CurveView } from './sections/curve';
+import { DependenceView } from './sections/dependence';
 import { ImportanceView } from './sections/importance';
+import { SweepView } from './sections/sweep';
 import { SummaryView } from './sections/summary';
 import { SuspectsView } from './sections/suspects';
 import { VotesView } from './sections/votes';
@@ -46,7 +49,17 @@ const matrixView = new MapMatrixView((x, y) => post({ type: 'openMap', x, y }));
 const summaryView = new SummaryView((leaveOut, trees) => post({ type: 'refit', leaveOut, trees }));
 const curveView = new CurveView();
 const importanceView = new ImportanceView();
-const votesView = new VotesView((row) => post({ type: 'revealRow', row }));
+const votesView = new VotesView(
+  (row) => post({ type: 'revealRow', row }),
+  (row) => post({ type: 'explainRow', row }),
+);
+const contributionsView = new ContributionsView();
+const dependenceView = new DependenceView((feature, output) => post({ type: 'chooseDependence', feature, output }));
+const sweepView = new SweepView({
+  run: () => post({ type: 'runSweep' }),
+  cancel: () => post({ type: 'cancelSweep' }),
+  refit: (featuresPerSplit) => post({ type: 'sweepRefit', featuresPerSplit }),
+});
 const suspectsView = new SuspectsView((row) => post({ type: 'revealRow', row }));
 
 const title = h('h1', {}, 'Copse');
@@ -75,6 +88,7 @@ function build(): void {
           { class: 'col' },
           section('map-section', 'Decision regions', mapView.root),
           section('matrix-section', 'Leading feature pairs', h('p', { class: 'muted' }, 'Click a pair to open it as the large map.'), matrixView.root),
+          section('dependence-section', 'How the prediction moves with one feature', dependenceView.root),
         ),
         h(
           'div',
@@ -82,10 +96,12 @@ function build(): void {
           summarySection,
           h('section', { class: 'card', testid: 'warnings-section' }, warningsTitle, warnings),
           curveSection,
+          section('sweep-section', 'Features tried per split', sweepView.root),
           importanceSection,
         ),
       ),
       section('votes-section', 'Tree votes on the selected rows', votesView.root),
+      section('contributions-section', 'What moved this row’s prediction', contributionsView.root),
       section('suspects-section', 'Rows the forest doubts', h('p', { class: 'muted' }, 'Lowest out-of-bag margin first. Click a row to go to it.'), suspectsView.root),
     ),
   );
@@ -99,6 +115,9 @@ function applyTheme(): void {
   summaryView.setTheme(theme);
   votesView.setTheme(theme);
   suspectsView.setTheme(theme);
+  contributionsView.setTheme(theme);
+  dependenceView.setTheme(theme);
+  sweepView.setTheme(theme);
   drawCharts();
 }
 
@@ -121,6 +140,8 @@ function showSummary(s: FitSummary): void {
   matrixView.setSummary(s);
   votesView.setSummary(s);
   suspectsView.setSummary(s);
+  contributionsView.setSummary(s);
+  dependenceView.setSummary(s);
   clear(warnings);
   warningsTitle.textContent = s.warnings.length > 0 ? `Worth checking (${s.warnings.length})` : 'Worth checking';
   if (s.warnings.length === 0) append(warnings, h('li', { class: 'muted none' }, 'Nothing flagged for this fit.'));
@@ -140,6 +161,8 @@ function handle(msg: HostToPanel): void {
       map = null;
       matrix = [];
       suspects = [];
+      importanceView.reset();
+      sweepView.reset();
       showSummary(msg.summary);
       matrixView.setMaps([]);
       suspectsView.setRows([]);
@@ -163,6 +186,19 @@ function handle(msg: HostToPanel): void {
     case 'highlight':
       mapView.setHighlight(msg.rows);
       suspectsView.setHighlight(msg.rows);
+      return;
+    // Explanations are re-sent by the host whenever the panel comes back, so they are not kept in state.
+    case 'contributions':
+      contributionsView.set(msg);
+      return;
+    case 'globalContributions':
+      importanceView.setGlobal(msg.global, msg.text);
+      return;
+    case 'dependence':
+      dependenceView.set(msg.dependence);
+      return;
+    case 'sweep':
+      sweepView.set(msg);
       return;
     case 'status':
       statusText.textContent = msg.text;

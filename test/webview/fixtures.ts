@@ -272,3 +272,100 @@ export function regressionMap(nx = 40, ny = 40): RegionMap {
     points: { x, y, target, row, total: 5000 },
   };
 }
+
+// ---------------------------------------------------------------------------------------------
+// Explanations for the invented flower scenario: numbers chosen by hand so base + contributions is the
+// prediction, with the hostile feature name among them.
+
+export function contributionsMessage(row = 71): Extract<HostToPanel, { type: 'contributions' }> {
+  const features = [
+    { feature: 'petal_len', value: '4.7', contribution: 0.31 },
+    { feature: 'petal_wid', value: '1.4', contribution: 0.22 },
+    { feature: HOSTILE_FEATURE, value: '<b>3.1</b>', contribution: -0.07 },
+    { feature: 'colour', value: HOSTILE_LEVEL, contribution: 0.01 },
+  ];
+  const base = 1 / 3;
+  return {
+    type: 'contributions',
+    row,
+    state: 'ready',
+    contributions: { row, output: 1, base, prediction: base + features.reduce((a, f) => a + f.contribution, 0), features },
+    text: '',
+  };
+}
+
+export function globalMessage(rows: number, done: boolean): Extract<HostToPanel, { type: 'globalContributions' }> {
+  return {
+    type: 'globalContributions',
+    global: {
+      rows,
+      planned: 100,
+      done,
+      features: [
+        { feature: 'petal_len', meanAbs: 0.3 },
+        { feature: 'petal_wid', meanAbs: 0.25 },
+        { feature: HOSTILE_FEATURE, meanAbs: 0.04 },
+        { feature: 'colour', meanAbs: 0.01 },
+      ],
+    },
+    text: '',
+  };
+}
+
+/** Petal length from 1 to 7 on 13 points; no training row between 2.25 and 2.75 (Fisher's gap, invented here). */
+export function dependenceNumeric(output = 1): Extract<HostToPanel, { type: 'dependence' }> {
+  const grid = Array.from({ length: 13 }, (_, g) => 1 + g * 0.5);
+  const boundaries = grid.slice(1).map((v) => v - 0.25);
+  const counts = grid.map((v) => (v === 2.5 ? 0 : v < 2.5 ? 16 : 9));
+  const curve = (shift: number) => grid.map((v) => Math.max(0, Math.min(1, (v - 2.5) / 3 + shift)));
+  const ice = [curve(0.1), curve(0), curve(-0.1), curve(0.05)];
+  const average = grid.map((_, g) => ice.reduce((a, c) => a + c[g], 0) / ice.length);
+  return {
+    type: 'dependence',
+    dependence: { feature: 'petal_len', kind: 'numeric', grid, labels: null, output, average, ice, iceRows: [3, 40, 71, 120], counts, boundaries, missing: 2 },
+  };
+}
+
+export function dependenceLevels(): Extract<HostToPanel, { type: 'dependence' }> {
+  return {
+    type: 'dependence',
+    dependence: {
+      feature: 'colour',
+      kind: 'categorical',
+      grid: [0, 1, 2],
+      labels: ['red', HOSTILE_LEVEL, 'blue'],
+      output: 2,
+      average: [0.3, 0.35, 0.31],
+      ice: [
+        [0.2, 0.3, 0.2],
+        [0.4, 0.4, 0.42],
+      ],
+      iceRows: [5, 9],
+      counts: [50, 0, 98],
+      boundaries: [],
+      missing: 0,
+    },
+  };
+}
+
+export function sweepDone(current: number | null): Extract<HostToPanel, { type: 'sweep' }> {
+  return {
+    type: 'sweep',
+    state: 'done',
+    progress: null,
+    text: '4 forests in 2.1 s.',
+    result: {
+      task: 'classification',
+      features: 4,
+      defaultCount: 2,
+      points: [
+        { featuresPerSplit: 1, oobError: 0.08, oobScore: 0.92, seconds: 0.4 },
+        { featuresPerSplit: 2, oobError: 0.066, oobScore: 0.934, seconds: 0.5 },
+        { featuresPerSplit: 3, oobError: 0.053, oobScore: 0.947, seconds: 0.6 },
+        { featuresPerSplit: 4, oobError: 0.06, oobScore: 0.94, seconds: 0.7 },
+      ],
+      best: 3,
+      current,
+    },
+  };
+}

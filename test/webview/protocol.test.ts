@@ -10,7 +10,20 @@ import {
   type PanelState,
   type PanelToHost,
 } from '../../src/protocol/messages';
-import { classificationMap, classificationMessages, classificationSummary, regressionMap, regressionSummary, SUSPECTS } from './fixtures';
+import {
+  classificationMap,
+  classificationMessages,
+  classificationSummary,
+  contributionsMessage,
+  dependenceLevels,
+  dependenceNumeric,
+  globalMessage,
+  regressionMap,
+  regressionSummary,
+  rowVotes,
+  sweepDone,
+  SUSPECTS,
+} from './fixtures';
 
 const clone = <T>(x: T): T => JSON.parse(JSON.stringify(x)) as T;
 
@@ -71,6 +84,76 @@ describe('protocol guards', () => {
       { type: 'revealRow', row: '3' },
       { type: 'refit', leaveOut: [], trees: 0 },
       { type: 'summary', summary: classificationSummary() },
+    ];
+    for (const m of bad) assert.equal(isPanelToHost(m), false, JSON.stringify(m));
+  });
+
+  it('accepts the explanation messages the fixtures build, as plain data', () => {
+    const all: HostToPanel[] = [
+      contributionsMessage(),
+      { type: 'contributions', row: 3, state: 'working', contributions: null, text: 'Working…' },
+      { type: 'contributions', row: null, state: 'unavailable', contributions: null, text: 'Not here.' },
+      globalMessage(40, false),
+      { type: 'globalContributions', global: null, text: 'Working…' },
+      dependenceNumeric(),
+      dependenceLevels(),
+      sweepDone(2),
+      { type: 'sweep', state: 'running', progress: 0.5, text: '', result: null },
+      { type: 'sweep', state: 'cancelled', progress: null, text: 'Sweep cancelled.', result: null },
+      { type: 'disagreement', rows: [{ ...rowVotes(4, 0, 0.1), interval: { level: 0.9, lower: 1, upper: 2 } }] },
+    ];
+    for (const m of all) {
+      assert.ok(isHostToPanel(m), `${m.type} ${JSON.stringify(m).slice(0, 80)}`);
+      assert.deepEqual(clone(m), m, `${m.type} is not plain JSON data`);
+    }
+  });
+
+  it('rejects explanation messages the panel could not draw', () => {
+    const c = contributionsMessage();
+    const d = dependenceNumeric().dependence;
+    const sweep = sweepDone(2).result!;
+    const bad: unknown[] = [
+      { ...c, contributions: null },
+      { ...c, row: 72 },
+      { ...c, state: 'working' },
+      { ...c, contributions: { ...c.contributions!, output: -1 } },
+      // JSON would turn a NaN contribution into null.
+      { ...c, contributions: { ...c.contributions!, features: [{ feature: 'a', value: '1', contribution: null }] } },
+      { type: 'globalContributions', global: { ...globalMessage(1, true).global!, features: [{ feature: 'a', meanAbs: -1 }] }, text: '' },
+      { type: 'dependence', dependence: { ...d, average: d.average.slice(1) } },
+      { type: 'dependence', dependence: { ...d, grid: [...d.grid.slice(0, -1), 0] } },
+      { type: 'dependence', dependence: { ...d, ice: [d.ice[0].slice(1)], iceRows: [1] } },
+      { type: 'dependence', dependence: { ...d, iceRows: [1] } },
+      { type: 'dependence', dependence: { ...d, boundaries: [] } },
+      { type: 'dependence', dependence: { ...d, labels: ['a'] } },
+      { type: 'dependence', dependence: { ...dependenceLevels().dependence, labels: null } },
+      { type: 'sweep', state: 'done', progress: null, text: '', result: null },
+      { type: 'sweep', state: 'done', progress: null, text: '', result: { ...sweep, points: [] } },
+      { type: 'sweep', state: 'busy', progress: null, text: '', result: null },
+      { type: 'disagreement', rows: [{ ...rowVotes(4, 0, 0.1), interval: { level: 0.9, lower: 3, upper: 2 } }] },
+      { type: 'disagreement', rows: [{ ...rowVotes(4, 0, 0.1), interval: { level: 90, lower: 1, upper: 2 } }] },
+    ];
+    for (const m of bad) assert.equal(isHostToPanel(m), false, JSON.stringify(m)?.slice(0, 160));
+  });
+
+  it('accepts the panel’s explanation requests and rejects malformed ones', () => {
+    const good: PanelToHost[] = [
+      { type: 'explainRow', row: 7 },
+      { type: 'chooseDependence', feature: 'a', output: null },
+      { type: 'chooseDependence', feature: 'a', output: 2 },
+      { type: 'runSweep' },
+      { type: 'cancelSweep' },
+      { type: 'sweepRefit', featuresPerSplit: 3 },
+    ];
+    for (const m of good) assert.ok(isPanelToHost(m), JSON.stringify(m));
+    const bad: unknown[] = [
+      { type: 'explainRow', row: 0 },
+      { type: 'explainRow' },
+      { type: 'chooseDependence', feature: 3, output: null },
+      { type: 'chooseDependence', feature: 'a', output: -1 },
+      { type: 'chooseDependence', feature: 'a' },
+      { type: 'sweepRefit', featuresPerSplit: 0 },
+      { type: 'sweepRefit', featuresPerSplit: 2.5 },
     ];
     for (const m of bad) assert.equal(isPanelToHost(m), false, JSON.stringify(m));
   });

@@ -1,14 +1,16 @@
-// Two views of what the forest leans on, side by side in one feature order: impurity decrease
-// (cheap, but favours features with many split points) and permutation drop (costlier, measured on
-// out-of-bag rows) with its spread drawn as whiskers. Different units, so two axes, not one.
+// Three views of what the forest leans on, side by side in one feature order: impurity decrease
+// (cheap, but favours features with many split points), permutation drop (costlier, measured on
+// out-of-bag rows) with its spread drawn as whiskers, and the mean absolute contribution over a sample
+// of rows (worked out in the background, so it fills in later). Different units, so separate axes.
 // Theme colours, not class colours: a bar here is not about any class.
-import type { FeatureImportance, FitSummary } from '../../src/protocol/messages';
+import type { FeatureImportance, FitSummary, GlobalContributions } from '../../src/protocol/messages';
 import { applyTheme, replaceChart } from '../charts';
 import { append, clear, h } from '../dom';
 import { num, percent, truncate } from '../format';
 import { css } from '../palette';
 import type { Theme } from '../theme';
-import type { Chart, Plugin } from 'chart.js';
+import type { Plugin } from 'chart.js';
+import { Chart } from '../charts';
 
 const MAX_FEATURES = 15;
 
@@ -16,13 +18,22 @@ export class ImportanceView {
   readonly root: HTMLElement;
   private readonly impurity: HTMLCanvasElement;
   private readonly permutation: HTMLCanvasElement;
+  private readonly contrib: HTMLCanvasElement;
+  private readonly contribCaption: HTMLElement;
+  private readonly contribNote: HTMLElement;
   private readonly note: HTMLElement;
   private readonly boxes: HTMLElement[];
+  private global: GlobalContributions | null = null;
+  private globalText = '';
+  private last: { s: FitSummary; theme: Theme } | null = null;
 
   constructor() {
     this.impurity = h('canvas', { attrs: { 'aria-label': 'Impurity decrease per feature' } });
     this.permutation = h('canvas', { attrs: { 'aria-label': 'Permutation drop per feature' } });
-    this.boxes = [h('div', { class: 'chart-box' }, this.impurity), h('div', { class: 'chart-box' }, this.permutation)];
+    this.contrib = h('canvas', { attrs: { 'aria-label': 'Mean absolute contribution per feature' } });
+    this.boxes = [h('div', { class: 'chart-box' }, this.impurity), h('div', { class: 'chart-box' }, this.permutation), h('div', { class: 'chart-box' }, this.contrib)];
+    this.contribCaption = h('figcaption', {}, 'Mean |contribution| over sampled rows');
+    this.contribNote = h('p', { class: 'muted contrib-status' });
     this.note = h('p', { class: 'muted' });
     this.root = h(
       'div',
@@ -32,12 +43,34 @@ export class ImportanceView {
         { class: 'pair' },
         h('figure', {}, h('figcaption', {}, 'Impurity decrease (share of total)'), this.boxes[0]),
         h('figure', {}, h('figcaption', {}, 'Drop in OOB score when shuffled (± spread)'), this.boxes[1]),
+        h('figure', { testid: 'importance-contrib' }, this.contribCaption, this.boxes[2], this.contribNote),
       ),
       this.note,
+      h(
+        'p',
+        { class: 'muted', testid: 'importance-bias' },
+        'Why the three can disagree: impurity decrease favours features with many distinct values or levels, because they offer more split points and so win splits by chance more often, even when they carry no signal ' +
+          '(Strobl, Boulesteix, Zeileis & Hothorn 2007, “Bias in random forest variable importance measures”, BMC Bioinformatics 8:25; cited from memory). ' +
+          'Permutation drop asks what is lost when a feature’s values are shuffled on rows the trees did not see. Mean |contribution| measures, row by row and in the prediction’s own units, how far each feature moves this forest’s output; it follows the trees’ splits, so it is not free of that bias either.',
+      ),
     );
   }
 
+  /** The global view, as the background sample grows; null with a note while there is nothing yet. */
+  setGlobal(global: GlobalContributions | null, text: string): void {
+    this.global = global;
+    this.globalText = text;
+    if (this.last) this.draw(this.last.s, this.last.theme);
+  }
+
+  /** A new fit: the last forest's global view no longer applies. */
+  reset(): void {
+    this.global = null;
+    this.globalText = '';
+  }
+
   draw(s: FitSummary, theme: Theme): void {
+    this.last = { s, theme };
     applyTheme(theme);
     const hasPerm = s.importance.some((m) => m.permutation !== null);
     const order = [...s.importance].sort((a, b) => key(b, hasPerm) - key(a, hasPerm));
@@ -82,10 +115,43 @@ export class ImportanceView {
       plugins: [whiskers(spread, css(theme.foreground))],
     });
 
+    this.drawGlobal(shown, labels, tooltipTitle, theme);
+
     clear(this.note);
     if (!hasPerm) append(this.note, 'Permutation importance was not computed for this fit. ');
     if (order.length > shown.length) append(this.note, `${order.length - shown.length} less important features not shown. `);
     append(this.note, 'A negative drop means shuffling the feature did not hurt: treat it as no evidence of use.');
+  }
+
+  private drawGlobal(shown: FeatureImportance[], labels: string[], tooltipTitle: (items: Array<{ dataIndex: number }>) => string, theme: Theme): void {
+    const g = this.global;
+    clear(this.contribNote);
+    this.boxes[2].classList.toggle('hidden', !g || g.rows === 0);
+    if (!g || g.rows === 0) {
+      Chart.getChart(this.contrib)?.destroy();
+      append(this.contribNote, this.globalText || 'Not worked out yet.');
+      return;
+    }
+    // Same feature order as the other two charts, so a feature sits on the same line in all three.
+    const by = new Map(g.features.map((f) => [f.feature, f.meanAbs]));
+    const values = shown.map((m) => by.get(m.feature) ?? null);
+    replaceChart(this.contrib, {
+      type: 'bar',
+      data: { labels, datasets: [{ data: values, backgroundColor: css(theme.increase, 0.8), barPercentage: 0.8 }] },
+      options: {
+        indexAxis: 'y',
+        responsive: true,
+        maintainAspectRatio: false,
+        plugins: { legend: { display: false }, tooltip: { callbacks: { title: tooltipTitle, label: (c) => num(c.parsed.x) } } },
+        scales: { x: { beginAtZero: true, ticks: { callback: (v) => num(Number(v)) } }, y: { ticks: { autoSkip: false } } },
+      },
+    });
+    append(
+      this.contribNote,
+      g.done
+        ? `Over ${g.rows} randomly drawn training rows${g.rows < g.planned ? ` (the time allowed ran out before ${g.planned})` : ''}; summed over classes for a classifier.`
+        : `Over ${g.rows} of ${g.planned} sampled rows so far…`,
+    );
   }
 }
 

@@ -14,7 +14,10 @@ export class VotesView {
   private summary: FitSummary | null = null;
   private theme: Theme | null = null;
 
-  constructor(private readonly reveal: (row: number) => void) {
+  constructor(
+    private readonly reveal: (row: number) => void,
+    private readonly explain: (row: number) => void = () => undefined,
+  ) {
     this.group = custom('vscode-checkbox', { testid: 'group-votes', attrs: { label: 'Group trees by vote' } }) as HTMLElement & { checked: boolean };
     this.group.addEventListener('change', () => this.draw());
     this.list = h('div', { class: 'vote-list' });
@@ -87,6 +90,8 @@ export class VotesView {
       stat('agreement', percent(r.agreement, 1)),
       classification ? stat('vote entropy', `${fixed(r.entropy, 2)} bits`) : stat('spread of votes', num(sd(r.votes))),
       stat('out-of-bag trees', count(r.outOfBag.length)),
+      r.interval ? stat(`${Number((r.interval.level * 100).toFixed(1))}% interval`, h('span', { testid: 'row-interval' }, `${num(r.interval.lower)} to ${num(r.interval.upper)}`)) : null,
+      h('button', { class: 'row-link', testid: 'explain-row', attrs: { type: 'button' }, title: 'Chart how each feature moved this row’s prediction', on: { click: () => this.explain(r.row) } }, 'Explain'),
     );
     const counts = classification
       ? h(
