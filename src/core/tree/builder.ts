@@ -136,6 +136,7 @@ export function growTree(
   const channels = target.kind === 'classes' ? target.classes : 2;
   const outputs = target.kind === 'classes' ? target.classes : 1;
   const score = sideScore(settings.criterion);
+  const gini = settings.criterion === 'gini';
   const hist = new Histogram(channels);
   const nodes = new NodeArrays(outputs);
   const impurityDecrease = new Float64Array(p);
@@ -178,7 +179,7 @@ export function growTree(
         order[j] = f;
         if (target.kind === 'classes') hist.addClasses(bins, p, f, idx, start, end, target.y, w);
         else hist.addValues(bins, p, f, idx, start, end, target.y, w);
-        if (hist.scan(f, data.valueBins[f], data.categorical[f] === 1, total, count, settings.minLeaf, score, levelKey, best)) tried++;
+        if (hist.scan(f, data.valueBins[f], data.categorical[f] === 1, total, count, settings.minLeaf, score, levelKey, best, gini)) tried++;
         hist.clear();
       }
       if (best.feature < 0) leaf = true;

@@ -97,6 +97,7 @@ export class Histogram {
     score: SideScore,
     levelKey: (ch: Float64Array, offset: number) => number,
     best: SplitCandidate,
+    gini = false,
   ): boolean {
     const { ch, cnt, channels, left, right, order } = this;
     const missingCount = cnt[valueBins];
@@ -115,6 +116,10 @@ export class Histogram {
       for (let b = 0; b < valueBins; b++) if (cnt[b] > 0) order[m++] = b;
     }
     this.orderCount = m;
+    if (gini && missingCount === 0) {
+      this.scanGini(f, m, categorical, total, totalCount, minLeaf, best);
+      return true;
+    }
     const mo = valueBins * channels;
     left.fill(0);
     let leftCount = 0;
@@ -148,6 +153,45 @@ export class Histogram {
       }
     }
     return true;
+  }
+
+  /**
+   * The common case, Gini with no missing rows in the node, with the sums of squares kept up to date as bins
+   * move left instead of recomputed per candidate: the same scores, in a third of the arithmetic.
+   */
+  private scanGini(f: number, m: number, categorical: boolean, total: Float64Array, totalCount: number, minLeaf: number, best: SplitCandidate): void {
+    const { ch, cnt, channels, left, right, order } = this;
+    let wl = 0;
+    let wr = 0;
+    let sql = 0;
+    let sqr = 0;
+    for (let k = 0; k < channels; k++) {
+      left[k] = 0;
+      right[k] = total[k];
+      wr += total[k];
+      sqr += total[k] * total[k];
+    }
+    let leftCount = 0;
+    for (let i = 0; i < m - 1; i++) {
+      const b = order[i];
+      const o = b * channels;
+      for (let k = 0; k < channels; k++) {
+        const c = ch[o + k];
+        if (c === 0) continue;
+        const l = left[k];
+        const r = right[k];
+        sql += c * (2 * l + c);
+        sqr += c * (c - 2 * r);
+        left[k] = l + c;
+        right[k] = r - c;
+        wl += c;
+        wr -= c;
+      }
+      leftCount += cnt[b];
+      if (leftCount < minLeaf || totalCount - leftCount < minLeaf) continue;
+      const s = sql / wl + sqr / wr;
+      if (s > best.score) this.record(best, s, f, i, b, false, categorical, false);
+    }
   }
 
   private record(best: SplitCandidate, s: number, f: number, i: number, b: number, missingLeft: boolean, categorical: boolean, sawMissing: boolean): void {
