@@ -1,11 +1,12 @@
 // Measures what the extension host does after a fit, on a generated table (Friedman #1 function, plus a
 // categorical column and a quoted multi-line field so the line map works for its living): hover latency,
-// map scoring, whole-table scoring, and how long the host's own event loop is held up meanwhile.
-// A measurement, not a test: nothing here asserts a time.
+// map scoring, whole-table scoring, explanations on their thread, and how long the host's own event loop
+// is held up meanwhile. A measurement, not a test: nothing here asserts a time.
 //
-//   npx tsc -p tsconfig.json && node out/test/extension/measure-host.js [--rows 20000] [--trees 100] [--classes 1]
+//   npx tsc -p tsconfig.json && node out/test/extension/measure-host.js [--rows 20000] [--trees 100] [--classes 1] [--sweep 1]
 //
 // --classes 1 turns y into two classes (above or below 14) with 5% of labels flipped, so suspects exist.
+// --sweep 1 also times the features-per-split sweep (it refits several forests, so it is off by default).
 
 import { promises as fs } from 'node:fs';
 import * as os from 'node:os';
@@ -14,6 +15,10 @@ import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { loadCsv } from '../../src/core/csv/load';
 import { fitForest } from '../../src/core/forest/fit';
 import { Scorer } from '../../src/core/forest/scorer';
+import { sweepFeaturesPerSplit } from '../../src/core/explain/index';
+import { ExplainClient } from '../../src/extension/workers/explainClient';
+import { sweepOptions } from '../../src/extension/fit/sweep';
+import { choicesFrom } from '../../src/extension/fit/choices';
 import { ForestSession } from '../../src/extension/session/session';
 import { buildSummary } from '../../src/extension/summary/summary';
 import { readSettings } from '../../src/extension/settings';
@@ -81,6 +86,8 @@ async function main(): Promise<void> {
         oob: { trainRows: report.trainRows, inBag: report.rows.inBag, margin: report.rows.margin },
         summary,
         scorer: new Scorer(report.forest),
+        explainer: (setup) => new ExplainClient(setup),
+        quantiles: { from: 'fit', report },
       }),
     );
     console.log(`${'suspect rows found'.padEnd(44)} ${String(session.suspects(1e9).length).padStart(11)}`);
@@ -109,6 +116,61 @@ async function main(): Promise<void> {
     await timed(`map ${panel.gridResolution}x${panel.gridResolution}, averaged over ${panel.dependenceRows} rows`, () => session.regionMap('x1', 'x2', { mode: 'averaged' }, panel));
     await timed(`map ${panel.gridResolution} x 3 levels (x4 by colour), typical`, () => session.regionMap('x4', 'colour', { mode: 'typical' }, panel));
     await timed(`small maps (pairs of top ${panel.pairFeatures})`, () => session.mapMatrix(panel, 10));
+
+    // Explanations, on their own thread.
+    const level = 0.9;
+    if (session.explanations?.regression) {
+      session.explanations.prepareIntervals(level);
+      await timed(`intervals at ${level} for all ${rows} rows (background)`, async () => {
+        for (let r = 0; r < rows; r += 997) await session.hoverInterval(r, level, 'idle');
+        await session.hoverInterval(rows - 1, level, 'idle');
+      });
+      const iv: number[] = [];
+      for (let k = 0; k < 200; k++) {
+        const t = performance.now();
+        await session.hoverInterval(Math.floor(r() * rows), level);
+        iv.push(performance.now() - t);
+      }
+      console.log(`${'hover interval part (200 rows, all computed)'.padEnd(44)} ${stats(iv)}`);
+    }
+    const lag = monitorEventLoopDelay({ resolution: 5 });
+    lag.enable();
+    const cold: number[] = [];
+    const hoverRows = Array.from({ length: 30 }, () => Math.floor(r() * rows));
+    for (const row of hoverRows) {
+      const t = performance.now();
+      await session.hoverContributions(row);
+      cold.push(performance.now() - t);
+    }
+    lag.disable();
+    console.log(`${'hover contributions part, first time (30)'.padEnd(44)} ${stats(cold)}   host event loop held up at most ${ms(lag.max / 1e6)}`);
+    const warm: number[] = [];
+    for (const row of hoverRows) {
+      const t = performance.now();
+      await session.hoverContributions(row);
+      warm.push(performance.now() - t);
+    }
+    console.log(`${'hover contributions part, hovered again (30)'.padEnd(44)} ${stats(warm)}`);
+    // A hover arriving while the global view works in the background waits for at most one row.
+    const busy: number[] = [];
+    const global = session.globalContributions(() => undefined);
+    for (let k = 0; k < 10; k++) {
+      await new Promise((res) => setTimeout(res, 200));
+      const t = performance.now();
+      await session.hoverContributions(Math.floor(r() * rows));
+      busy.push(performance.now() - t);
+    }
+    console.log(`${'hover contributions during the global view (10)'.padEnd(44)} ${stats(busy)}`);
+    const g = await timed('global view (rest of the background sample)', () => global);
+    console.log(`${'global view rows'.padEnd(44)} ${String(g.rows).padStart(11)} of ${g.planned}`);
+    await timed('dependence on x1 (200 rows x 40 points)', () => session.dependence('x1', null));
+    await timed('dependence on colour (levels)', () => session.dependence('colour', null));
+    if (arg('sweep', 0) === 1) {
+      const training = readSettings({ get: () => undefined }).settings.training;
+      const choices = { ...choicesFrom(training, 'y', report.forest.schema.target.task), trees };
+      const sweep = await timed(`features-per-split sweep (${trees} trees a forest)`, () => sweepFeaturesPerSplit(load.table, sweepOptions(choices, training)));
+      console.log(`${'sweep forests'.padEnd(44)} ${sweep.points.map((q) => `${q.featuresPerSplit}: ${q.oobError.toPrecision(4)} (${q.seconds.toFixed(1)} s)`).join(', ')}; best ${sweep.best}`);
+    }
     await session.dispose();
   } finally {
     await fs.rm(dir, { recursive: true, force: true });
