@@ -12,7 +12,8 @@ import { Scorer } from '../../src/core/forest/scorer';
 import { isHostToPanel } from '../../src/protocol/messages';
 import type { GlobalContributions } from '../../src/protocol/messages';
 import { ForestSession } from '../../src/extension/session/session';
-import { dependenceMessage, largestContributions } from '../../src/extension/session/explanations';
+import { dependenceMessage, Explanations, largestContributions } from '../../src/extension/session/explanations';
+import type { ExplainerLike } from '../../src/extension/workers/explainClient';
 import { buildSummary } from '../../src/extension/summary/summary';
 import { ExplainClient } from '../../src/extension/workers/explainClient';
 import { fitFixture, FIXTURES, type Fitted } from './helpers';
@@ -231,6 +232,55 @@ describe('extension explanations without the fit in memory', function () {
     assert.match((await other.hoverInterval(0, 0.9))!, /^No 90% prediction interval: the rows here are not the ones this forest was fitted on \(The forest was fitted on 1000 rows/);
     assert.deepEqual(other.rowVotes([1], 0.9)[0].interval, undefined);
     await other.dispose();
+  });
+});
+
+describe('extension explanation requests', function () {
+  this.timeout(60_000);
+
+  /** An explainer that never answers, recording each request and whether it was withdrawn. */
+  function recorder(): { explainer: ExplainerLike; runs: Array<{ signal?: AbortSignal }> } {
+    const runs: Array<{ signal?: AbortSignal }> = [];
+    const explainer: ExplainerLike = {
+      run: (_request, _urgency, signal) =>
+        new Promise((_resolve, reject) => {
+          runs.push({ signal });
+          signal?.addEventListener('abort', () => reject(Object.assign(new Error('withdrawn'), { name: 'AbortError' })));
+        }),
+      dispose: async () => undefined,
+    };
+    return { explainer, runs };
+  }
+
+  it('withdraws a row only when everyone who asked for it has gone, and asks afresh after', async () => {
+    const f = await fitFixture(path.join(FIXTURES, 'iris.csv'), 'species', { trees: 5, seed: 1 });
+    try {
+      const { explainer, runs } = recorder();
+      const e = new Explanations(f.report.forest, explainer, f.session.encoded, 150, f.session.trainRows, 1);
+      const a = new AbortController();
+      const b = new AbortController();
+      const first = e.rowContributions(7, 'now', a.signal);
+      const second = e.rowContributions(7, 'now', b.signal);
+      assert.equal(first, second, 'one request for one row');
+      assert.equal(runs.length, 1);
+      a.abort();
+      assert.equal(runs[0].signal!.aborted, false, 'someone still waits');
+      b.abort();
+      assert.equal(runs[0].signal!.aborted, true);
+      await assert.rejects(first, { name: 'AbortError' });
+      e.rowContributions(7, 'now', new AbortController().signal).catch(() => undefined);
+      assert.equal(runs.length, 2, 'a withdrawn row is asked for again');
+
+      // Asked for without a signal (the panel's global view, a prefetch), a row is never withdrawn.
+      const c = new AbortController();
+      e.rowContributions(9, 'idle').catch(() => undefined);
+      e.rowContributions(9, 'now', c.signal).catch(() => undefined);
+      c.abort();
+      assert.equal(runs.length, 3);
+      assert.equal(runs[2].signal!.aborted, false);
+    } finally {
+      await f.session.dispose();
+    }
   });
 });
 

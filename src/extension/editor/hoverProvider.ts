@@ -49,12 +49,18 @@ export function registerHover(ctx: CopseContext, docs: CsvDocuments): vscode.Dis
     async provideHover(doc, position, token) {
       const at = await rowAt(doc, position);
       if (!at || !at.session.explanations) return undefined;
-      const work = at.kind === 'fitted' ? at.session.hoverContributions(at.row) : at.session.hoverOtherContributions(at.file, at.row);
+      // A hover dismissed before its row reached the thread withdraws the request: skimming down a file
+      // must not leave a queue of rows nobody is looking at any more.
+      const gone = new AbortController();
+      const sub = token.onCancellationRequested(() => gone.abort());
+      const work = at.kind === 'fitted' ? at.session.hoverContributions(at.row, 'now', gone.signal) : at.session.hoverOtherContributions(at.file, at.row, gone.signal);
       try {
         return part(await untilCancelled(work, token, CONTRIBUTIONS_WAIT_MS), doc, position);
       } catch (e) {
         warnOnce('Hover contributions', e);
         return undefined;
+      } finally {
+        sub.dispose();
       }
     },
   });

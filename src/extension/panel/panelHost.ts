@@ -49,6 +49,8 @@ export class PanelHost implements vscode.Disposable {
   private mapTicket = 0;
   /** The same for the contribution chart and the dependence view. */
   private explainTicket = 0;
+  /** Withdraws the chart's previous row when a newer one is asked for before it reached the thread. */
+  private explainWithdraw: AbortController | undefined;
   private dependenceTicket = 0;
   /** While the last fit is being brought back after a reload, the panel says so rather than "no forest". */
   private restoring = false;
@@ -339,9 +341,11 @@ export class PanelHost implements vscode.Disposable {
     const note = setTimeout(() => {
       if (ticket === this.explainTicket) this.post({ type: 'contributions', row, state: 'working', contributions: null, text: `Working out row ${row}’s contributions…` });
     }, WORKING_NOTE_MS);
+    this.explainWithdraw?.abort();
+    const withdraw = (this.explainWithdraw = new AbortController());
     try {
       const started = performance.now();
-      const c = await session.contributions(row);
+      const c = await session.contributions(row, 'now', withdraw.signal);
       if (ticket !== this.explainTicket || session !== this.ctx.session) return;
       this.ctx.log.debug(`Contributions of row ${row} in ${Math.round(performance.now() - started)} ms.`);
       shown.contributions = c;

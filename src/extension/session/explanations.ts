@@ -65,6 +65,17 @@ class Recent<V> {
   }
 }
 
+/**
+ * A row's contributions, asked for by one or more callers. A caller may give a signal: when every caller
+ * that did has gone (a hover dismissed, a selection moved on) and none asked without one, the request is
+ * withdrawn if it has not reached the thread yet.
+ */
+interface Pending {
+  readonly promise: Promise<RowContribution>;
+  readonly withdraw: AbortController;
+  interest: number;
+}
+
 interface IntervalTable {
   readonly level: number;
   readonly lower: Float64Array;
@@ -77,7 +88,7 @@ export class Explanations {
   private readonly p: number;
   private readonly outputs: number;
   /** Per scope (the fitted table, or another scored file): contributions of its rows by row. */
-  private readonly rows = new WeakMap<object, Recent<Promise<RowContribution>>>();
+  private readonly rows = new WeakMap<object, Recent<Pending>>();
   private readonly otherIntervals = new WeakMap<object, Recent<Promise<IntervalAnswer>>>();
   private intervals: IntervalTable | undefined;
   private readonly dependenceByFeature = new Map<number, Promise<PartialDependence>>();
@@ -110,8 +121,8 @@ export class Explanations {
   // Contributions
 
   /** All outputs' contributions for row r of the fitted table; computed once. */
-  rowContributions(r: number, urgency: Urgency): Promise<RowContribution> {
-    return this.contributions(this.table, r, this.encoded, urgency);
+  rowContributions(r: number, urgency: Urgency, signal?: AbortSignal): Promise<RowContribution> {
+    return this.contributions(this.table, r, this.encoded, urgency, signal);
   }
 
   /**
@@ -133,20 +144,31 @@ export class Explanations {
   }
 
   /** All outputs' contributions for row r of `scope`, another scored file whose encoded rows are x. */
-  contributions(scope: object, r: number, x: Float64Array, urgency: Urgency): Promise<RowContribution> {
+  contributions(scope: object, r: number, x: Float64Array, urgency: Urgency, signal?: AbortSignal): Promise<RowContribution> {
     let cache = this.rows.get(scope);
     if (!cache) this.rows.set(scope, (cache = new Recent(ROW_CACHE)));
-    const known = cache.get(r);
-    if (known) {
-      this.explainer.raise?.(known, urgency);
-      return known;
+    const rows = cache;
+    let entry = rows.get(r);
+    if (entry) this.explainer.raise?.(entry.promise, urgency);
+    else {
+      const { p } = this;
+      const withdraw = new AbortController();
+      const promise = this.explainer.run({ kind: 'contributions', x: x.slice(r * p, r * p + p), rows: 1 }, urgency, withdraw.signal);
+      const made: Pending = { promise, withdraw, interest: 0 };
+      entry = made;
+      rows.set(r, made);
+      // A failure (or a withdrawal) is not kept: the next hover may ask again.
+      promise.catch(() => {
+        if (rows.get(r) === made) rows.delete(r);
+      });
     }
-    const { p } = this;
-    const promise = this.explainer.run({ kind: 'contributions', x: x.slice(r * p, r * p + p), rows: 1 }, urgency);
-    cache.set(r, promise);
-    // A failure is not kept: the next hover may ask again.
-    promise.catch(() => cache.delete(r));
-    return promise;
+    const e = entry;
+    if (!signal) e.interest = Infinity;
+    else if (e.interest !== Infinity && !signal.aborted) {
+      e.interest++;
+      signal.addEventListener('abort', () => --e.interest === 0 && e.withdraw.abort(), { once: true });
+    }
+    return e.promise;
   }
 
   /** The contributions to the output shown for a row: the predicted class, or the value. */

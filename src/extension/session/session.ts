@@ -203,10 +203,10 @@ export class ForestSession {
   }
 
   /** The hover's contributions part for a table row, once computed; undefined without explanations. */
-  async hoverContributions(tableRow: number, urgency: Urgency = 'now'): Promise<string | undefined> {
+  async hoverContributions(tableRow: number, urgency: Urgency = 'now', signal?: AbortSignal): Promise<string | undefined> {
     const e = this.explanations;
     if (!e) return undefined;
-    return this.contributionsText(this.store, tableRow, await e.rowContributions(tableRow, urgency));
+    return this.contributionsText(this.store, tableRow, await e.rowContributions(tableRow, urgency, signal));
   }
 
   /** The hover's interval part for a table row (regression), or why there is none. */
@@ -216,10 +216,10 @@ export class ForestSession {
     return this.intervalText(await e.interval(tableRow, level, urgency), level);
   }
 
-  async hoverOtherContributions(file: ScoredFile, tableRow: number): Promise<string | undefined> {
+  async hoverOtherContributions(file: ScoredFile, tableRow: number, signal?: AbortSignal): Promise<string | undefined> {
     const e = this.explanations;
     if (!e) return undefined;
-    return this.contributionsText(file.store, tableRow, await e.contributions(file, tableRow, file.encoded, 'now'));
+    return this.contributionsText(file.store, tableRow, await e.contributions(file, tableRow, file.encoded, 'now', signal));
   }
 
   async hoverOtherInterval(file: ScoredFile, tableRow: number, level: number): Promise<string | undefined> {
@@ -313,11 +313,11 @@ export class ForestSession {
   }
 
   /** The full contribution chart of one data row, for the predicted class (or the value). */
-  async contributions(dataRow: number, urgency: Urgency = 'now'): Promise<RowContributions> {
+  async contributions(dataRow: number, urgency: Urgency = 'now', signal?: AbortSignal): Promise<RowContributions> {
     const e = this.requireExplanations();
     const r = this.numbering.tableRow(dataRow);
     if (r === undefined) throw new RangeError(`Row ${dataRow} is not among the rows the forest was shown against.`);
-    const c = await e.rowContributions(r, urgency);
+    const c = await e.rowContributions(r, urgency, signal);
     const ex = e.explanationOf(c, this.task === 'classification' ? this.store.answer(r).predicted : null);
     return rowContributionsMessage(this.forest, this.encoded, r * this.p, dataRow, ex);
   }
