@@ -1,6 +1,6 @@
 // Hover wording from synthetic per-tree votes, where every count is known by construction.
 import * as assert from 'node:assert/strict';
-import { escapeMd, hoverMarkdown } from '../../src/extension/editor/hoverText';
+import { contributionsMarkdown, escapeMd, formatContribution, formatLevel, hoverMarkdown, intervalMarkdown } from '../../src/extension/editor/hoverText';
 import { breimanMargin, majority, RowStore, voteEntropy } from '../../src/extension/session/rowStore';
 import type { Prediction } from '../../src/core/forest/predict';
 
@@ -103,5 +103,38 @@ describe('extension hover text', () => {
     assert.equal(voteEntropy([10, 0, 0]), 0);
     assert.equal(majority([2, 3, 3]), 1);
     assert.equal(majority([0, 0]), -1);
+  });
+
+  it('writes contributions signed with about two significant digits, and sums the rest', () => {
+    assert.deepEqual([0.3124, -0.0123, 0, -0, 3.456, -123.4, 1e-5].map(formatContribution), ['+0.31', '\u22120.012', '+0', '+0', '+3.5', '\u2212123', '+0.00001']);
+    const md = contributionsMarkdown({
+      className: 'virginica',
+      target: 'species',
+      base: 1 / 3,
+      prediction: 0.9,
+      top: [
+        { feature: 'petal_width', contribution: 0.31 },
+        { feature: 'petal_length', contribution: 0.27 },
+        { feature: 'sepal_width', contribution: -0.02 },
+      ],
+      others: 1,
+      rest: -0.0013,
+    });
+    assert.match(md, /to the probability of virginica \(from 0\.3333 on average to 0\.9 here\): petal\\_width \+0\.31 · petal\\_length \+0\.27 · sepal\\_width \u22120\.02 · 1 other \u22120\.0013/);
+    const value = contributionsMarkdown({ target: 'price', base: 230, prediction: 262, top: [{ feature: 'area', contribution: 32 }], others: 0, rest: 0 });
+    assert.match(value, /to the predicted price \(from 230 on average to 262 here\): area \+32\n/);
+    assert.doesNotMatch(value, /other/);
+  });
+
+  it('escapes names in the explanation parts, so a feature cannot add links or markup', () => {
+    const md = contributionsMarkdown({ className: '[c](command:x)', target: 't', base: 0, prediction: 1, top: [{ feature: '**[a](http://x)**', contribution: 1 }], others: 0, rest: 0 });
+    assert.doesNotMatch(md, /\[a\]\(http/);
+    assert.doesNotMatch(md, /\[c\]\(command/);
+    assert.doesNotMatch(intervalMarkdown(0.9, 1, 2, '[y](command:z)'), /\[y\]\(command/);
+  });
+
+  it('names the interval by its level and gives both ends', () => {
+    assert.deepEqual([0.9, 0.95, 0.975, 0.5].map(formatLevel), ['90%', '95%', '97.5%', '50%']);
+    assert.match(intervalMarkdown(0.8, 10.25, 14.5, 'y'), /^\*\*80% prediction interval\*\* for y: 10\.25 to 14\.5\n/);
   });
 });

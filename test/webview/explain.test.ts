@@ -104,7 +104,7 @@ describe('panel explanations (headless Chromium)', function () {
     await p.send(globalMessage(30, false));
     assert.match((await p.page.textContent(fig)) ?? '', /Over 30 of 100 sampled rows so far/);
     await p.send(globalMessage(100, true));
-    assert.match((await p.page.textContent(fig)) ?? '', /Over 100 randomly drawn training rows; summed over classes/);
+    assert.match((await p.page.textContent(fig)) ?? '', /Over 100 randomly drawn rows; summed over classes/);
     const [bars] = await colourCounts(p, `${fig} canvas`, [parseHex('#000000')]);
     assert.equal(bars, 0, 'bars are not black: they carry a theme colour with some transparency');
     const painted = (await p.page.evaluate(`(() => {
@@ -122,10 +122,10 @@ describe('panel explanations (headless Chromium)', function () {
   it('draws one feature’s curves with the data’s spread, and names where there are no training rows', async () => {
     await p.send(dependenceNumeric());
     const note = (await p.page.textContent('[data-testid=dependence-note]')) ?? '';
-    assert.match(note, /average over 4 sampled training rows/);
-    assert.match(note, /No training rows between 2\.25 and 2\.75:/);
+    assert.match(note, /average over 4 sampled rows/);
+    assert.match(note, /No rows between 2\.25 and 2\.75:/);
     // 3 cells of 16 rows below the gap, 9 of 9 above it, and 2 missing: 131 in all.
-    assert.match(note, /where the 131 training rows lie/);
+    assert.match(note, /where all 131 rows the forest is shown with lie/);
     assert.match(note, /2 rows \(1\.5%\) have no value for petal_len/);
     const table = await texts(p, '[data-testid=dependence-table] tbody tr th');
     assert.equal(table.length, 13);
@@ -161,7 +161,7 @@ describe('panel explanations (headless Chromium)', function () {
     await p.send(dependenceLevels());
     const rows = await texts(p, '[data-testid=dependence-table] tbody tr th');
     assert.deepEqual(rows, ['red', HOSTILE_LEVEL, 'blue']);
-    assert.match((await p.page.textContent('[data-testid=dependence-note]')) ?? '', new RegExp(`No training rows at ${HOSTILE_LEVEL.replace(/[<>/]/g, (c) => `\\${c}`)}:`));
+    assert.match((await p.page.textContent('[data-testid=dependence-note]')) ?? '', new RegExp(`No rows at ${HOSTILE_LEVEL.replace(/[<>/]/g, (c) => `\\${c}`)}:`));
   });
 
   it('asks the host for a sweep, shows its progress with a cancel button, then the errors with the best marked', async () => {

@@ -1,6 +1,6 @@
 // How the forest's output moves with one feature while every other feature keeps each row's own value:
 // one thin curve per sampled row (individual conditional expectation), their mean drawn bold (partial
-// dependence), and under them where the training rows actually lie along the axis, so a curve drawn over
+// dependence), and under them where the rows actually lie along the axis, so a curve drawn over
 // empty ground is seen to be extrapolation. Every number comes from the host.
 import type { Chart, Plugin } from 'chart.js';
 import type { Dependence, FitSummary } from '../../src/protocol/messages';
@@ -127,7 +127,7 @@ export class DependenceView {
               },
               label: (item) => {
                 const g = item.dataIndex;
-                return [`average ${what}: ${num(d.average[g])}`, `training rows in this cell: ${count(d.counts[g])}`];
+                return [`average ${what}: ${num(d.average[g])}`, `rows in this cell: ${count(d.counts[g])}`];
               },
             },
           },
@@ -145,18 +145,18 @@ export class DependenceView {
     const empty = emptyRanges(d);
     append(
       this.note,
-      `Bold: the average over ${d.ice.length} sampled training rows; thin: each of those rows with only ${d.feature} changed. ` +
-        `Bars along the bottom: where the ${count(total)} training rows lie.`,
+      `Bold: the average over ${d.ice.length} sampled rows; thin: each of those rows with only ${d.feature} changed. ` +
+        `Bars along the bottom: where all ${count(total)} rows the forest is shown with lie (its training rows, for a forest fitted here).`,
     );
     if (empty.length > 0) {
-      append(this.note, ' ', h('strong', {}, 'No training rows ' + empty.join(', ') + ':'), ' the curve there is the forest extrapolating.');
+      append(this.note, ' ', h('strong', {}, 'No rows ' + empty.join(', ') + ':'), ' the curve there is the forest extrapolating.');
     }
     if (d.missing > 0) append(this.note, ` ${count(d.missing)} rows (${percent(d.missing / Math.max(1, total), 1)}) have no value for ${d.feature} and are not on the axis.`);
     append(this.table, tableOf(d, what));
   }
 }
 
-/** Where the grid's cells hold no training row, as text ("between 0.4 and 0.6", "at level x"). */
+/** Where the grid's cells hold no row, as text ("between 0.4 and 0.6", "at level x"). */
 export function emptyRanges(d: Dependence): string[] {
   const out: string[] = [];
   if (d.kind !== 'numeric') {
@@ -179,7 +179,7 @@ export function emptyRanges(d: Dependence): string[] {
   return out;
 }
 
-/** Draws each cell's share of the training rows as a bar along the bottom, and tints cells that hold none. */
+/** Draws each cell's share of the rows as a bar along the bottom, and tints cells that hold none. */
 function distribution(d: Dependence, bar: string, emptyTint: string): Plugin<'line'> {
   return {
     id: 'copseDistribution',
@@ -225,7 +225,7 @@ function tableOf(d: Dependence, what: string): HTMLElement {
     h(
       'table',
       { class: 'score-table', testid: 'dependence-table' },
-      h('thead', {}, h('tr', {}, h('th', { attrs: { scope: 'col' } }, d.feature), h('th', { attrs: { scope: 'col' } }, `average ${what}`), h('th', { attrs: { scope: 'col' } }, 'training rows in cell'))),
+      h('thead', {}, h('tr', {}, h('th', { attrs: { scope: 'col' } }, d.feature), h('th', { attrs: { scope: 'col' } }, `average ${what}`), h('th', { attrs: { scope: 'col' } }, 'rows in cell'))),
       h('tbody', {}, ...rows),
     ),
   );

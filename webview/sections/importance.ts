@@ -149,7 +149,7 @@ export class ImportanceView {
     append(
       this.contribNote,
       g.done
-        ? `Over ${g.rows} randomly drawn training rows${g.rows < g.planned ? ` (the time allowed ran out before ${g.planned})` : ''}; summed over classes for a classifier.`
+        ? `Over ${g.rows} randomly drawn rows${g.rows < g.planned ? ` (the time allowed ran out before ${g.planned})` : ''}; summed over classes for a classifier.`
         : `Over ${g.rows} of ${g.planned} sampled rows so far…`,
     );
   }

@@ -8,7 +8,7 @@ import type { Dependence, FitSummary, GlobalContributions, ReferenceChoice, Regi
 import type { FitReport, Forest, Prediction, Table } from '../engine';
 import { cellText, encodeTable, findColumn } from '../engine';
 import { formatNumber, formatShare } from '../format';
-import { contributionsMarkdown, hoverMarkdown, intervalMarkdown, type HoverContext } from '../editor/hoverText';
+import { contributionsMarkdown, formatLevel, hoverMarkdown, intervalMarkdown, type HoverContext } from '../editor/hoverText';
 import type { ExplainerLike, Urgency } from '../workers/explainClient';
 import type { ExplainSetup } from '../workers/explainJobs';
 import {
@@ -250,7 +250,7 @@ export class ForestSession {
   }
 
   private intervalText(a: IntervalAnswer, level: number): string {
-    if ('unavailable' in a) return `No ${Math.round(level * 1000) / 10}% prediction interval: ${a.unavailable}`;
+    if ('unavailable' in a) return `No ${formatLevel(level)} prediction interval: ${a.unavailable}`;
     return intervalMarkdown(a.level, a.lower, a.upper, this.forest.schema.target.name);
   }
 

@@ -22,7 +22,6 @@ interface Job {
   readonly request: RequestOf<ExplainKind>;
   readonly resolve: (r: ExplainResults[ExplainKind]) => void;
   readonly reject: (e: Error) => void;
-  started: number;
   promise?: Promise<unknown>;
 }
 
@@ -36,8 +35,6 @@ export class ExplainClient implements ExplainerLike {
   private running: Job | undefined;
   private nextId = 0;
   private failed?: Error;
-  /** Milliseconds each finished request took on the thread, most recent last (kept short). */
-  readonly timings: Array<{ kind: ExplainKind; ms: number }> = [];
 
   constructor(setup: ExplainSetup) {
     // Beside this file both when compiled by tsc (out/src/extension/workers) and when bundled (dist/).
@@ -54,7 +51,7 @@ export class ExplainClient implements ExplainerLike {
     if (signal?.aborted) return Promise.reject(cancelled());
     let job!: Job;
     const promise = new Promise<ExplainResults[K]>((resolve, reject) => {
-      job = { id: this.nextId++, request, resolve: resolve as Job['resolve'], reject, started: 0 };
+      job = { id: this.nextId++, request, resolve: resolve as Job['resolve'], reject };
     });
     job.promise = promise;
     if (signal) {
@@ -89,7 +86,6 @@ export class ExplainClient implements ExplainerLike {
       return;
     }
     this.running = job;
-    job.started = performance.now();
     this.worker.ref();
     this.worker.postMessage({ id: job.id, request: job.request });
   }
@@ -98,8 +94,6 @@ export class ExplainClient implements ExplainerLike {
     const job = this.running;
     if (!job || job.id !== msg.id) return;
     this.running = undefined;
-    this.timings.push({ kind: job.request.kind, ms: performance.now() - job.started });
-    if (this.timings.length > 200) this.timings.splice(0, 100);
     if (msg.ok) job.resolve(msg.result);
     else job.reject(Object.assign(new Error(msg.message), { name: msg.name }));
     this.pump();
