@@ -18,27 +18,49 @@ const MAX_BYTES = 2 ** 31 - 1;
 const F32_MAX = 3.4028234663852886e38;
 
 const utf8 = new TextEncoder();
-const LEAF = utf8.encode('LEAF');
-const LEQ = utf8.encode('BRANCH_LEQ');
-const EQ = utf8.encode('BRANCH_EQ');
+
+/** A list of numbers in a typed array that doubles when full: bytes per entry, not boxed numbers. */
+class Column<T extends Int32Array | Float32Array | Uint8Array> {
+  length = 0;
+  constructor(private data: T) {}
+
+  push(v: number): void {
+    if (this.length === this.data.length) {
+      const bigger = new (this.data.constructor as new (n: number) => T)(this.data.length * 2);
+      bigger.set(this.data);
+      this.data = bigger;
+    }
+    this.data[this.length++] = v;
+  }
+
+  /** protobufjs writes any indexable list of numbers. */
+  values(): T {
+    return this.data.subarray(0, this.length) as T;
+  }
+}
+
+const MODES = [utf8.encode('BRANCH_LEQ'), utf8.encode('BRANCH_EQ'), utf8.encode('LEAF')];
+const LEQ = 0;
+const EQ = 1;
+const LEAF = 2;
 
 /** Node lists of the whole ensemble, in the operator's attribute layout. */
 class EnsembleLists {
-  readonly treeIds: number[] = [];
-  readonly nodeIds: number[] = [];
-  readonly featureIds: number[] = [];
-  readonly values: number[] = [];
-  readonly modes: Uint8Array[] = [];
-  readonly trueIds: number[] = [];
-  readonly falseIds: number[] = [];
-  readonly missingTrue: number[] = [];
-  readonly hitRates: number[] = [];
-  readonly weightTree: number[] = [];
-  readonly weightNode: number[] = [];
-  readonly weightTarget: number[] = [];
-  readonly weightValue: number[] = [];
+  readonly treeIds = new Column(new Int32Array(1024));
+  readonly nodeIds = new Column(new Int32Array(1024));
+  readonly featureIds = new Column(new Int32Array(1024));
+  readonly values = new Column(new Float32Array(1024));
+  readonly modes = new Column(new Uint8Array(1024));
+  readonly trueIds = new Column(new Int32Array(1024));
+  readonly falseIds = new Column(new Int32Array(1024));
+  readonly missingTrue = new Column(new Uint8Array(1024));
+  readonly hitRates = new Column(new Float32Array(1024));
+  readonly weightTree = new Column(new Int32Array(1024));
+  readonly weightNode = new Column(new Int32Array(1024));
+  readonly weightTarget = new Column(new Int32Array(1024));
+  readonly weightValue = new Column(new Float32Array(1024));
 
-  node(tree: number, id: number, mode: Uint8Array, feature: number, value: number, t: number, f: number, missingTrue: number, cover: number): void {
+  node(tree: number, id: number, mode: number, feature: number, value: number, t: number, f: number, missingTrue: number, cover: number): void {
     this.treeIds.push(tree);
     this.nodeIds.push(id);
     this.modes.push(mode);
@@ -66,30 +88,33 @@ export function exportOnnx(forest: Forest): Uint8Array {
   const T = trees.length;
   if (T === 0) throw new ModelError('The forest has no trees to export.');
   const counts = levelCounts(schema);
+  // Refuse before building anything: a large forest's lists alone would take gigabytes on the way to the refusal.
+  const atLeast = minimumOnnxBytes(forest);
+  if (atLeast > MAX_BYTES) throw tooLarge(atLeast);
   const lists = new EnsembleLists();
   const seen = new Uint8Array(K);
   trees.forEach((tree, t) => addTree(lists, tree, t, counts, classification, K, T, seen));
   // A class no leaf votes for still needs one entry, or a runtime may infer fewer classes than the labels list.
   for (let k = 0; k < K; k++) if (!seen[k]) lists.weight(0, leafId(trees[0]), k, 0);
 
-  const estimate = lists.treeIds.length * 40 + lists.weightTree.length * 24;
-  if (estimate > MAX_BYTES) throw new ModelError(`The forest is too large for one ONNX file (about ${Math.round(estimate / 2 ** 20)} MiB; the format's limit is 2 GiB).`);
+  const estimate = lists.treeIds.length * 36 + lists.weightTree.length * 13;
+  if (estimate > MAX_BYTES) throw tooLarge(estimate);
 
   const prefix = classification ? 'class' : 'target';
   const attributes: OnnxAttribute[] = [
-    ints('nodes_treeids', lists.treeIds),
-    ints('nodes_nodeids', lists.nodeIds),
-    ints('nodes_featureids', lists.featureIds),
-    floats('nodes_values', lists.values),
-    { name: 'nodes_modes', type: ATTR.STRINGS, strings: lists.modes },
-    ints('nodes_truenodeids', lists.trueIds),
-    ints('nodes_falsenodeids', lists.falseIds),
-    ints('nodes_missing_value_tracks_true', lists.missingTrue),
-    floats('nodes_hitrates', lists.hitRates),
-    ints(`${prefix}_treeids`, lists.weightTree),
-    ints(`${prefix}_nodeids`, lists.weightNode),
-    ints(`${prefix}_ids`, lists.weightTarget),
-    floats(`${prefix}_weights`, lists.weightValue),
+    ints('nodes_treeids', lists.treeIds.values()),
+    ints('nodes_nodeids', lists.nodeIds.values()),
+    ints('nodes_featureids', lists.featureIds.values()),
+    floats('nodes_values', lists.values.values()),
+    { name: 'nodes_modes', type: ATTR.STRINGS, strings: Array.from(lists.modes.values(), (m) => MODES[m]) },
+    ints('nodes_truenodeids', lists.trueIds.values()),
+    ints('nodes_falsenodeids', lists.falseIds.values()),
+    ints('nodes_missing_value_tracks_true', lists.missingTrue.values()),
+    floats('nodes_hitrates', lists.hitRates.values()),
+    ints(`${prefix}_treeids`, lists.weightTree.values()),
+    ints(`${prefix}_nodeids`, lists.weightNode.values()),
+    ints(`${prefix}_ids`, lists.weightTarget.values()),
+    floats(`${prefix}_weights`, lists.weightValue.values()),
     text('post_transform', 'NONE'),
   ];
   const rows = { dim_param: 'rows' };
@@ -126,8 +151,45 @@ export function exportOnnx(forest: Forest): Uint8Array {
     metadata_props: exportMetadata(forest),
   };
   const bytes = encodeModel(model);
-  if (bytes.length > MAX_BYTES) throw new ModelError('The forest is too large for one ONNX file (the format\'s limit is 2 GiB).');
+  if (bytes.length > MAX_BYTES) throw tooLarge(bytes.length);
   return bytes;
+}
+
+/** Bytes of the varints 0..n-1: protocol buffers write small integers in fewer bytes. */
+function varintBytesBelow(n: number): number {
+  let total = 0;
+  let from = 0;
+  for (let bytes = 1, limit = 128; from < n; bytes++, limit *= 128) {
+    total += (Math.min(n, limit) - from) * bytes;
+    from = limit;
+  }
+  return total;
+}
+
+const varintBytes = (v: number) => varintBytesBelow(v + 1) - varintBytesBelow(v);
+
+/**
+ * What tree t with n nodes costs at least, were all its splits numeric and each leaf one weight: per node its tree
+ * id, node id, feature (one byte at least), float value and hit rate, missing flag and mode text; per child its
+ * id; per leaf two zero child ids and one weight entry.
+ */
+function minimumBytes(n: number, t: number): number {
+  const leaves = (n + 1) / 2;
+  const splits = n - leaves;
+  const tree = varintBytes(t);
+  return n * (tree + 1 + 4 + 4 + 1) + varintBytesBelow(n) * 2 - 1 + splits * (2 + 10) + leaves * (2 + 4 + 2) + leaves * (tree + 1 + 4);
+}
+
+/** A lower bound on the size of the forest's ONNX file, from its node counts alone. */
+export function minimumOnnxBytes(forest: Forest): number {
+  return forest.trees.reduce((sum, tree, t) => sum + minimumBytes(tree.nodeCount, t), 0);
+}
+
+function tooLarge(bytes: number): ModelError {
+  return new ModelError(
+    `The forest is too large for one ONNX file (about ${Math.round(bytes / 2 ** 20)} MiB; the format's limit is 2 GiB). ` +
+      'Fewer trees, or a larger minimum leaf size, make smaller trees.',
+  );
 }
 
 function addTree(lists: EnsembleLists, tree: FlatTree, t: number, counts: Int32Array, classification: boolean, K: number, T: number, seen: Uint8Array): void {
@@ -196,12 +258,12 @@ function leafId(tree: FlatTree): number {
   return 0;
 }
 
-function ints(name: string, values: number[]): OnnxAttribute {
-  return { name, type: ATTR.INTS, ints: values };
+function ints(name: string, values: ArrayLike<number>): OnnxAttribute {
+  return { name, type: ATTR.INTS, ints: values as number[] };
 }
 
-function floats(name: string, values: number[]): OnnxAttribute {
-  return { name, type: ATTR.FLOATS, floats: values };
+function floats(name: string, values: ArrayLike<number>): OnnxAttribute {
+  return { name, type: ATTR.FLOATS, floats: values as number[] };
 }
 
 function int(name: string, value: number): OnnxAttribute {

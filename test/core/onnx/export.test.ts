@@ -13,7 +13,8 @@ import type { Forest } from '../../../src/core/forest/forest';
 import { defaultParams } from '../../../src/core/forest/params';
 import { encodeTable, predictEncoded } from '../../../src/core/forest/predict';
 import type { FeatureInfo } from '../../../src/core/model/schema';
-import { exportOnnx } from '../../../src/core/onnx/export';
+import { ModelError } from '../../../src/core/model/validate';
+import { exportOnnx, minimumOnnxBytes } from '../../../src/core/onnx/export';
 import { META } from '../../../src/core/onnx/metadata';
 import { decodeModel } from '../../../src/core/onnx/proto';
 import type { FlatTree } from '../../../src/core/tree/tree';
@@ -198,6 +199,19 @@ describe('ONNX export: thresholds and level sets', function () {
       const out = await runOnnx(exportOnnx(forest), x, x.length, 1, { input: 'features' });
       assert.deepEqual(Array.from(out.probabilities as Float32Array), Array.from(ours.proba!));
     }
+  });
+
+  it('refuses a forest too large for one protocol-buffer message before building anything', async () => {
+    const table = (await loadCsv(path.join(root, 'test/fixtures/open/iris.csv'), { target: 'species' })).table;
+    const forest = await fitOn(table, 'species', 2);
+    // 120 million nodes (100 fully grown trees on five million noisy rows come to about 80 million) cannot fit in 2 GiB;
+    // the count alone decides, so the arrays are never read.
+    // The bound it refuses by stays below what real forests write.
+    for (const f of [forest, await fitOn((await loadCsv(path.join(root, 'demo/kite-flights.csv'), { target: 'outcome' })).table, 'outcome', 5)]) {
+      assert.ok(minimumOnnxBytes(f) < exportOnnx(f).length * 0.9, `${minimumOnnxBytes(f)} against ${exportOnnx(f).length}`);
+    }
+    const huge = { ...forest, trees: forest.trees.map((t) => ({ ...t, nodeCount: 60_000_000 })) };
+    assert.throws(() => exportOnnx(huge), (e: Error) => e instanceof ModelError && /too large for one ONNX file \(about \d+ MiB; the format's limit is 2 GiB\)/.test(e.message));
   });
 
   it('states its encoding in metadata_props and outputs a label and a probability tensor, no ZipMap', async () => {

@@ -463,6 +463,42 @@ describe('ONNX import: broken and hostile files', function () {
     });
   }
 
+  it('refuses graphs nested inside attributes deeper than the decoder can follow, without crashing', () => {
+    // ModelProto.graph (7) > GraphProto.node (1) > NodeProto.attribute (5) > AttributeProto.g (6) > ..., 50000 deep.
+    const depth = 50000;
+    const varint = (v: number, out?: number[]) => {
+      let size = 0;
+      do {
+        const byte = v & 0x7f;
+        v = Math.floor(v / 128);
+        out?.push(v > 0 ? byte | 0x80 : byte);
+        size++;
+      } while (v > 0);
+      return size;
+    };
+    const sizes: number[][] = [];
+    let inner = 0;
+    for (let d = 0; d < depth; d++) {
+      const a = 1 + varint(inner) + inner;
+      const n = 1 + varint(a) + a;
+      const g = 1 + varint(n) + n;
+      sizes.push([inner, a, n]);
+      inner = g;
+    }
+    const bytes: number[] = [0x3a];
+    varint(inner, bytes);
+    for (let d = depth - 1; d >= 0; d--) {
+      const [content, a, n] = sizes[d];
+      bytes.push(0x0a);
+      varint(n, bytes);
+      bytes.push(0x2a);
+      varint(a, bytes);
+      bytes.push(0x32);
+      varint(content, bytes);
+    }
+    assert.throws(() => importOnnx(Uint8Array.from(bytes), 'deep.onnx'), isModelError(/^deep\.onnx is not a valid ONNX file: it does not decode/));
+  });
+
   it('refuses an opset-5 branch to a leaf that does not exist', () => {
     const bytes = bytesOf(ensembleModel('TreeEnsemble', { n_targets: 1, tree_roots: { ints: [0] }, nodes_featureids: { ints: [0] }, nodes_splits: floatTensor([0.5]), nodes_modes: floatTensor([0], DTYPE.UINT8), nodes_truenodeids: { ints: [5] }, nodes_trueleafs: { ints: [1] }, nodes_falsenodeids: { ints: [1] }, nodes_falseleafs: { ints: [1] }, leaf_targetids: { ints: [0, 0] }, leaf_weights: floatTensor([1, 2]) }, { features: 1 }));
     assert.throws(() => importOnnx(bytes), isModelError(/true branch is leaf 5, outside 0 to 1/));
