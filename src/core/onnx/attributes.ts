@@ -28,7 +28,7 @@ export class Attributes {
 
   constructor(node: OnnxNode, private readonly fail: Fail, private readonly where: string) {
     for (const a of node.attribute ?? []) {
-      const name = decodeName(a.name);
+      const name = a.name ?? '';
       if (a.ref_attr_name) fail(`${where} attribute "${name}" refers to a function attribute, which only functions may do`);
       if (this.byName.has(name)) fail(`${where} gives the attribute "${name}" twice`);
       this.byName.set(name, a);
@@ -100,10 +100,6 @@ export class Attributes {
     if (plain && tensor) this.fail(`${this.where} gives both "${name}" and "${name}_as_tensor"`);
     return plain ?? tensor?.values;
   }
-}
-
-function decodeName(bytes: string | undefined): string {
-  return bytes ?? '';
 }
 
 /** A numeric tensor's values, from whichever field its data type keeps them in; external data is refused. */

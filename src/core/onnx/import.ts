@@ -75,7 +75,7 @@ export function readOnnx(bytes: Uint8Array, label = 'the ONNX file', options: Im
   const meta = readMetadata(model, fail);
   const others = (graph.node ?? []).filter((n) => n !== node).map((n) => n.op_type ?? '?');
   // A Copse export's own ArgMax and Gather only turn probabilities into a label.
-  if (others.length && !meta) notes.push(`Other graph nodes (${[...new Set(others)].join(', ')}) only consume the ensemble's outputs and were not imported; Copse reports the ensemble's own scores.`);
+  if (others.length && !meta) notes.push(`The graph's other nodes (${[...new Set(others)].join(', ')}) were not imported; Copse reports the ensemble's own scores.`);
   if (op !== 'TreeEnsemble' && mlOpset >= 5) notes.push(`${op} is deprecated in ai.onnx.ml operator set ${mlOpset}; it was read as operator set 3 defines it.`);
   if (!input.float32) notes.push(`The graph input is ${input.typeName}, so values are compared as they are, not rounded to float32.`);
 
