@@ -17,6 +17,7 @@ Commands:
   predict  score a CSV file with a saved forest
   votes    show how every tree votes on chosen rows
   explain  show each feature's contribution to chosen rows' predictions
+  export   write a saved forest as an ONNX tree ensemble
 
 Run "copse COMMAND --help" for a command's options.
 `;
