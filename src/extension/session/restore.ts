@@ -4,8 +4,8 @@
 
 import * as path from 'node:path';
 import { readFileSync } from 'node:fs';
-import type { FitChoices } from '../fit/choices';
-import { loadCsv, type LoadResult } from '../engine';
+import type { FitOrigin } from '../context';
+import { loadCsv } from '../engine';
 import { loadLastFit } from './lastFit';
 import { ForestSession, type ScorerLike, type SessionInit } from './session';
 import type { Forest } from '../engine';
@@ -13,17 +13,7 @@ import type { Forest } from '../engine';
 export interface Restored {
   readonly session: ForestSession;
   /** What a refit needs; absent when the CSV changed (a refit would be a new fit on new data). */
-  readonly origin?: {
-    readonly path: string;
-    readonly load: LoadResult;
-    readonly sampled: boolean;
-    readonly sampleRows?: number;
-    readonly sampleSeed?: number;
-    readonly loadTarget?: string;
-    readonly choices: FitChoices;
-    readonly loadSeconds: number;
-    readonly bytes: number;
-  };
+  readonly origin?: FitOrigin;
   readonly note?: string;
 }
 
