@@ -1,7 +1,8 @@
 import * as assert from 'node:assert/strict';
 import { fitForest } from '../../src/core/forest/fit';
 import { predictInWorkers } from '../../src/core/forest/parallel-predict';
-import { encodeTable, predictEncoded, predictTable } from '../../src/core/forest/predict';
+import { inBagCounts } from '../../src/core/forest/bootstrap';
+import { encodeTable, leafOf, levelCounts, predictEncoded, predictTable } from '../../src/core/forest/predict';
 import { serializeModel } from '../../src/core/model/file';
 import { threeClass } from './helpers/synthetic';
 import { tableFrom } from './helpers/table';
@@ -14,7 +15,8 @@ describe('forest', () => {
     const [a, b, c] = await Promise.all([1, 2, 3].map((workers) => fitForest(table, { ...options, workers })));
     assert.equal(serializeModel(a.forest), serializeModel(b.forest));
     assert.equal(serializeModel(a.forest), serializeModel(c.forest));
-    assert.deepEqual(a.rows.votes, c.rows.votes);
+    assert.deepEqual(a.rows.oobProba, c.rows.oobProba);
+    assert.deepEqual(a.rows.margin, c.rows.margin);
     assert.deepEqual(a.importance.permutation, c.importance.permutation);
     assert.deepEqual(a.curve, c.curve);
   });
@@ -51,19 +53,32 @@ describe('forest', () => {
     assert.deepEqual(b.predicted, a.predicted);
   });
 
-  it('keeps per-row votes and bootstrap membership, and out-of-bag means only trees that did not see the row', async () => {
+  it('draws bootstrap membership again from the seed, and out-of-bag means only trees that did not see the row', async () => {
     const rep = await fitForest(table, { target: 'label', params: { trees: 15 }, workers: 2 });
-    const { rows } = rep;
+    const { rows, forest } = rep;
     const n = rows.count;
-    for (let i = 0; i < n; i += 37) {
+    const inBag = inBagCounts(forest.params, 15, n);
+    const x = encodeTable(forest.schema, table);
+    const p = forest.schema.features.length;
+    const K = 3;
+    for (let i = 0; i < n; i++) {
+      // The out-of-bag probability is the mean of exactly the trees whose redrawn sample left the row out.
+      const expected = new Float64Array(K);
       let oob = 0;
-      for (let t = 0; t < 15; t++) if (rows.inBag[t * n + i] === 0) oob++;
+      for (let t = 0; t < 15; t++) {
+        if (inBag[t * n + i] !== 0) continue;
+        oob++;
+        const tree = forest.trees[t];
+        const leaf = leafOf(tree, levelCounts(forest.schema), x, rep.trainRows[i] * p);
+        for (let k = 0; k < K; k++) expected[k] += tree.value[leaf * K + k];
+      }
       assert.equal(rows.oobTrees[i], oob);
+      for (let k = 0; k < K; k++) assert.ok(Math.abs(rows.oobProba![i * K + k] - (oob ? expected[k] / oob : 0)) < 1e-12, `row ${i}`);
     }
-    // Trees vote on the rows they trained on as well: training accuracy of every tree is far above OOB.
-    const inBagRight = [...Array(n).keys()].filter((i) => rows.inBag[i] > 0 && rows.votes[i] === rows.truth[i]).length;
-    const inBag = [...Array(n).keys()].filter((i) => rows.inBag[i] > 0).length;
-    assert.ok(inBagRight / inBag > 0.99);
+    // A bootstrap draw of n from n leaves about 1/e of the rows out (common practice: 0.368).
+    let out = 0;
+    for (const c of inBag) if (c === 0) out++;
+    assert.ok(Math.abs(out / inBag.length - Math.exp(-1)) < 0.03);
   });
 
   it('draws an OOB error curve that settles as trees are added', async () => {

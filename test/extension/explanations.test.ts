@@ -17,6 +17,7 @@ import type { ExplainerLike } from '../../src/extension/workers/explainClient';
 import { buildSummary } from '../../src/extension/summary/summary';
 import { ExplainClient } from '../../src/extension/workers/explainClient';
 import { fitFixture, FIXTURES, type Fitted } from './helpers';
+import { inBagCounts } from '../../src/core/forest/bootstrap';
 
 const close = (a: number, b: number, tol = 1e-9) => Math.abs(a - b) <= tol * Math.max(1, Math.abs(a), Math.abs(b));
 
@@ -337,7 +338,7 @@ describe('extension explanation shaping', () => {
       source: { path: '/x.csv', label: 'x.csv', delimiter: ',', fingerprint: load.fingerprint, rowsRead: 60, header: load.header },
       table: load.table,
       text: () => text,
-      oob: { trainRows: report.trainRows, inBag: report.rows.inBag },
+      oob: { trainRows: report.trainRows, inBag: inBagCounts(report.forest.params, report.forest.trees.length, report.trainRows.length) },
       summary: buildSummary({ forest: report.forest, report, dataset: { label: 'x', uri: 'file:///x' }, rowsRead: 60, sampled: false, warnings: [] }),
       scorer: new Scorer(report.forest),
       explainer: (setup) => new ExplainClient(setup),

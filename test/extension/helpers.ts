@@ -9,6 +9,7 @@ import { ForestSession } from '../../src/extension/session/session';
 import { ExplainClient } from '../../src/extension/workers/explainClient';
 import { buildSummary } from '../../src/extension/summary/summary';
 import { readFileSync } from 'node:fs';
+import { inBagCounts } from '../../src/core/forest/bootstrap';
 
 export const FIXTURES = path.resolve(__dirname, '..', '..', '..', 'test', 'fixtures', 'open');
 
@@ -40,7 +41,7 @@ export async function fitFixture(
     source: { path: file, label: path.basename(file), delimiter: load.delimiter, fingerprint: load.fingerprint, rowsRead: load.rowsRead, header: load.header },
     table: load.table,
     text: () => readFileSync(file, 'utf8'),
-    oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag: report.rows.inBag, margin: report.rows.margin },
+    oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag: inBagCounts(report.forest.params, report.forest.trees.length, report.trainRows.length), margin: report.rows.margin },
     summary,
     scorer: new Scorer(report.forest),
     explainer: (setup) => new ExplainClient(setup),

@@ -9,6 +9,7 @@ import { restoreLastFit } from '../../src/extension/session/restore';
 import { choicesFrom } from '../../src/extension/fit/choices';
 import { readSettings } from '../../src/extension/settings';
 import { FIXTURES, fitFixture, type Fitted } from './helpers';
+import { inBagCounts } from '../../src/core/forest/bootstrap';
 
 describe('extension last fit', () => {
   let dir: string;
@@ -22,7 +23,7 @@ describe('extension last fit', () => {
     const choices = choicesFrom(readSettings({ get: () => undefined }).settings.training, 'cultivar', 'classification');
     await saveLastFit(
       path.join(dir, 'store'),
-      { forest: f.report.forest, trainRows: f.report.trainRows, inBag: f.report.rows.inBag },
+      { forest: f.report.forest, trainRows: f.report.trainRows, inBag: inBagCounts(f.report.forest.params, f.report.forest.trees.length, f.report.trainRows.length) },
       { csvPath: csv, fingerprint: f.load.fingerprint, delimiter: f.load.delimiter, summary: f.session.summary, choices },
     );
   });

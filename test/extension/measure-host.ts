@@ -23,6 +23,7 @@ import { ForestSession } from '../../src/extension/session/session';
 import { buildSummary } from '../../src/extension/summary/summary';
 import { readSettings } from '../../src/extension/settings';
 import { readFileSync } from 'node:fs';
+import { inBagCounts } from '../../src/core/forest/bootstrap';
 
 function arg(name: string, fallback: number): number {
   const i = process.argv.indexOf(`--${name}`);
@@ -83,7 +84,7 @@ async function main(): Promise<void> {
         source: { path: file, label: 'measure.csv', delimiter: ',', fingerprint: load.fingerprint, rowsRead: rows, header: load.header },
         table: load.table,
         text: () => readFileSync(file, 'utf8'),
-        oob: { trainRows: report.trainRows, inBag: report.rows.inBag, margin: report.rows.margin },
+        oob: { trainRows: report.trainRows, inBag: inBagCounts(report.forest.params, report.forest.trees.length, report.trainRows.length), margin: report.rows.margin },
         summary,
         scorer: new Scorer(report.forest),
         explainer: (setup) => new ExplainClient(setup),

@@ -4,6 +4,7 @@ import * as assert from 'node:assert/strict';
 import * as path from 'node:path';
 import { readFileSync } from 'node:fs';
 import { loadCsvText } from '../../src/core/csv/load';
+import { inBagCounts } from '../../src/core/forest/bootstrap';
 import { predictEncoded, predictTable } from '../../src/core/forest/predict';
 import { cellCentre, isRegionMap } from '../../src/protocol/messages';
 import { breimanMargin } from '../../src/extension/session/rowStore';
@@ -20,14 +21,13 @@ describe('extension session (iris, classification)', () => {
   });
   after(async () => f?.session.dispose());
 
-  it('scores every tree on every row, matching the votes core recorded while training', () => {
+  it('scores every tree on every row on its scoring thread, matching core\'s in-process predictor', () => {
     const { store } = f.session;
-    const n = f.report.rows.count;
+    const expected = predictTable(f.report.forest, f.load.table);
+    const n = f.load.table.rowCount;
     assert.equal(store.trees, 40);
     let differ = 0;
-    f.report.trainRows.forEach((r, i) => {
-      for (let t = 0; t < 40; t++) if (store.vote(t, r) !== f.report.rows.votes[t * n + i]) differ++;
-    });
+    for (let r = 0; r < n; r++) for (let t = 0; t < 40; t++) if (store.vote(t, r) !== expected.votes[t * n + r]) differ++;
     assert.equal(differ, 0);
   });
 
@@ -81,8 +81,10 @@ describe('extension session (iris, classification)', () => {
     const n = f.report.rows.count;
     const i = Array.from(f.report.trainRows).indexOf(r);
     const expectedOob = [];
-    for (let t = 0; t < 40; t++) if (f.report.rows.inBag[t * n + i] === 0) expectedOob.push(t);
+    const inBag = inBagCounts(f.report.forest.params, 40, n);
+    for (let t = 0; t < 40; t++) if (inBag[t * n + i] === 0) expectedOob.push(t);
     assert.deepEqual(v.outOfBag, expectedOob);
+    assert.equal(expectedOob.length, f.report.rows.oobTrees[i]);
     assert.equal(v.label, f.report.rows.truth[i]);
     assert.deepEqual(f.session.rowVotes([9999]), []);
   });

@@ -5,11 +5,11 @@
 // bootstrap drew them, the weighting whose mean is exactly the forest's prediction. (Pages cited from memory.)
 import { loadCsv } from '../csv/load';
 import { findColumn, type Table } from '../data/table';
-import { drawSample, sampleSize } from '../forest/bootstrap';
+import { inBagCounts } from '../forest/bootstrap';
 import { splitRows, type FitReport } from '../forest/fit';
 import type { Forest } from '../forest/forest';
 import { encodeTable, leafOf, levelCounts } from '../forest/predict';
-import { encodeTarget } from '../forest/target';
+import { encodeTarget, targetOf } from '../forest/target';
 
 export interface QuantileTraining {
   /** Target of each training row, in the fit's training order (FitReport.rows.truth). */
@@ -125,7 +125,7 @@ export function quantileIndexFromFit(report: FitReport, table: Table): QuantileI
   const all = encodeTable(forest.schema, table);
   const x = new Float64Array(trainRows.length * p);
   trainRows.forEach((r, i) => x.set(all.subarray(r * p, r * p + p), i * p));
-  return buildQuantileIndex(forest, { y: report.rows.truth, inBag: report.rows.inBag, leaves: trainingLeaves(forest, x, trainRows.length) });
+  return buildQuantileIndex(forest, { y: report.rows.truth, inBag: inBagCounts(forest.params, forest.trees.length, trainRows.length), leaves: trainingLeaves(forest, x, trainRows.length) });
 }
 
 /**
@@ -144,16 +144,8 @@ export function quantileIndexFromTrainingTable(forest: Forest, table: Table): Qu
     throw new TrainingMismatchError(`The forest was fitted on ${n} rows; this data has only ${encoded.rows.length} with a target.`);
   }
   const { train } = splitRows(encoded.rows, encoded.rows.length - n, params.seed);
-  const positions = new Map<number, number>();
-  encoded.rows.forEach((r, i) => positions.set(r, i));
-  const y = Float64Array.from(train, (r) => encoded.y[positions.get(r)!]);
-  const T = forest.trees.length;
-  const inBag = new Uint8Array(T * n);
-  const m = sampleSize(n, params.sampleFraction);
-  for (let t = 0; t < T; t++) {
-    const counts = drawSample(params.seed, t, n, m, params.replace);
-    for (let i = 0; i < n; i++) inBag[t * n + i] = Math.min(255, counts[i]);
-  }
+  const y = targetOf(encoded, train);
+  const inBag = inBagCounts(params, forest.trees.length, n);
   const p = schema.features.length;
   const all = encodeTable(schema, table, 'the training data');
   const x = new Float64Array(n * p);

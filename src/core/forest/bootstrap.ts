@@ -25,3 +25,18 @@ export function drawSample(seed: number, t: number, n: number, m: number, replac
 export function sampleSize(n: number, fraction: number): number {
   return Math.max(1, Math.round(n * fraction));
 }
+
+/**
+ * Tree-major in-bag counts of every tree (inBag[t * n + i], capped at 255), drawn again from the forest's seed.
+ * A fit does not keep them: for millions of rows they would cost a byte per row and tree, and the draw is cheap
+ * to repeat for the few callers that need all of them.
+ */
+export function inBagCounts(params: { seed: number; sampleFraction: number; replace: boolean }, trees: number, n: number): Uint8Array {
+  const inBag = new Uint8Array(trees * n);
+  const m = sampleSize(n, params.sampleFraction);
+  for (let t = 0; t < trees; t++) {
+    const counts = drawSample(params.seed, t, n, m, params.replace);
+    for (let i = 0; i < n; i++) inBag[t * n + i] = Math.min(255, counts[i]);
+  }
+  return inBag;
+}

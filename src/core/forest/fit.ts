@@ -14,7 +14,7 @@ import { defaultWorkers, growInWorkers } from './pool';
 import { encodeTable, type Prediction } from './predict';
 import { Scorer } from './scorer';
 import { stream, shuffle } from './rng';
-import { codesFor, encodeTarget, inferTask } from './target';
+import { codesFor, encodeTarget, inferTask, targetOf } from './target';
 
 export { inferTask } from './target';
 export type { RowResults } from './oob';
@@ -79,9 +79,7 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
 
   const holdoutCount = options.holdout ? Math.max(1, Math.floor(encoded.rows.length * options.holdout)) : 0;
   const { train, holdout } = splitRows(encoded.rows, holdoutCount, params.seed);
-  const positions = new Map<number, number>();
-  encoded.rows.forEach((r, i) => positions.set(r, i));
-  const trainY = Float64Array.from(train, (r) => encoded.y[positions.get(r)!]);
+  const trainY = targetOf(encoded, train);
   const { infos, notes } = describeFeatures(featureColumns, train);
   const schema: Schema = { features: infos, target: { name: options.target, task, classes: encoded.classes } };
   const data = binColumns(featureColumns, infos, train);
@@ -132,7 +130,7 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
   let test: Scores | undefined;
   let testPrediction: Prediction | undefined;
   if (holdout) {
-    ({ scores: test, prediction: testPrediction } = await scoreRows(forest, table, holdout, Float64Array.from(holdout, (r) => encoded.y[positions.get(r)!])));
+    ({ scores: test, prediction: testPrediction } = await scoreRows(forest, table, holdout, targetOf(encoded, holdout)));
   } else if (options.test) {
     const testTarget = findColumn(options.test, options.target);
     if (!testTarget) throw new RangeError(`The test data has no column "${options.target}".`);

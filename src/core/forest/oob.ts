@@ -1,16 +1,12 @@
-// Folds tree results, in tree order, into what users read per training row: each tree's vote, bootstrap
-// membership, out-of-bag predictions and margins, plus the error curve and importances.
+// Folds tree results, in tree order, into what users read per training row: out-of-bag predictions, vote counts
+// and margins, plus the error curve and importances. Memory is per row, not per row and tree: a tree's votes and
+// bootstrap draw are used as it arrives and dropped (inBagCounts draws the membership again when it is wanted).
 import { argmaxAt, classificationScores, regressionScores, type Scores } from '../metrics/scores';
 import type { TreeResult } from './grow-task';
 import type { Task } from './params';
-import { voteArray } from './predict';
 
 export interface RowResults {
   readonly count: number;
-  /** Tree-major: votes[t * count + i] is tree t's class code or value for training row i. */
-  readonly votes: Uint8Array | Uint16Array | Float32Array;
-  /** Tree-major: times row i was drawn for tree t (0: out-of-bag for t). */
-  readonly inBag: Uint8Array;
   readonly truth: Float64Array;
   /** classification: count * K, averaged over the trees that had the row out-of-bag. */
   readonly oobProba?: Float64Array;
@@ -21,8 +17,8 @@ export interface RowResults {
 }
 
 export class OobFold {
-  private readonly votes: Uint8Array | Uint16Array | Float32Array;
-  private readonly inBag: Uint8Array;
+  /** classification: count * K out-of-bag votes per class, for the margins. */
+  private readonly voteCounts: Int32Array;
   private readonly sums: Float64Array;
   private readonly oobTrees: Int32Array;
   private readonly impurity: Float64Array;
@@ -40,8 +36,7 @@ export class OobFold {
     private readonly truth: Float64Array,
     private readonly p: number,
   ) {
-    this.votes = voteArray(task === 'classification', K, T * n);
-    this.inBag = new Uint8Array(T * n);
+    this.voteCounts = new Int32Array(task === 'classification' ? n * K : 0);
     this.sums = new Float64Array(n * K);
     this.oobTrees = new Int32Array(n);
     this.impurity = new Float64Array(p);
@@ -51,26 +46,18 @@ export class OobFold {
   }
 
   add(r: TreeResult): void {
-    const { n, K, sums, oobTrees } = this;
-    const base = this.t * n;
+    const { n, K, sums, oobTrees, voteCounts } = this;
     const value = r.tree.value;
     const classification = this.task === 'classification';
     for (let i = 0; i < n; i++) {
+      if (r.inBag[i] !== 0) continue;
       const leaf = r.rowLeaf[i];
-      const bagged = r.inBag[i];
-      this.inBag[base + i] = bagged;
+      oobTrees[i]++;
       if (classification) {
-        this.votes[base + i] = argmaxAt(value, leaf * K, K);
-        if (bagged === 0) {
-          for (let k = 0; k < K; k++) sums[i * K + k] += value[leaf * K + k];
-          oobTrees[i]++;
-        }
+        for (let k = 0; k < K; k++) sums[i * K + k] += value[leaf * K + k];
+        voteCounts[i * K + argmaxAt(value, leaf * K, K)]++;
       } else {
-        this.votes[base + i] = value[leaf];
-        if (bagged === 0) {
-          sums[i] += value[leaf];
-          oobTrees[i]++;
-        }
+        sums[i] += value[leaf];
       }
     }
     // Per-tree normalisation before averaging, so every tree has an equal say (as scikit-learn does).
@@ -115,7 +102,7 @@ export class OobFold {
 
   private compute(): RowResults {
     const { n, K, sums, oobTrees } = this;
-    const common = { count: n, votes: this.votes, inBag: this.inBag, truth: this.truth, oobTrees };
+    const common = { count: n, truth: this.truth, oobTrees };
     if (this.task === 'regression') {
       return { ...common, oobValue: Float64Array.from({ length: n }, (_, i) => (oobTrees[i] ? sums[i] / oobTrees[i] : NaN)) };
     }
@@ -126,12 +113,7 @@ export class OobFold {
 
   /** Breiman's margin: share of out-of-bag votes for the true class minus the largest share for another class. */
   private margins(): Float64Array {
-    const { n, K, T } = this;
-    const counts = new Int32Array(n * K);
-    for (let t = 0; t < T; t++) {
-      const base = t * n;
-      for (let i = 0; i < n; i++) if (this.inBag[base + i] === 0) counts[i * K + this.votes[base + i]]++;
-    }
+    const { n, K, voteCounts: counts } = this;
     const margin = new Float64Array(n);
     for (let i = 0; i < n; i++) {
       const total = this.oobTrees[i];

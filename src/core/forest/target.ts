@@ -51,3 +51,16 @@ export function codesFor(column: Column, classes: readonly string[]): Float64Arr
   const n = column.kind === 'numeric' ? column.values.length : column.codes.length;
   return Float64Array.from({ length: n }, (_, i) => code.get(cellText(column, i)) ?? -1);
 }
+
+/** The encoded target of the given table rows, each of which must have one. */
+export function targetOf(encoded: EncodedTarget, rows: Int32Array): Float64Array {
+  const { rows: kept, y } = encoded;
+  // A position per table row: an Int32Array rather than a Map, which costs tens of bytes per row on large files.
+  const position = new Int32Array(kept.length ? kept[kept.length - 1] + 1 : 0).fill(-1);
+  kept.forEach((r, i) => (position[r] = i));
+  return Float64Array.from(rows, (r) => {
+    const i = r < position.length ? position[r] : -1;
+    if (i < 0) throw new RangeError(`Row ${r} has no target value.`);
+    return y[i];
+  });
+}

@@ -5,7 +5,7 @@ import { promises as fs, readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import type { CopseContext, FitOrigin } from '../context';
-import { fitForest, findColumn, loadCsv, Scorer, type Column, type FitReport, type LoadResult, type Schema } from '../engine';
+import { fitForest, findColumn, inBagCounts, loadCsv, Scorer, type Column, type FitReport, type LoadResult, type Schema } from '../engine';
 import { isAbort, isUserError, userMessage } from '../errors';
 import { formatBytes, formatSeconds, formatShare } from '../format';
 import type { PanelHost } from '../panel/panelHost';
@@ -248,6 +248,7 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
   const settings = ctx.settings();
   const { load } = loaded;
   const forest = report.forest;
+  const inBag = inBagCounts(forest.params, forest.trees.length, report.trainRows.length);
   const label = path.basename(loaded.path);
   const tSummary = performance.now();
   const features = forest.schema.features.map((f) => findColumn(load.table, f.name)).filter((c): c is Column => !!c);
@@ -303,7 +304,7 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
       },
       table: load.table,
       text: () => readText(loaded.path),
-      oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag: report.rows.inBag, margin: report.rows.margin },
+      oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag, margin: report.rows.margin },
       summary,
       scorer,
       explainer: (setup) => new ExplainClient(setup),
@@ -355,7 +356,7 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
   // Kept for the next window reload; a failure here costs only the restore, so it is logged, not shown.
   void saveLastFit(
     ctx.storageDir,
-    { forest, trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag: report.rows.inBag },
+    { forest, trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag },
     {
       csvPath: loaded.path,
       fingerprint: load.fingerprint,

@@ -18,6 +18,7 @@ import {
   TrainingMismatchError,
   trainingLeaves,
 } from '../../../src/core/explain/quantiles';
+import { inBagCounts } from '../../../src/core/forest/bootstrap';
 import { fitForest, type FitReport } from '../../../src/core/forest/fit';
 import { encodeTable, leafOf, levelCounts, predictEncoded } from '../../../src/core/forest/predict';
 import { mixed, openDataset, root, subsetTable } from './helpers/data';
@@ -39,11 +40,13 @@ function bruteQuantiles(report: FitReport, trainX: Float64Array, query: Float64A
   const p = forest.schema.features.length;
   const counts = levelCounts(forest.schema);
   const weight = new Float64Array(n);
+  // The fit keeps no membership; the same seeded draw gives it, which the index checks against the leaf means.
+  const inBag = inBagCounts(forest.params, forest.trees.length, n);
   forest.trees.forEach((tree, t) => {
     const leaf = leafOf(tree, counts, query, offset);
     let total = 0;
-    for (let i = 0; i < n; i++) if (leafOf(tree, counts, trainX, i * p) === leaf) total += rows.inBag[t * n + i];
-    for (let i = 0; i < n; i++) if (leafOf(tree, counts, trainX, i * p) === leaf) weight[i] += rows.inBag[t * n + i] / total;
+    for (let i = 0; i < n; i++) if (leafOf(tree, counts, trainX, i * p) === leaf) total += inBag[t * n + i];
+    for (let i = 0; i < n; i++) if (leafOf(tree, counts, trainX, i * p) === leaf) weight[i] += inBag[t * n + i] / total;
   });
   const pairs = Array.from({ length: n }, (_, i) => [rows.truth[i], weight[i]] as const).filter(([, w]) => w > 0).sort((a, b) => a[0] - b[0]);
   const T = forest.trees.length;
@@ -118,7 +121,7 @@ describe('prediction intervals (quantile regression forest)', function () {
     const n = rep.rows.count;
     const leaves = trainingLeaves(rep.forest, encodedRows(rep, table, rep.trainRows), n);
     const shifted = rep.rows.truth.map((y) => y + 1);
-    assert.throws(() => buildQuantileIndex(rep.forest, { y: shifted, inBag: rep.rows.inBag, leaves }), /do not reproduce/);
+    assert.throws(() => buildQuantileIndex(rep.forest, { y: shifted, inBag: inBagCounts(rep.forest.params, 10, n), leaves }), /do not reproduce/);
     const cls = await fitForest(table, { target: 'label', exclude: ['value'], params: { trees: 5 }, workers: 1, permutationImportance: false });
     assert.throws(() => quantileIndexFromFit(cls, table), /regression/);
     assert.throws(() => predictInterval(quantileIndexFromFit(rep, table), new Float64Array(5), 1, 1), /strictly between/);

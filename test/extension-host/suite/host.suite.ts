@@ -10,6 +10,7 @@ import { Scorer } from '../../../src/core/forest/scorer';
 import { ForestSession } from '../../../src/extension/session/session';
 import { buildSummary } from '../../../src/extension/summary/summary';
 import { readFileSync } from 'node:fs';
+import { inBagCounts } from '../../../src/core/forest/bootstrap';
 
 const workspace = process.env.COPSE_HOST_WORKSPACE ?? '';
 const csv = path.join(workspace, 'iris.csv');
@@ -41,7 +42,7 @@ describe('Copse in the extension host', () => {
       source: { path: csv, label: 'iris.csv', delimiter: load.delimiter, fingerprint: load.fingerprint, rowsRead: 150, header: load.header },
       table: load.table,
       text: () => readFileSync(csv, 'utf8'),
-      oob: { trainRows: report.trainRows, inBag: report.rows.inBag, margin: report.rows.margin },
+      oob: { trainRows: report.trainRows, inBag: inBagCounts(report.forest.params, report.forest.trees.length, report.trainRows.length), margin: report.rows.margin },
       summary,
       scorer: new Scorer(report.forest),
     });
