@@ -2,11 +2,14 @@ import { cellText, findColumn } from '../../core/data/table';
 import { ContributionExplainer } from '../../core/explain/contributions';
 import { predictEncoded } from '../../core/forest/predict';
 import { argmaxAt } from '../../core/metrics/scores';
-import { loadModel } from '../../core/model/file';
+import { withCoverFrom } from '../../core/forest/cover';
+import { encodeTable } from '../../core/forest/predict';
+import { knowsTraining } from '../../core/model/open';
 import { flag, parse, text, UsageError, wholeNumber, type Options } from '../args';
+import { MODEL_HELP, MODEL_OPTIONS, openForData } from '../model';
 import { chooseRows, wantedRows } from '../rows';
 
-export const EXPLAIN_HELP = `Usage: copse explain MODEL.json DATA.csv --rows 1,7,12 [--json]
+export const EXPLAIN_HELP = `Usage: copse explain MODEL DATA.csv --rows 1,7,12 [--json]
 
 Shows how much each feature moved a saved forest's prediction on chosen rows of DATA.csv, away from the
 forest's average prediction. The contributions are exact Shapley values of the trees (Lundberg et al. 2020)
@@ -18,10 +21,10 @@ Options:
   --top N         show the N largest contributions per row (default 10; all with --json)
   --json          print one JSON object: per row its prediction, the average prediction ("base")
                   and every feature's contribution (per class for classification)
-  --debug         show stack traces on errors
+${MODEL_HELP}  --debug         show stack traces on errors
 `;
 
-const OPTIONS: Options = { rows: { type: 'string' }, class: { type: 'string' }, top: { type: 'string' }, json: { type: 'boolean' } };
+const OPTIONS: Options = { rows: { type: 'string' }, class: { type: 'string' }, top: { type: 'string' }, json: { type: 'boolean' }, ...MODEL_OPTIONS };
 
 interface ExplainedRow {
   row: number;
@@ -39,7 +42,9 @@ export async function runExplain(argv: string[]): Promise<void> {
   const wanted = wantedRows(args, 'explain');
   const top = wholeNumber(args, 'top', 1) ?? 10;
   const [modelPath, dataPath] = args.positionals;
-  const forest = await loadModel(modelPath);
+  const opened = await openForData(modelPath, dataPath, args, 'explain');
+  let forest = opened.forest;
+  const notes = opened.notes;
   const target = forest.schema.target;
   const classes = target.classes ?? [];
   const chosen = text(args, 'class');
@@ -49,6 +54,11 @@ export async function runExplain(argv: string[]): Promise<void> {
   }
   const { loaded, tableRows, x } = await chooseRows(forest, dataPath, wanted, 'explain');
   const table = loaded.table;
+  if (!knowsTraining(forest)) {
+    // Explanations weigh a split's sides by the rows that reached them; an import has no training counts.
+    forest = withCoverFrom(forest, encodeTable(forest.schema, table, dataPath, loaded.header), table.rowCount);
+    notes.push(`The model carries no training row counts, so each split's sides are weighed by the ${table.rowCount} rows of ${dataPath}.`);
+  }
   const names = forest.schema.features.map((f) => f.name);
   const p = names.length;
   const pred = predictEncoded(forest, x, wanted.length);
@@ -77,10 +87,10 @@ export async function runExplain(argv: string[]): Promise<void> {
   });
 
   if (flag(args, 'json')) {
-    process.stdout.write(JSON.stringify({ task: target.task, target: target.name, trees: forest.trees.length, features: names, rows }, null, 2) + '\n');
+    process.stdout.write(JSON.stringify({ task: target.task, target: target.name, trees: forest.trees.length, features: names, warnings: [...notes, ...loaded.warnings], rows }, null, 2) + '\n');
     return;
   }
-  for (const w of loaded.warnings) process.stderr.write(`Warning: ${w}\n`);
+  for (const w of [...notes, ...loaded.warnings]) process.stderr.write(`Warning: ${w}\n`);
   process.stdout.write(rows.map((row) => readable(row, chosen, top)).join('\n'));
 }
 

@@ -4,12 +4,13 @@ import { predictInWorkers } from '../../core/forest/parallel-predict';
 import { encodeTable } from '../../core/forest/predict';
 import { loadForScoring, predictionColumns, writePredictions, type IntervalCells } from '../../core/forest/score-file';
 import { dataRowOf } from '../../core/forest/summary';
-import { loadModel } from '../../core/model/file';
+import { knowsTraining } from '../../core/model/open';
 import { flag, fraction, parse, text, UsageError, type Options } from '../args';
+import { MODEL_HELP, MODEL_OPTIONS, openForData } from '../model';
 
-export const PREDICT_HELP = `Usage: copse predict MODEL.json DATA.csv [--out OUT.csv] [--json]
+export const PREDICT_HELP = `Usage: copse predict MODEL DATA.csv [--out OUT.csv] [--json]
 
-Scores every row of DATA.csv with a saved forest.
+Scores every row of DATA.csv with a saved forest: a Copse model file (.json) or an ONNX tree ensemble (.onnx).
 
 Options:
   --out OUT.csv        write the input columns plus the prediction, each class's probability (or the value)
@@ -18,11 +19,11 @@ Options:
                        forest, Meinshausen 2006); needs --training
   --training TRAIN.csv the file the forest was fitted on (checked against the model's fingerprint)
   --json               print one JSON object: rows, columns, timings, and the predictions unless --out is given
-  --debug              show stack traces on errors
+${MODEL_HELP}  --debug              show stack traces on errors
 Without --out or --json, the predictions are printed as CSV, one line per data row.
 `;
 
-const OPTIONS: Options = { out: { type: 'string' }, json: { type: 'boolean' }, interval: { type: 'string' }, training: { type: 'string' } };
+const OPTIONS: Options = { out: { type: 'string' }, json: { type: 'boolean' }, interval: { type: 'string' }, training: { type: 'string' }, ...MODEL_OPTIONS };
 
 export async function runPredict(argv: string[]): Promise<void> {
   const args = parse('predict', argv, OPTIONS, 2);
@@ -31,11 +32,15 @@ export async function runPredict(argv: string[]): Promise<void> {
   const level = fraction(args, 'interval');
   const training = text(args, 'training');
   if (level !== undefined && !training) throw new UsageError('--interval needs --training TRAIN.csv, the file the forest was fitted on.', 'predict');
-  const forest = await loadModel(modelPath);
+  const { forest, notes } = await openForData(modelPath, dataPath, args, 'predict');
   if (level !== undefined && forest.schema.target.task !== 'regression') throw new UsageError('--interval is for regression forests; this one classifies.', 'predict');
+  if (level !== undefined && !knowsTraining(forest)) {
+    throw new UsageError('--interval needs the rows the forest was trained on and how each tree drew them; an imported forest does not carry them.', 'predict');
+  }
   const t0 = performance.now();
   const loaded = await loadForScoring(dataPath, forest.schema);
   const table = loaded.table;
+  const warnings = [...notes, ...loaded.warnings];
   const x = encodeTable(forest.schema, table, dataPath, loaded.header);
   const t1 = performance.now();
   const prediction = await predictInWorkers(forest, x, table.rowCount);
@@ -63,10 +68,10 @@ export async function runPredict(argv: string[]): Promise<void> {
           return entry;
         });
     const seconds = { load: (t1 - t0) / 1000, predict: (t2 - t1) / 1000 };
-    process.stdout.write(JSON.stringify({ rows: prediction.rows, columns: added.names, output: out ?? null, warnings: loaded.warnings, seconds, predictions: rows }, null, 2) + '\n');
+    process.stdout.write(JSON.stringify({ rows: prediction.rows, columns: added.names, output: out ?? null, warnings, seconds, predictions: rows }, null, 2) + '\n');
     return;
   }
-  for (const w of loaded.warnings) process.stderr.write(`Warning: ${w}\n`);
+  for (const w of warnings) process.stderr.write(`Warning: ${w}\n`);
   if (out) {
     process.stdout.write(`Scored ${prediction.rows} rows into ${out}.\n`);
     return;

@@ -1,21 +1,21 @@
 import { argmaxAt } from '../../core/metrics/scores';
 import { predictEncoded } from '../../core/forest/predict';
-import { loadModel } from '../../core/model/file';
 import { flag, parse, type Options } from '../args';
+import { MODEL_HELP, MODEL_OPTIONS, openForData } from '../model';
 import { chooseRows, wantedRows } from '../rows';
 
-export const VOTES_HELP = `Usage: copse votes MODEL.json DATA.csv --rows 1,7,12 [--json]
+export const VOTES_HELP = `Usage: copse votes MODEL DATA.csv --rows 1,7,12 [--json]
 
-Shows how every tree of a saved forest votes on chosen rows of DATA.csv.
+Shows how every tree of a saved forest (.json or .onnx) votes on chosen rows of DATA.csv.
 Rows are counted from 1: the first row after the header is row 1.
 
 Options:
   --rows LIST   comma-separated data row numbers (required)
   --json        print one JSON object
-  --debug       show stack traces on errors
+${MODEL_HELP}  --debug       show stack traces on errors
 `;
 
-const OPTIONS: Options = { rows: { type: 'string' }, json: { type: 'boolean' } };
+const OPTIONS: Options = { rows: { type: 'string' }, json: { type: 'boolean' }, ...MODEL_OPTIONS };
 
 interface VoteRow {
   row: number;
@@ -33,7 +33,7 @@ export async function runVotes(argv: string[]): Promise<void> {
   if (flag(args, 'help')) return void process.stdout.write(VOTES_HELP);
   const wanted = wantedRows(args, 'votes');
   const [modelPath, dataPath] = args.positionals;
-  const forest = await loadModel(modelPath);
+  const { forest, notes } = await openForData(modelPath, dataPath, args, 'votes');
   const { loaded, tableRows, x } = await chooseRows(forest, dataPath, wanted, 'votes');
   const table = loaded.table;
   const pred = predictEncoded(forest, x, wanted.length);
@@ -61,9 +61,10 @@ export async function runVotes(argv: string[]): Promise<void> {
     return { row: r, line, prediction: pred.predicted[j], spread: pred.spread![j], trees: treeVotes };
   });
   if (flag(args, 'json')) {
-    process.stdout.write(JSON.stringify({ task: target.task, target: target.name, trees: T, rows }, null, 2) + '\n');
+    process.stdout.write(JSON.stringify({ task: target.task, target: target.name, trees: T, warnings: notes, rows }, null, 2) + '\n');
     return;
   }
+  for (const w of notes) process.stderr.write(`Warning: ${w}\n`);
   let out = '';
   for (const r of rows) {
     if (r.counts && r.agreement !== undefined) {

@@ -4,6 +4,7 @@ import type { FlatTree } from '../tree/tree';
 import type { ForestParams } from './params';
 
 export interface TrainingInfo {
+  /** Training rows; 0 when not known (an imported forest): nothing that needs the training sample is offered. */
   readonly rows: number;
   /** sha256 of the training file's bytes (empty when fitted from memory). */
   readonly fingerprint: string;

@@ -83,7 +83,8 @@ export function parseModel(text: string, label = 'the model'): Forest {
     params,
     trees,
     training: {
-      rows: r.integer(r.field(training, 'rows', 'training'), 'training.rows', 1),
+      // 0: not known (a forest imported from another library); out-of-bag results cannot be had for it.
+      rows: r.integer(r.field(training, 'rows', 'training'), 'training.rows', 0),
       fingerprint: r.string(r.field(training, 'fingerprint', 'training'), 'training.fingerprint'),
       dropped,
     },

@@ -200,18 +200,12 @@ function positionalSchema(p: number, task: 'classification' | 'regression', e: E
   return { features, target: { name, task, classes } };
 }
 
-/**
- * Runs the forest through the model file's validator. That validator wants at least one training row; an
- * imported forest without Copse metadata has 0 (unknown), so the check sees 1 and the result keeps 0.
- */
+/** Runs the forest through the model file's validator, so an import is held to the same rules as a saved model. */
 function validate(forest: Forest, label: string, known: boolean): Forest {
-  const rows = forest.training.rows;
-  let checked: Forest;
   try {
-    checked = parseModel(serializeModel({ ...forest, training: { ...forest.training, rows: known ? rows : 1 } }), label);
+    return parseModel(serializeModel(forest), label);
   } catch (e) {
     if (e instanceof ModelError) throw new ModelError(`${e.message.replace(/\.$/, '')} (after converting it from ONNX${known ? ', with its Copse metadata' : ''}).`);
     throw e;
   }
-  return known ? checked : { ...checked, training: { ...checked.training, rows: 0 } };
 }

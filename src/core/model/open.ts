@@ -1,0 +1,67 @@
+// Opening a forest from either file Copse reads: its own model file, or an ONNX tree ensemble from elsewhere.
+// Callers (CLI, editor) get one forest type back, plus where it came from, so what an import cannot know
+// (the training sample, feature names) is reported instead of guessed.
+import { promises as fs } from 'node:fs';
+import type { Forest } from '../forest/forest';
+import { columnsInOrder, loadOnnxFile, nameFeatures } from '../onnx/load';
+import type { OnnxImport } from '../onnx/import';
+import { loadModel } from './file';
+import { ModelError } from './validate';
+
+export type ModelOrigin =
+  | { readonly kind: 'copse' }
+  | {
+      readonly kind: 'onnx';
+      /** Feature names came from Copse metadata in the file, or are positions (f0, f1, ...). */
+      readonly names: OnnxImport['names'];
+      readonly operator: OnnxImport['operator'];
+      readonly producer: string;
+      readonly notes: readonly string[];
+    };
+
+export interface OpenedModel {
+  readonly forest: Forest;
+  readonly origin: ModelOrigin;
+}
+
+/** An ONNX file by its name, or by its first byte: a model file is JSON ("{"), an ONNX model starts with field 1's tag. */
+export async function isOnnxFile(path: string): Promise<boolean> {
+  if (/\.onnx$/i.test(path)) return true;
+  if (/\.json$/i.test(path)) return false;
+  let handle: fs.FileHandle | undefined;
+  try {
+    handle = await fs.open(path, 'r');
+    const { buffer, bytesRead } = await handle.read(Buffer.alloc(1), 0, 1, 0);
+    return bytesRead === 1 && buffer[0] === 0x08;
+  } catch {
+    return false; // loadModel reports the unreadable file
+  } finally {
+    await handle?.close();
+  }
+}
+
+export async function openModelFile(path: string): Promise<OpenedModel> {
+  if (!(await isOnnxFile(path))) return { forest: await loadModel(path), origin: { kind: 'copse' } };
+  const imported = await loadOnnxFile(path);
+  return {
+    forest: imported.forest,
+    origin: { kind: 'onnx', names: imported.names, operator: imported.operator, producer: imported.producer, notes: imported.notes },
+  };
+}
+
+/** Whether the forest knows its training sample: an imported forest does not (its row count is 0). */
+export function knowsTraining(forest: Forest): boolean {
+  return forest.training.rows > 0;
+}
+
+/**
+ * The forest with its features named by a CSV header's columns in order, leaving out the given columns (by
+ * default the forest's target, if the header has it). For a model whose file carries no names; refuses unless exactly as many columns remain.
+ */
+export function nameByPosition(forest: Forest, header: readonly string[], leaveOut?: readonly string[]): Forest {
+  const target = forest.schema.target.name;
+  leaveOut ??= header.includes(target) ? [target] : [];
+  return nameFeatures(forest, columnsInOrder(header, forest.schema.features.length, leaveOut));
+}
+
+export { ModelError };
