@@ -21,6 +21,26 @@ describe('forest', () => {
     assert.deepEqual(a.curve, c.curve);
   });
 
+  it('hands each tree on in order, and without keeping them reports the same out-of-bag results', async () => {
+    const options = { target: 'label', params: { trees: 8, seed: 9 }, workers: 2 };
+    const kept = await fitForest(table, options);
+    const handed: string[] = [];
+    const lean = await fitForest(table, {
+      ...options,
+      keepTrees: false,
+      onTree: (tree, index, head) => {
+        assert.equal(index, handed.length);
+        assert.deepEqual(head.schema, kept.forest.schema);
+        handed.push(serializeModel({ ...head, params: { ...head.params, trees: 1 }, trees: [tree] }));
+      },
+    });
+    assert.equal(lean.forest.trees.length, 0);
+    assert.deepEqual(lean.rows, kept.rows);
+    assert.deepEqual(lean.curve, kept.curve);
+    kept.forest.trees.forEach((tree, t) => assert.equal(handed[t], serializeModel({ ...kept.forest, params: { ...kept.forest.params, trees: 1 }, trees: [tree] })));
+    await assert.rejects(fitForest(table, { ...options, keepTrees: false, holdout: 0.2 }), /needs the trees kept/);
+  });
+
   it('grows a different forest for another seed', async () => {
     const a = await fitForest(table, { target: 'label', params: { trees: 5, seed: 1 }, workers: 2 });
     const b = await fitForest(table, { target: 'label', params: { trees: 5, seed: 2 }, workers: 2 });

@@ -30,17 +30,35 @@ describe('model file', () => {
     assert.equal(back.training.fingerprint, 'abc');
   });
 
-  it('names its format and version', () => {
-    const doc = JSON.parse(text);
-    assert.equal(doc.format, 'copse-forest');
-    assert.equal(doc.version, 1);
+  it('names its format and version on its first line, then holds one tree per line', () => {
+    const lines = text.trimEnd().split('\n');
+    const head = JSON.parse(lines[0]);
+    assert.equal(head.format, 'copse-forest');
+    assert.equal(head.version, 2);
+    assert.equal(head.trees, 6);
+    assert.equal(lines.length, 7);
+    assert.equal(JSON.parse(lines[1]).nodes, forest.trees[0].nodeCount);
   });
 
-  const mutate = (f: (doc: any) => void) => {
-    const doc = JSON.parse(text);
-    f(doc);
-    return JSON.stringify(doc);
+  /** The file as one document (version 1's layout): what the cases below edit. */
+  const whole = () => {
+    const [head, ...trees] = text.trimEnd().split('\n').map((l) => JSON.parse(l));
+    return { ...head, trees };
   };
+  const lines = (doc: any) => {
+    const { trees, ...head } = doc;
+    return [JSON.stringify({ ...head, trees: 6 }), ...trees.map((t: unknown) => JSON.stringify(t))].join('\n');
+  };
+  const mutate = (f: (doc: any) => void) => {
+    const doc = whole();
+    f(doc);
+    return lines(doc);
+  };
+
+  it('still reads version 1 files, one JSON document with the trees inside', () => {
+    const v1 = JSON.stringify({ ...whole(), version: 1 });
+    assert.equal(serializeModel(parseModel(v1)), text);
+  });
 
   const refusals: Array<[string, () => string, RegExp]> = [
     ['a truncated file', () => text.slice(0, text.length / 2), /not complete JSON/],
@@ -57,7 +75,11 @@ describe('model file', () => {
     ['a feature index out of range', () => mutate((d) => (d.trees[0].feature[0] = 500)), /feature\[0\]/],
     ['a wrong array length', () => mutate((d) => d.trees[0].value.pop()), /value should have/],
     ['a non-numeric threshold', () => mutate((d) => (d.trees[0].threshold[0] = 'x')), /threshold\[0\]/],
-    ['fewer trees than it says', () => mutate((d) => d.trees.pop()), /trees should have 6 entries/],
+    ['fewer trees than it says', () => mutate((d) => d.trees.pop()), /announces 6 trees but holds 5/],
+    ['more trees than it says', () => mutate((d) => d.trees.push(d.trees[0])), /line 8 comes after the last tree/],
+    ['a tree count other than its settings', () => lines(whole()).replace(/"trees":6}\n/, '"trees":5}\n'), /trees should be 6/],
+    ['an empty file', () => '', /it is empty/],
+    ['a version 1 file with fewer trees', () => JSON.stringify({ ...whole(), version: 1, trees: whole().trees.slice(1) }), /trees should have 6 entries/],
     ['a missing schema', () => mutate((d) => delete d.schema), /schema is missing/],
     ['out-of-range parameters', () => mutate((d) => (d.params.minLeaf = 0)), /params\.minLeaf/],
     ['a task that disagrees with its target', () => mutate((d) => (d.params.task = 'regression')), /criterion|task/],

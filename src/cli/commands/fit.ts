@@ -4,7 +4,7 @@ import type { ColumnKind } from '../../core/data/table';
 import { fitForest } from '../../core/forest/fit';
 import { parseFeaturesPerSplit, type ForestParams } from '../../core/forest/params';
 import { summarizeFit } from '../../core/forest/summary';
-import { saveModel } from '../../core/model/file';
+import { ModelWriter } from '../../core/model/file';
 import { choice, flag, fraction, list, parse, text, UsageError, wholeNumber, type Options } from '../args';
 import { progressBar } from '../progress';
 import { fitReport } from '../report';
@@ -137,6 +137,9 @@ export async function runFit(argv: string[]): Promise<void> {
   }
   const loadSeconds = (performance.now() - t0) / 1000;
   const bar = json ? undefined : progressBar('Growing trees');
+  const savePath = text(args, 'save');
+  // Trees go to the model file as they are grown; they are kept in memory only to score a holdout or test set.
+  let writer: ModelWriter | undefined;
   const report = await fitForest(loaded.table, {
     target,
     task,
@@ -149,10 +152,19 @@ export async function runFit(argv: string[]): Promise<void> {
     onProgress: (d, t) => bar?.update(d, t),
     fingerprint: loaded.fingerprint,
     dropped: loaded.dropped,
+    keepTrees: holdout !== undefined || test !== undefined,
+    onTree: savePath
+      ? (tree, _, head) => {
+          writer ??= new ModelWriter(savePath, head, head.params.trees);
+          writer.add(tree);
+        }
+      : undefined,
+  }).catch((e) => {
+    writer?.abandon();
+    throw e;
   });
   bar?.end();
-  const savePath = text(args, 'save');
-  if (savePath) await saveModel(savePath, report.forest);
+  await writer?.finish();
   const summary = summarizeFit(report, loaded.table, { notes: loaded.notes, warnings: loaded.warnings });
   const seconds = { load: loadSeconds, fit: report.seconds.fit };
   if (json) {

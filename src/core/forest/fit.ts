@@ -3,11 +3,13 @@
 import { binColumns, describeFeatures } from '../data/binning';
 import { findColumn, type DroppedColumn, type Table } from '../data/table';
 import { classificationScores, regressionScores, type Scores } from '../metrics/scores';
+import type { ModelHead } from '../model/file';
 import type { Schema } from '../model/schema';
 import type { TargetData } from '../tree/builder';
 import { sampleSize } from './bootstrap';
 import type { Forest } from './forest';
-import { DEFAULT_PERMUTATION_ROWS, type TrainingJob, type TreeResult } from './grow-task';
+import type { FlatTree } from '../tree/tree';
+import { DEFAULT_PERMUTATION_ROWS, type TrainingJob } from './grow-task';
 import { OobFold, type RowResults } from './oob';
 import { defaultParams, resolveFeaturesPerSplit, validateParams, type ForestParams, type Task } from './params';
 import { defaultWorkers, growInWorkers } from './pool';
@@ -33,6 +35,14 @@ export interface FitOptions {
   readonly permutationImportance?: boolean;
   readonly fingerprint?: string;
   readonly dropped?: readonly DroppedColumn[];
+  /** Each tree as it is grown, in tree order: a caller can write the model out without holding every tree. */
+  readonly onTree?: (tree: FlatTree, index: number, head: ModelHead) => void;
+  /**
+   * false: the report's forest has no trees (they went to onTree). Full-depth trees on millions of rows take
+   * gigabytes; a fit that only reports out-of-bag results, or streams its model to a file, need not keep them.
+   * A holdout or test set is scored with the trees, so it needs them kept.
+   */
+  readonly keepTrees?: boolean;
 }
 
 export interface Importance {
@@ -45,6 +55,7 @@ export interface Importance {
 }
 
 export interface FitReport {
+  /** Its trees are empty when the fit was asked not to keep them (FitOptions.keepTrees). */
   readonly forest: Forest;
   readonly trainRows: Int32Array;
   readonly holdoutRows?: Int32Array;
@@ -105,26 +116,26 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
     permutationRows: DEFAULT_PERMUTATION_ROWS,
   };
 
+  const head: ModelHead = { schema, params, training: { rows: n, fingerprint: options.fingerprint ?? '', dropped: [...(options.dropped ?? [])] } };
+  const keepTrees = options.keepTrees ?? true;
+  if (!keepTrees && (holdout || options.test)) throw new RangeError('Scoring a holdout or test set needs the trees kept.');
   const fold = new OobFold(task, n, K, params.trees, trainY, infos.length);
-  const trees: TreeResult['tree'][] = [];
+  const trees: FlatTree[] = [];
+  let grown = 0;
   await growInWorkers(
     job,
     params.trees,
     options.workers ?? defaultWorkers(),
     (r) => {
-      trees.push(r.tree);
+      if (keepTrees) trees.push(r.tree);
       fold.add(r);
-      options.onProgress?.(trees.length, params.trees);
+      options.onTree?.(r.tree, r.index, head);
+      options.onProgress?.(++grown, params.trees);
     },
     options.signal,
   );
 
-  const forest: Forest = {
-    schema,
-    params,
-    trees,
-    training: { rows: n, fingerprint: options.fingerprint ?? '', dropped: [...(options.dropped ?? [])] },
-  };
+  const forest: Forest = { ...head, trees };
   const rows = fold.rows();
   const oob = fold.scores(encoded.classes ?? []);
   let test: Scores | undefined;

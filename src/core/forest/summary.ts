@@ -88,7 +88,7 @@ export function summarizeFit(report: FitReport, table: Table, extra: { notes?: r
     rows: report.rows.count,
     features: names,
     dropped: forest.training.dropped,
-    trees: forest.trees.length,
+    trees: p.trees,
     settings: {
       trees: p.trees,
       featuresPerSplit: p.featuresPerSplit,

@@ -1,8 +1,12 @@
-// The saved model: one JSON file, validated field by field on the way in and written atomically on the way out.
+// The saved model: JSON lines, validated field by field on the way in and written atomically on the way out.
+// Line 1 holds the format, schema, settings and training facts and says how many trees follow; each further line
+// is one tree. A full-depth forest on millions of rows runs to gigabytes, more than one JavaScript string can
+// hold, so a model is written and read a tree at a time. Version 1 files (one JSON document) are still read.
 import { randomBytes } from 'node:crypto';
-import { promises as fs } from 'node:fs';
+import { closeSync, createReadStream, openSync, promises as fs, rmSync, writeSync } from 'node:fs';
+import { createInterface } from 'node:readline';
 import type { ColumnKind, DroppedColumn } from '../data/table';
-import type { Forest } from '../forest/forest';
+import type { Forest, TrainingInfo } from '../forest/forest';
 import { validateParams, type ForestParams } from '../forest/params';
 import type { FlatTree } from '../tree/tree';
 import { outputCount, type FeatureInfo, type Schema, type TargetInfo } from './schema';
@@ -11,64 +15,176 @@ import { ModelError, Reader, type Json } from './validate';
 export { ModelError } from './validate';
 
 export const MODEL_FORMAT = 'copse-forest';
-export const MODEL_VERSION = 1;
+export const MODEL_VERSION = 2;
 
-export function serializeModel(forest: Forest): string {
-  const doc = {
-    format: MODEL_FORMAT,
-    version: MODEL_VERSION,
-    schema: forest.schema,
-    params: forest.params,
-    training: forest.training,
-    trees: forest.trees.map((t) => ({
-      nodes: t.nodeCount,
-      left: Array.from(t.left),
-      right: Array.from(t.right),
-      feature: Array.from(t.feature),
-      threshold: Array.from(t.threshold),
-      missingLeft: Array.from(t.missingLeft),
-      value: Array.from(t.value),
-      cover: Array.from(t.cover),
-      levelSets: Array.from(t.catBits),
-    })),
-  };
-  return JSON.stringify(doc);
+/** Everything of a forest but its trees: what the first line of the file holds. */
+export type ModelHead = Omit<Forest, 'trees'>;
+
+function headLine(head: ModelHead, trees: number): string {
+  return JSON.stringify({ format: MODEL_FORMAT, version: MODEL_VERSION, schema: head.schema, params: head.params, training: head.training, trees });
 }
 
-/** Writes to a temporary file beside the target, then renames: readers never see half a model. */
-export async function saveModel(path: string, forest: Forest): Promise<void> {
-  const tmp = `${path}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`;
-  try {
-    await fs.writeFile(tmp, serializeModel(forest), { flag: 'wx' });
-    await fs.rename(tmp, path);
-  } catch (e) {
-    await fs.rm(tmp, { force: true });
-    throw e;
+function treeLine(t: FlatTree): string {
+  return JSON.stringify({
+    nodes: t.nodeCount,
+    left: Array.from(t.left),
+    right: Array.from(t.right),
+    feature: Array.from(t.feature),
+    threshold: Array.from(t.threshold),
+    missingLeft: Array.from(t.missingLeft),
+    value: Array.from(t.value),
+    cover: Array.from(t.cover),
+    levelSets: Array.from(t.catBits),
+  });
+}
+
+export function serializeModel(forest: Forest): string {
+  return [headLine(forest, forest.trees.length), ...forest.trees.map(treeLine)].join('\n') + '\n';
+}
+
+/**
+ * Writes a model a tree at a time into a temporary file beside the target, renamed into place by finish():
+ * readers never see half a model, and the trees need not all be in memory at once.
+ */
+export class ModelWriter {
+  private readonly tmp: string;
+  private fd: number | undefined;
+  private written = 0;
+
+  constructor(private readonly path: string, head: ModelHead, private readonly trees: number) {
+    this.tmp = `${path}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`;
+    this.fd = openSync(this.tmp, 'wx');
+    try {
+      this.line(headLine(head, trees));
+    } catch (e) {
+      this.abandon();
+      throw e;
+    }
   }
+
+  add(tree: FlatTree): void {
+    if (this.written === this.trees) throw new RangeError(`The model was opened for ${this.trees} trees.`);
+    try {
+      this.line(treeLine(tree));
+    } catch (e) {
+      this.abandon();
+      throw e;
+    }
+    this.written++;
+  }
+
+  async finish(): Promise<void> {
+    if (this.written !== this.trees) {
+      this.abandon();
+      throw new RangeError(`The model was opened for ${this.trees} trees; ${this.written} were written.`);
+    }
+    try {
+      closeSync(this.fd!);
+      this.fd = undefined;
+      await fs.rename(this.tmp, this.path);
+    } catch (e) {
+      this.abandon();
+      throw e;
+    }
+  }
+
+  /** Removes the temporary file; the target is untouched. */
+  abandon(): void {
+    if (this.fd !== undefined) closeSync(this.fd);
+    this.fd = undefined;
+    rmSync(this.tmp, { force: true });
+  }
+
+  private line(text: string): void {
+    if (this.fd === undefined) throw new Error('The model file is closed.');
+    writeSync(this.fd, text + '\n');
+  }
+}
+
+export async function saveModel(path: string, forest: Forest): Promise<void> {
+  const writer = new ModelWriter(path, forest, forest.trees.length);
+  for (const tree of forest.trees) writer.add(tree);
+  await writer.finish();
 }
 
 export async function loadModel(path: string): Promise<Forest> {
-  let text: string;
+  const parser = new ModelParser(path);
   try {
-    text = await fs.readFile(path, 'utf8');
+    const lines = createInterface({ input: createReadStream(path, { encoding: 'utf8' }), crlfDelay: Infinity });
+    for await (const line of lines) parser.line(line);
   } catch (e) {
+    if (e instanceof ModelError) throw e;
     throw new ModelError(`Cannot read the model ${path}: ${(e as Error).message}`);
   }
-  return parseModel(text, path);
+  return parser.end();
 }
 
 export function parseModel(text: string, label = 'the model'): Forest {
-  const r = new Reader(label);
-  let json: Json;
-  try {
-    json = JSON.parse(text);
-  } catch {
-    throw new ModelError(`${label} is not a valid Copse model: it is not complete JSON (truncated or damaged?).`);
+  const parser = new ModelParser(label);
+  for (const line of text.split('\n')) parser.line(line);
+  return parser.end();
+}
+
+/** Takes the file's lines in order; end() returns the forest once every tree the head announced has come. */
+class ModelParser {
+  private readonly r: Reader;
+  private head: ModelHead | undefined;
+  private expected = 0;
+  private readonly trees: FlatTree[] = [];
+  private whole: Forest | undefined;
+  private lineNo = 0;
+
+  constructor(private readonly label: string) {
+    this.r = new Reader(label);
   }
-  const doc = r.object(json, 'the file');
-  if (doc.format !== MODEL_FORMAT) r.fail('format', `should be "${MODEL_FORMAT}"`);
-  const version = r.integer(r.field(doc, 'version', ''), 'version', 1);
-  if (version > MODEL_VERSION) throw new ModelError(`${label} was written by a newer Copse (model version ${version}); this one reads version ${MODEL_VERSION}.`);
+
+  line(text: string): void {
+    this.lineNo++;
+    if (text.trim() === '') return;
+    if (this.whole || (this.head && this.trees.length === this.expected)) {
+      throw new ModelError(`${this.label} is not a valid Copse model: line ${this.lineNo} comes after the last tree.`);
+    }
+    let json: Json;
+    try {
+      json = JSON.parse(text);
+    } catch {
+      const what = this.head ? `line ${this.lineNo} is not complete JSON` : 'it is not complete JSON';
+      throw new ModelError(`${this.label} is not a valid Copse model: ${what} (truncated or damaged?).`);
+    }
+    if (!this.head) return this.begin(json);
+    this.trees.push(readTree(this.r, json, `trees[${this.trees.length}]`, this.head.schema));
+  }
+
+  end(): Forest {
+    if (this.whole) return this.whole;
+    if (!this.head) throw new ModelError(`${this.label} is not a valid Copse model: it is empty.`);
+    if (this.trees.length !== this.expected) {
+      throw new ModelError(`${this.label} is not a valid Copse model: it announces ${this.expected} trees but holds ${this.trees.length} (truncated?).`);
+    }
+    return { ...this.head, trees: this.trees };
+  }
+
+  private begin(json: Json): void {
+    const { r, label } = this;
+    const doc = r.object(json, 'the file');
+    if (doc.format !== MODEL_FORMAT) r.fail('format', `should be "${MODEL_FORMAT}"`);
+    const version = r.integer(r.field(doc, 'version', ''), 'version', 1);
+    if (version > MODEL_VERSION) throw new ModelError(`${label} was written by a newer Copse (model version ${version}); this one reads up to version ${MODEL_VERSION}.`);
+    const head = readHead(r, doc);
+    if (version === 1) {
+      // One document: the trees are a list inside it.
+      const trees = r.array(r.field(doc, 'trees', ''), 'trees', head.params.trees).map((t, i) => readTree(r, t, `trees[${i}]`, head.schema));
+      this.whole = { ...head, trees };
+      return;
+    }
+    const trees = r.field(doc, 'trees', '');
+    if (trees !== head.params.trees) r.fail('trees', `should be ${head.params.trees}, the tree count in params`);
+    this.expected = head.params.trees;
+    this.head = head;
+  }
+}
+
+function readHead(r: Reader, doc: Record<string, Json>): ModelHead {
   const schema = readSchema(r, r.object(r.field(doc, 'schema', ''), 'schema'));
   const params = readParams(r, r.object(r.field(doc, 'params', ''), 'params'));
   if (params.task !== schema.target.task) r.fail('params.task', 'does not match schema.target.task');
@@ -77,18 +193,13 @@ export function parseModel(text: string, label = 'the model'): Forest {
     const o = r.object(d, `training.dropped[${i}]`);
     return { name: r.string(r.field(o, 'name', ''), `training.dropped[${i}].name`), reason: r.string(r.field(o, 'reason', ''), `training.dropped[${i}].reason`) };
   });
-  const trees = r.array(r.field(doc, 'trees', ''), 'trees', params.trees).map((t, i) => readTree(r, t, `trees[${i}]`, schema));
-  return {
-    schema,
-    params,
-    trees,
-    training: {
-      // 0: not known (a forest imported from another library); out-of-bag results cannot be had for it.
-      rows: r.integer(r.field(training, 'rows', 'training'), 'training.rows', 0),
-      fingerprint: r.string(r.field(training, 'fingerprint', 'training'), 'training.fingerprint'),
-      dropped,
-    },
+  const info: TrainingInfo = {
+    // 0: not known (a forest imported from another library); out-of-bag results cannot be had for it.
+    rows: r.integer(r.field(training, 'rows', 'training'), 'training.rows', 0),
+    fingerprint: r.string(r.field(training, 'fingerprint', 'training'), 'training.fingerprint'),
+    dropped,
   };
+  return { schema, params, training: info };
 }
 
 const KINDS: readonly ColumnKind[] = ['numeric', 'categorical', 'boolean'];
