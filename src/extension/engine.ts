@@ -39,3 +39,8 @@ export {
   type QuantileIndex,
 } from '../core/explain/index';
 export { shuffle, stream } from '../core/forest/rng';
+// Opening models from either file kind, and what an imported forest needs before it can be explained.
+export { openModelFile, isOnnxFile, knowsTraining, nameByPosition, ModelError, type ModelOrigin, type OpenedModel } from '../core/model/open';
+export { readHeader } from '../core/csv/header';
+export { withCoverFrom } from '../core/forest/cover';
+export { permutationOnRows, type PermutationImportance } from '../core/explain/permutation';

@@ -107,6 +107,10 @@ export interface FitSummary {
   importance: FeatureImportance[];
   warnings: string[];
   fitSeconds: number | null;
+  /** Which rows permutation importance was measured on: out-of-bag rows (a fit; the default) or the file shown. */
+  permutationOn?: 'out-of-bag' | 'file';
+  /** Set when out-of-bag figures cannot exist for this forest: why, as a sentence, shown in their place. */
+  oobUnavailable?: string;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -413,7 +417,9 @@ export function isFitSummary(v: unknown): v is FitSummary {
       (m) => isObj(m) && isStr(m.feature) && isNum(m.impurity) && isNumOrNull(m.permutation) && isNumOrNull(m.permutationSpread),
     ) &&
     isStrArr(v.warnings) &&
-    isNumOrNull(v.fitSeconds)
+    isNumOrNull(v.fitSeconds) &&
+    (v.permutationOn === undefined || v.permutationOn === 'out-of-bag' || v.permutationOn === 'file') &&
+    (v.oobUnavailable === undefined || isStr(v.oobUnavailable))
   );
 }
 

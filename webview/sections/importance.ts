@@ -14,6 +14,12 @@ import { Chart } from '../charts';
 
 const MAX_FEATURES = 15;
 
+// A forest opened from a file has no out-of-bag rows; its drop is measured on the file it is shown against.
+const PERM_CAPTION = {
+  'out-of-bag': 'Drop in OOB score when shuffled (± spread)',
+  file: 'Rise in error on this file when shuffled (± spread)',
+} as const;
+
 export class ImportanceView {
   readonly root: HTMLElement;
   private readonly impurity: HTMLCanvasElement;
@@ -22,6 +28,7 @@ export class ImportanceView {
   private readonly contribCaption: HTMLElement;
   private readonly contribNote: HTMLElement;
   private readonly note: HTMLElement;
+  private readonly permCaption: HTMLElement;
   private readonly boxes: HTMLElement[];
   private global: GlobalContributions | null = null;
   private globalText = '';
@@ -35,6 +42,7 @@ export class ImportanceView {
     this.contribCaption = h('figcaption', {}, 'Mean |contribution| over sampled rows');
     this.contribNote = h('p', { class: 'muted contrib-status' });
     this.note = h('p', { class: 'muted' });
+    this.permCaption = h('figcaption', { testid: 'permutation-caption' }, PERM_CAPTION['out-of-bag']);
     this.root = h(
       'div',
       { class: 'importance', testid: 'importance' },
@@ -42,7 +50,7 @@ export class ImportanceView {
         'div',
         { class: 'pair' },
         h('figure', {}, h('figcaption', {}, 'Impurity decrease (share of total)'), this.boxes[0]),
-        h('figure', {}, h('figcaption', {}, 'Drop in OOB score when shuffled (± spread)'), this.boxes[1]),
+        h('figure', {}, this.permCaption, this.boxes[1]),
         h('figure', { testid: 'importance-contrib' }, this.contribCaption, this.boxes[2], this.contribNote),
       ),
       this.note,
@@ -73,6 +81,7 @@ export class ImportanceView {
     this.last = { s, theme };
     applyTheme(theme);
     const hasPerm = s.importance.some((m) => m.permutation !== null);
+    this.permCaption.textContent = PERM_CAPTION[s.permutationOn ?? 'out-of-bag'];
     const order = [...s.importance].sort((a, b) => key(b, hasPerm) - key(a, hasPerm));
     const shown = order.slice(0, MAX_FEATURES);
     const labels = shown.map((m) => truncate(m.feature, 16));

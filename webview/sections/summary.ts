@@ -128,7 +128,7 @@ function scoreTable(s: FitSummary): HTMLElement {
       }),
     ),
   );
-  const note = s.oob ? null : h('p', { class: 'muted' }, 'No out-of-bag score: every row was in every tree’s sample.');
+  const note = s.oob ? null : h('p', { class: 'muted', testid: 'oob-note' }, s.oobUnavailable ?? 'No out-of-bag score: every row was in every tree’s sample.');
   const wrap = h('div', { class: 'scores' }, h('table', { class: 'score-table' }, h('thead', {}, head), h('tbody', {}, ...body)));
   if (note) append(wrap, note);
   return wrap;

@@ -81,15 +81,17 @@ export class VotesView {
       { class: 'vote-head' },
       h('button', { class: 'row-link', attrs: { type: 'button' }, title: 'Show this row in the editor', on: { click: () => this.reveal(r.row) } }, `Row ${r.row}`),
       stat('label', swatchOr(classification, theme, r.label), say(r.label)),
-      stat(
-        'out-of-bag vote',
-        swatchOr(classification, theme, r.oobVote),
-        say(r.oobVote),
-        missed ? h('span', { class: 'miss', title: 'The out-of-bag vote disagrees with the label' }, ' ✗ differs') : null,
-      ),
+      summary.oobUnavailable
+        ? stat('out-of-bag vote', h('span', { class: 'muted', title: summary.oobUnavailable }, 'unavailable'))
+        : stat(
+            'out-of-bag vote',
+            swatchOr(classification, theme, r.oobVote),
+            say(r.oobVote),
+            missed ? h('span', { class: 'miss', title: 'The out-of-bag vote disagrees with the label' }, ' ✗ differs') : null,
+          ),
       stat('agreement', percent(r.agreement, 1)),
       classification ? stat('vote entropy', `${fixed(r.entropy, 2)} bits`) : stat('spread of votes', num(sd(r.votes))),
-      stat('out-of-bag trees', count(r.outOfBag.length)),
+      summary.oobUnavailable ? null : stat('out-of-bag trees', count(r.outOfBag.length)),
       r.interval ? stat(`${Number((r.interval.level * 100).toFixed(1))}% interval`, h('span', { testid: 'row-interval' }, `${num(r.interval.lower)} to ${num(r.interval.upper)}`)) : null,
       h('button', { class: 'row-link', testid: 'explain-row', attrs: { type: 'button' }, title: 'Chart how each feature moved this row’s prediction', on: { click: () => this.explain(r.row) } }, 'Explain'),
     );

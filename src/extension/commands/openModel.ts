@@ -1,13 +1,15 @@
-// "Copse: Open a saved forest": load a model file, then pick the CSV to look at it against.
+// "Copse: Open a saved forest": load a model file (Copse's own, or an ONNX tree ensemble), then pick the CSV
+// to look at it against.
 
 import { readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { loadModel, Scorer } from '../engine';
+import { knowsTraining, openModelFile, readHeader, Scorer } from '../engine';
 import { guarded, readCsv, requireFile } from '../fit/fitFlow';
 import { ForestSession } from '../session/session';
 import { ExplainClient } from '../workers/explainClient';
 import { openedSummary } from '../summary/openedSummary';
+import { forestForTable, nameByHeader, permutationOnTable, positionalNaming, UNAVAILABLE_FOR_IMPORT } from '../session/imported';
 import { COMMANDS, type Host } from './host';
 
 export function registerOpenModel(host: Host): vscode.Disposable {
@@ -26,17 +28,18 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
         title: 'Copse: open a saved forest',
         canSelectMany: false,
         defaultUri: csvGiven ? vscode.Uri.file(path.dirname(csvGiven.fsPath)) : undefined,
-        filters: { 'Copse forest': ['json'], 'All files': ['*'] },
+        filters: { 'Forest (Copse model or ONNX tree ensemble)': ['json', 'onnx'], 'All files': ['*'] },
       });
       modelUri = picked?.[0];
     }
     if (!modelUri) return;
     const modelPath = requireFile(modelUri);
-    const forest = await loadModel(modelPath);
+    const opened = await openModelFile(modelPath);
+    const modelLabel = path.basename(modelPath);
     let csvUri = csvGiven;
     if (!csvUri) {
       const picked = await vscode.window.showOpenDialog({
-        title: `Copse: choose a CSV to inspect ${path.basename(modelPath)} against`,
+        title: `Copse: choose a CSV to inspect ${modelLabel} against`,
         canSelectMany: false,
         defaultUri: vscode.Uri.file(path.dirname(modelPath)),
         filters: { 'Delimited text': ['csv', 'tsv', 'txt'], 'All files': ['*'] },
@@ -44,9 +47,22 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
       csvUri = picked?.[0];
     }
     if (!csvUri) return;
-    const loaded = await readCsv(ctx, requireFile(csvUri), { forest: forest.schema });
+    const csvPath = requireFile(csvUri);
+    let named = opened.forest;
+    // A foreign file may name no features; the CSV's columns can stand in, in order, once the user agrees.
+    const { header } = await readHeader(csvPath);
+    const naming = positionalNaming(opened.forest, opened.origin, header, path.basename(csvPath), modelLabel);
+    if (naming) {
+      const take = 'Take the columns in order';
+      const answer = await vscode.window.showWarningMessage(naming.question, { modal: true }, take);
+      if (answer !== take) return;
+      named = nameByHeader(opened.forest, header, naming.target);
+    }
+    const loaded = await readCsv(ctx, csvPath, { forest: named.schema });
     if (!loaded) return;
     const label = path.basename(loaded.path);
+    const imported = !knowsTraining(named);
+    const forest = forestForTable(named, loaded.load.table, label);
     const warnings = [...loaded.load.warnings];
     if (loaded.sampled) {
       warnings.push(`Shown against a random sample of ${loaded.load.table.rowCount} of ${loaded.load.rowsRead} rows.`);
@@ -55,6 +71,11 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
     const started = performance.now();
     let session: ForestSession;
     try {
+      // Rescoring runs in the scorer's thread; the host only shuffles one column at a time.
+      const permutation = await vscode.window.withProgress(
+        { location: vscode.ProgressLocation.Notification, title: `Copse: measuring permutation importance on ${label}` },
+        () => permutationOnTable(forest, loaded.load.table, label, loaded.load.fingerprint, scorer, ctx.settings().training.seed),
+      );
       session = await ForestSession.create({
         forest,
         source: {
@@ -78,13 +99,17 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
             rowsRead: loaded.load.rowsRead,
             sampled: loaded.sampled,
             fingerprint: loaded.load.fingerprint,
-            modelLabel: path.basename(modelPath),
+            modelLabel,
             warnings,
+            origin: opened.origin,
+            permutation,
           }),
         scorer,
         explainer: (setup) => new ExplainClient(setup),
-        // Intervals need the forest's training rows: they are there when this CSV is its training file.
-        quantiles: { from: 'table' },
+        // Intervals need the forest's training rows: they are there when this CSV is its training file, and
+        // never for an import without Copse's metadata.
+        quantiles: imported ? { from: 'none', reason: `${UNAVAILABLE_FOR_IMPORT}.` } : { from: 'table' },
+        importedFrom: imported ? modelLabel : undefined,
         intervalLevel: ctx.settings().explain.intervalLevel,
       });
     } catch (e) {

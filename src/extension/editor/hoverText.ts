@@ -2,6 +2,7 @@
 
 import type { RowAnswer, VoteTally } from '../session/rowStore';
 import { formatNumber, formatShare } from '../format';
+import { UNAVAILABLE_FOR_IMPORT } from '../session/importText';
 
 export interface HoverContext {
   readonly target: string;
@@ -16,6 +17,8 @@ export interface HoverContext {
   readonly forestLabel?: string;
   /** Regression: how near the forest's value a tree must be to count as agreeing. */
   readonly tolerance?: number;
+  /** Set for a forest imported without its training sample: the model file's name. */
+  readonly importedFrom?: string;
 }
 
 /** Show at most this many classes in the vote table; the rest are summed so wide targets stay readable. */
@@ -30,11 +33,17 @@ export function hoverMarkdown(a: RowAnswer, ctx: HoverContext): string {
         : 'training row; every tree saw it, so there is no out-of-bag vote'
       : a.role === 'holdout'
         ? 'held out of training'
-        : `scored with the forest from ${ctx.forestLabel ?? 'another file'}`;
+        : ctx.importedFrom !== undefined && ctx.forestLabel === undefined
+          ? `scored with the forest imported from ${escapeMd(ctx.importedFrom)}`
+          : `scored with the forest from ${ctx.forestLabel ?? 'another file'}`;
   out.push(`**Copse** · row ${ctx.dataRow} (${role})`);
   out.push('');
   if (a.task === 'classification') classification(a, ctx, out);
   else regression(a, ctx, out);
+  if (ctx.importedFrom !== undefined) {
+    out.push('');
+    out.push(`Out-of-bag votes and margins: ${escapeMd(UNAVAILABLE_FOR_IMPORT)}.`);
+  }
   if (ctx.suspectReason) {
     out.push('');
     out.push(`$(warning) **Suspect row:** ${escapeMd(ctx.suspectReason)}`);

@@ -27,6 +27,7 @@ import { RowNumbering } from '../rows/numbering';
 import { majority, RowStore, voteEntropy, type OobPart } from './rowStore';
 import type { PanelSettings } from '../settings';
 import { sampleRows } from '../summary/warnings';
+import { COVERS_FROM_FILE } from './importText';
 
 /**
  * Cells per axis at most for partial-dependence maps, as copse.panel.gridResolution's description promises.
@@ -78,7 +79,9 @@ export interface SessionInit {
    */
   readonly explainer?: (setup: ExplainSetup) => ExplainerLike;
   /** Where regression intervals come from: the fit in memory, or the table taken as the training data. */
-  readonly quantiles?: { readonly from: 'fit'; readonly report: FitReport } | { readonly from: 'table' };
+  readonly quantiles?: { readonly from: 'fit'; readonly report: FitReport } | { readonly from: 'table' } | { readonly from: 'none'; readonly reason: string };
+  /** Set for a forest imported without its training sample: the model file's name, for hovers. */
+  readonly importedFrom?: string;
   /** Regression: the interval level to prepare for every row at once. */
   readonly intervalLevel?: number;
 }
@@ -118,9 +121,12 @@ export class ForestSession {
   /** Absent when the session was made without an explanation thread. */
   readonly explanations: Explanations | undefined;
   private disposed = false;
+  /** The model file's name when the forest was imported without its training sample. */
+  readonly importedFrom: string | undefined;
 
   private constructor(init: SessionInit, summary: FitSummary, encoded: Float64Array, store: RowStore, numbering: RowNumbering, truth: Float64Array) {
     this.truth = truth;
+    this.importedFrom = init.importedFrom;
     this.forest = init.forest;
     this.source = init.source;
     this.table = init.table;
@@ -145,7 +151,13 @@ export class ForestSession {
     const q = init.quantiles;
     const regression = this.forest.schema.target.task === 'regression';
     const quantiles: ExplainSetup['quantiles'] =
-      !regression || !q ? null : q.from === 'fit' ? { from: 'fit', report: q.report, table: this.table } : { from: 'table', table: this.table };
+      !regression || !q
+        ? null
+        : q.from === 'fit'
+          ? { from: 'fit', report: q.report, table: this.table }
+          : q.from === 'table'
+            ? { from: 'table', table: this.table }
+            : q;
     const explainer = init.explainer!({ forest: quantiles?.from === 'fit' ? undefined : this.forest, trainX, trainCount: this.trainRows.length, quantiles });
     const e = new Explanations(this.forest, explainer, this.encoded, this.table.rowCount, this.trainRows, this.seed);
     if (init.intervalLevel !== undefined) e.prepareIntervals(init.intervalLevel);
@@ -198,6 +210,7 @@ export class ForestSession {
       suspectReason: s ? this.suspectReason(s) : undefined,
       showVotesLink: showVotesLink?.(dataRow),
       tolerance: this.task === 'regression' ? this.store.tolerance : undefined,
+      importedFrom: this.importedFrom,
     };
     return hoverMarkdown(this.store.answer(tableRow), ctx);
   }
@@ -238,7 +251,7 @@ export class ForestSession {
     const e = this.explanations!.explanationOf(c, this.task === 'classification' ? predicted : null);
     const names = this.forest.schema.features.map((f) => f.name);
     const { top, rest, others } = largestContributions(names, e.values, HOVER_CONTRIBUTIONS);
-    return contributionsMarkdown({
+    const text = contributionsMarkdown({
       className: e.output === null ? undefined : (this.classes[e.output] ?? `class ${e.output}`),
       target: this.forest.schema.target.name,
       base: e.base,
@@ -247,6 +260,8 @@ export class ForestSession {
       rest,
       others,
     });
+    // An import's covers are this file's counts, so the reader must know what the weights are.
+    return this.importedFrom === undefined ? text : `${text} The ${COVERS_FROM_FILE}.`;
   }
 
   private intervalText(a: IntervalAnswer, level: number): string {
@@ -394,6 +409,7 @@ export class ForestSession {
       dataRow: file.numbering.dataRow(tableRow),
       forestLabel: this.source.label,
       tolerance: this.task === 'regression' ? this.store.tolerance : undefined,
+      importedFrom: this.importedFrom,
     });
   }
 

@@ -3,8 +3,9 @@
 // file the forest was trained on (then any score would be in-sample, and we show none rather than flatter it).
 
 import type { FitSummary } from '../../protocol/messages';
-import type { Forest, Prediction, Scores } from '../engine';
-import { classificationScores, regressionScores } from '../engine';
+import type { Forest, ModelOrigin, PermutationImportance, Prediction, Scores } from '../engine';
+import { classificationScores, knowsTraining, regressionScores } from '../engine';
+import { COVERS_FROM_FILE, UNAVAILABLE_FOR_IMPORT } from '../session/importText';
 import { scoreSummary } from './summary';
 import { impurityFromTrees } from './treeImportance';
 
@@ -20,6 +21,10 @@ export interface OpenedInput {
   readonly fingerprint: string;
   readonly modelLabel: string;
   readonly warnings: readonly string[];
+  /** Where the model file came from; a Copse model file when absent. */
+  readonly origin?: ModelOrigin;
+  /** Measured on this CSV's labelled rows (see permutationOnTable); absent when it was not. */
+  readonly permutation?: PermutationImportance;
 }
 
 export function openedSummary(i: OpenedInput): FitSummary {
@@ -43,6 +48,7 @@ export function openedSummary(i: OpenedInput): FitSummary {
     warnings.push(`${i.dataset.label} has no "${target.name}" values, so the forest's predictions cannot be scored here.`);
   }
   const impurity = impurityFromTrees(forest);
+  const perm = i.permutation;
   const heldOut = scores ? scoreSummary(scores, null) : null;
   return {
     dataset: i.dataset,
@@ -58,8 +64,40 @@ export function openedSummary(i: OpenedInput): FitSummary {
     oob: null,
     heldOut: heldOut ? { from: 'test', scores: heldOut } : null,
     curve: [],
-    importance: forest.schema.features.map((f, k) => ({ feature: f.name, impurity: impurity[k], permutation: null, permutationSpread: null })),
-    warnings: [`Opened from ${i.modelLabel}: trained on ${forest.training.rows} rows; out-of-bag scores are not kept in the model file.`, ...warnings],
+    importance: forest.schema.features.map((f, k) => ({
+      feature: f.name,
+      impurity: impurity[k],
+      permutation: perm ? perm.mean[k] : null,
+      permutationSpread: perm ? perm.spread[k] : null,
+    })),
+    warnings: [...originWarnings(i), ...warnings],
     fitSeconds: null,
+    permutationOn: perm ? 'file' : undefined,
+    oobUnavailable: knowsTraining(forest)
+      ? 'No out-of-bag score: the model file does not keep the votes it needs.'
+      : `Out-of-bag scores and votes are ${UNAVAILABLE_FOR_IMPORT}.`,
   };
+}
+
+/** What the reader must know first: where the forest came from, and for an import what it cannot show. */
+function originWarnings(i: OpenedInput): string[] {
+  const { forest, origin } = i;
+  const trained = `trained on ${forest.training.rows} rows; out-of-bag scores are not kept in the model file.`;
+  if (!origin || origin.kind === 'copse') {
+    // A model file saved from an import keeps the import's lack of a training sample.
+    if (!knowsTraining(forest)) return [`Opened from ${i.modelLabel}, saved from an import: out-of-bag scores, bootstrap membership and prediction intervals are ${UNAVAILABLE_FOR_IMPORT}.`];
+    return [`Opened from ${i.modelLabel}: ${trained}`];
+  }
+  const by = origin.producer ? `, written by ${origin.producer}` : '';
+  const head = `Imported from ${i.modelLabel} (ONNX ${origin.operator}${by})`;
+  const out: string[] = [];
+  if (knowsTraining(forest)) out.push(`${head}, a Copse export: ${trained}`);
+  else {
+    out.push(
+      `${head}: out-of-bag scores, bootstrap membership, doubtful-row margins and prediction intervals are ${UNAVAILABLE_FOR_IMPORT}.`,
+      `Impurity decrease and ${COVERS_FROM_FILE}.`,
+    );
+  }
+  if (origin.names === 'positions') out.push(`The file names no features: they were taken from ${i.dataset.label}'s columns in order.`);
+  return [...out, ...origin.notes.map((n) => `Import: ${n}`)];
 }

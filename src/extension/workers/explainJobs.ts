@@ -21,7 +21,9 @@ export type QuantileSource =
   /** A fit still in memory: its own training rows and bootstrap counts. */
   | { readonly from: 'fit'; readonly report: FitReport; readonly table: Table }
   /** A saved forest shown against a table: the training rows and draws are recovered from the forest's seed. */
-  | { readonly from: 'table'; readonly table: Table };
+  | { readonly from: 'table'; readonly table: Table }
+  /** No training rows can exist for this forest (an import): why, as the end of a sentence. */
+  | { readonly from: 'none'; readonly reason: string };
 
 export interface ExplainSetup {
   /** Omitted when quantiles.report carries the forest, so the thread holds one copy. */
@@ -130,6 +132,7 @@ export class ExplainState {
     this.quantiles = null;
     if (this.forest.schema.target.task !== 'regression') this.index = 'intervals are for regression forests.';
     else if (!q) this.index = 'the rows this forest was fitted on are not at hand.';
+    else if (q.from === 'none') this.index = q.reason;
     else {
       try {
         this.index = q.from === 'fit' ? quantileIndexFromFit(q.report, q.table) : quantileIndexFromTrainingTable(this.forest, q.table);

@@ -1,0 +1,85 @@
+// What opening a forest from a file needs before it can be shown against a CSV, apart from the dialogs: naming
+// a foreign model's positional features by the CSV's columns, covers counted from the CSV when the file has
+// none, and permutation importance on the CSV's labelled rows. No `vscode` here, so tests run it as the command does.
+
+import type { Forest, ModelOrigin, PermutationImportance, Table } from '../engine';
+import { encodeTable, knowsTraining, ModelError, nameByPosition, permutationOnRows, withCoverFrom } from '../engine';
+import type { ScorerLike } from './session';
+import { truthOf } from './session';
+
+export { COVERS_FROM_FILE, UNAVAILABLE_FOR_IMPORT } from './importText';
+
+export interface PositionalNaming {
+  /** The question to put to the user, once. */
+  readonly question: string;
+  /** The column taken as the target, if any: left out of the features. */
+  readonly target: string | undefined;
+}
+
+/**
+ * For a model whose features are positions (f0, f1, ...) that the CSV does not have: which column would be the
+ * target, and the question to ask. The target is the forest's own target name if the header has it; otherwise,
+ * with one column more than the features, the last column (where a target most often sits). Undefined when no
+ * naming is needed; a ModelError when the counts cannot match, naming both.
+ */
+export function positionalNaming(forest: Forest, origin: ModelOrigin, header: readonly string[], csvLabel: string, modelLabel: string): PositionalNaming | undefined {
+  if (origin.kind !== 'onnx' || origin.names !== 'positions') return undefined;
+  const features = forest.schema.features;
+  const columns = new Set(header);
+  if (features.every((f) => columns.has(f.name))) return undefined;
+  const p = features.length;
+  const own = forest.schema.target.name;
+  let target: string | undefined;
+  if (header.includes(own) && header.length === p + 1) target = own;
+  else if (header.length === p + 1) target = header[p];
+  else if (header.length !== p) {
+    throw new ModelError(
+      `${modelLabel} reads ${p} features by position and names none of them; ${csvLabel} has ${header.length} columns, so its columns cannot be taken in order ` +
+        `(that needs ${p} columns, or ${p + 1} with the target). Make a CSV with just the features in the model's order, and the target if you want scores.`,
+    );
+  }
+  const first = header.filter((h) => h !== target);
+  const span = p <= 3 ? first.map((c) => `"${c}"`).join(', ') : `"${first[0]}", "${first[1]}", … "${first[p - 1]}"`;
+  const question =
+    `${modelLabel} names its ${p} features by position only (f0 … f${p - 1}). Take ${csvLabel}'s columns in order as those features (${span})` +
+    (target === undefined ? ', with no column as the target (nothing can be scored)?' : `, leaving out "${target}" as the target?`);
+  return { question, target };
+}
+
+/** The forest with the CSV's columns as its features, and the left-out column (if any) as its target's name. */
+export function nameByHeader(forest: Forest, header: readonly string[], target: string | undefined): Forest {
+  const named = nameByPosition(forest, header, target === undefined ? [] : [target]);
+  if (target === undefined || target === named.schema.target.name) return named;
+  // truthOf looks the target up by name: the file's output name is not the CSV's column name.
+  return { ...named, schema: { ...named.schema, target: { ...named.schema.target, name: target } } };
+}
+
+/** The forest ready for this table: covers counted from its rows when the file carried none. */
+export function forestForTable(forest: Forest, table: Table, label: string): Forest {
+  if (knowsTraining(forest)) return forest;
+  return withCoverFrom(forest, encodeTable(forest.schema, table, label), table.rowCount);
+}
+
+/**
+ * Permutation importance on the table's labelled rows, scored by the given scorer (a worker thread in the
+ * editor). Undefined when the table has no target values, or is the forest's own training file (the figures
+ * would be in-sample, as its scores would be).
+ */
+export async function permutationOnTable(
+  forest: Forest,
+  table: Table,
+  label: string,
+  fingerprint: string,
+  scorer: ScorerLike,
+  seed: number,
+): Promise<PermutationImportance | undefined> {
+  if (forest.training.fingerprint !== '' && forest.training.fingerprint === fingerprint) return undefined;
+  const truth = truthOf(forest, table);
+  if (!truth.some((v) => !Number.isNaN(v))) return undefined;
+  const x = encodeTable(forest.schema, table, label);
+  const imp = await permutationOnRows(
+    { x, rows: table.rowCount, features: forest.schema.features.length, truth, task: forest.schema.target.task, seed },
+    (rows, n) => scorer.predict(rows, n),
+  );
+  return imp.rows > 0 ? imp : undefined;
+}
