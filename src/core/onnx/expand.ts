@@ -5,6 +5,7 @@
 // - EQ chains sharing one target, NEQ and MEMBER become a level set on a categorical feature, or on a numeric one
 //   a small search over the equal values' intervals;
 // - a node reached along several paths is copied once per path, so the result is a tree; a budget bounds that.
+import { GrowableTree } from '../tree/growable';
 import type { FlatTree } from '../tree/tree';
 import type { Fail } from './attributes';
 import { MODE, type Ensemble } from './ensemble';
@@ -42,46 +43,18 @@ function finite(t: number): number {
   return t > Number.MAX_VALUE ? Number.MAX_VALUE : t < -Number.MAX_VALUE ? -Number.MAX_VALUE : t;
 }
 
-/** Typed arrays that double when full: a large tree costs bytes per node, not boxed numbers. */
-class Builder {
-  left = new Int32Array(64);
-  right = new Int32Array(64);
-  feature = new Int32Array(64);
-  threshold = new Float64Array(64);
-  missingLeft = new Uint8Array(64);
-  cover = new Float32Array(64);
-  value: Float64Array;
-  catBits = new Uint32Array(8);
-  count = 0;
-  words = 0;
-
-  constructor(private readonly ctx: ExpandContext, private readonly outputs: number) {
-    this.value = new Float64Array(64 * outputs);
+/** The tree being converted, with a budget on the nodes the whole conversion may create. */
+class Builder extends GrowableTree<Float64Array> {
+  constructor(private readonly ctx: ExpandContext, outputs: number) {
+    // Leaf weights are summed in doubles and rounded to float32 once, as the runtime's own sums are.
+    super(outputs, (n) => new Float64Array(n), 64);
   }
 
   alloc(): number {
     if (--this.ctx.budget < 0) {
       this.ctx.fail(`it converts to more than ${this.ctx.maxNodes} nodes (nodes reached along several paths are copied, set tests become several splits)`);
     }
-    if (this.count === this.left.length) {
-      const grow = <T extends Int32Array | Float64Array | Uint8Array | Float32Array>(a: T): T => {
-        const b = new (a.constructor as new (n: number) => T)(a.length * 2);
-        b.set(a);
-        return b;
-      };
-      this.left = grow(this.left);
-      this.right = grow(this.right);
-      this.feature = grow(this.feature);
-      this.threshold = grow(this.threshold);
-      this.missingLeft = grow(this.missingLeft);
-      this.cover = grow(this.cover);
-      this.value = grow(this.value);
-    }
-    const id = this.count++;
-    this.left[id] = -1;
-    this.right[id] = -1;
-    this.feature[id] = -1;
-    return id;
+    return this.add();
   }
 
   split(id: number, f: number, threshold: number, missingLeft: boolean, cover: number): void {
@@ -98,31 +71,9 @@ class Builder {
   }
 
   levelSet(levels: number, inSet: (code: number) => boolean): number {
-    const at = this.words;
-    const words = (levels + 31) >>> 5;
-    if (at + words > this.catBits.length) {
-      const b = new Uint32Array(Math.max(this.catBits.length * 2, at + words));
-      b.set(this.catBits);
-      this.catBits = b;
-    }
-    this.words += words;
+    const at = this.addWords((levels + 31) >>> 5);
     for (let c = 0; c < levels; c++) if (inSet(c)) this.catBits[at + (c >>> 5)] |= 1 << (c & 31);
     return at;
-  }
-
-  finish(): FlatTree {
-    const n = this.count;
-    return {
-      nodeCount: n,
-      left: this.left.slice(0, n),
-      right: this.right.slice(0, n),
-      feature: this.feature.slice(0, n),
-      threshold: this.threshold.slice(0, n),
-      missingLeft: this.missingLeft.slice(0, n),
-      value: Float32Array.from(this.value.subarray(0, n * this.outputs)),
-      cover: this.cover.slice(0, n),
-      catBits: this.catBits.slice(0, this.words),
-    };
   }
 }
 

@@ -4,6 +4,7 @@ import type { BinnedMatrix } from '../data/binning';
 import type { Criterion } from '../forest/params';
 import { sideScore } from './criterion';
 import { emptyCandidate, Histogram, type SplitCandidate } from './splitter';
+import { GrowableTree } from './growable';
 import type { FlatTree } from './tree';
 
 export type TargetData =
@@ -28,82 +29,31 @@ export interface GrownTree {
 
 const MISSING_LEFT = 1;
 
-class NodeArrays {
-  size = 0;
-  left: Int32Array;
-  right: Int32Array;
-  feature: Int32Array;
-  threshold: Float64Array;
-  missingLeft: Uint8Array;
-  splitBin: Int32Array;
-  cover: Float32Array;
-  value: Float32Array;
-  catBits: Uint32Array = new Uint32Array(64);
-  catWords = 0;
+/** The builder's tree, plus the bin of each numeric split for walking binned rows. */
+class NodeArrays extends GrowableTree {
+  splitBin = new Int32Array(256);
 
-  constructor(private readonly outputs: number, capacity = 256) {
-    this.left = new Int32Array(capacity);
-    this.right = new Int32Array(capacity);
-    this.feature = new Int32Array(capacity);
-    this.threshold = new Float64Array(capacity);
-    this.missingLeft = new Uint8Array(capacity);
-    this.splitBin = new Int32Array(capacity);
-    this.cover = new Float32Array(capacity);
-    this.value = new Float32Array(capacity * outputs);
+  constructor(outputs: number) {
+    super(outputs, (n) => new Float32Array(n), 256);
   }
 
-  add(): number {
-    if (this.size === this.left.length) this.grow();
-    const id = this.size++;
-    this.left[id] = -1;
-    this.right[id] = -1;
-    this.feature[id] = -1;
+  override add(): number {
+    const id = super.add();
     this.splitBin[id] = -1;
     return id;
   }
 
   addLevelSet(set: Uint32Array, words: number): number {
-    while (this.catWords + words > this.catBits.length) {
-      const next = new Uint32Array(this.catBits.length * 2);
-      next.set(this.catBits);
-      this.catBits = next;
-    }
-    const offset = this.catWords;
-    this.catBits.set(set.subarray(0, words), offset);
-    this.catWords += words;
-    return offset;
+    const at = this.addWords(words);
+    this.catBits.set(set.subarray(0, words), at);
+    return at;
   }
 
-  private grow(): void {
-    const cap = this.left.length * 2;
-    const g = <T extends Int32Array | Float64Array | Uint8Array | Float32Array>(a: T, n: number): T => {
-      const b = new (a.constructor as new (n: number) => T)(n);
-      b.set(a);
-      return b;
-    };
-    this.left = g(this.left, cap);
-    this.right = g(this.right, cap);
-    this.feature = g(this.feature, cap);
-    this.threshold = g(this.threshold, cap);
-    this.missingLeft = g(this.missingLeft, cap);
-    this.splitBin = g(this.splitBin, cap);
-    this.cover = g(this.cover, cap);
-    this.value = g(this.value, cap * this.outputs);
-  }
-
-  finish(): FlatTree {
-    const n = this.size;
-    return {
-      nodeCount: n,
-      left: this.left.slice(0, n),
-      right: this.right.slice(0, n),
-      feature: this.feature.slice(0, n),
-      threshold: this.threshold.slice(0, n),
-      missingLeft: this.missingLeft.slice(0, n),
-      value: this.value.slice(0, n * this.outputs),
-      cover: this.cover.slice(0, n),
-      catBits: this.catBits.slice(0, this.catWords),
-    };
+  protected override enlarge(capacity: number): void {
+    super.enlarge(capacity);
+    const splitBin = new Int32Array(capacity);
+    splitBin.set(this.splitBin);
+    this.splitBin = splitBin;
   }
 }
 
