@@ -77,7 +77,7 @@ describe('copse explain', function () {
   it('has help like the other commands, and one-sentence errors with exit code 2 for bad input', () => {
     const help = copse('explain', '--help');
     assert.equal(help.code, 0);
-    assert.match(help.stdout, /^Usage: copse explain MODEL\.json DATA\.csv --rows/);
+    assert.match(help.stdout, /^Usage: copse explain MODEL DATA\.csv --rows/);
     const noRows = copse('explain', irisModel, iris);
     assert.equal(noRows.code, 2);
     assert.match(noRows.stderr, /needs --rows/);
