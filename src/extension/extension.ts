@@ -1,6 +1,7 @@
 // Entry point: wires the context, commands, editor features and panel together. All logic lives elsewhere.
 
 import * as vscode from 'vscode';
+import { registerExportOnnx } from './commands/exportOnnx';
 import { registerFit } from './commands/fit';
 import type { Host } from './commands/host';
 import { registerOpenModel } from './commands/openModel';
@@ -47,6 +48,7 @@ export function activate(extension: vscode.ExtensionContext): { readonly context
   ctx.track(registerOpenModel(host));
   ctx.track(registerPredictToFile(host));
   ctx.track(registerSaveModel(host));
+  ctx.track(registerExportOnnx(host));
   ctx.track(registerShowPanel(host));
   ctx.track(registerRevealRow(host));
   ctx.track(registerShowRowVotes(host));

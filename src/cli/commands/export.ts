@@ -1,9 +1,8 @@
-import { randomBytes } from 'node:crypto';
 import { promises as fs } from 'node:fs';
 import * as path from 'node:path';
 import { OverwriteError } from '../../core/forest/score-file';
 import { loadModel } from '../../core/model/file';
-import { exportOnnx } from '../../core/onnx/export';
+import { saveOnnxFile } from '../../core/onnx/save';
 import { INPUT_NAME } from '../../core/onnx/metadata';
 import { flag, parse, UsageError, type Options } from '../args';
 
@@ -33,23 +32,14 @@ export async function runExport(argv: string[]): Promise<void> {
   if (a === b) throw new OverwriteError(`Refusing to write the ONNX file over the model ${modelPath}; choose another output file.`);
   if (/\.onnx$/i.test(modelPath)) throw new UsageError(`${modelPath} looks like an ONNX file already; copse export reads a Copse model (MODEL.json) and writes ONNX.`, 'export');
   const forest = await loadModel(modelPath);
-  const bytes = exportOnnx(forest);
-  // A temporary file beside the target, renamed into place: a reader never sees half a file.
-  const tmp = `${outPath}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`;
-  try {
-    await fs.writeFile(tmp, bytes, { flag: 'wx' });
-    await fs.rename(tmp, outPath);
-  } catch (e) {
-    await fs.rm(tmp, { force: true });
-    throw e;
-  }
+  const size = await saveOnnxFile(outPath, forest);
   const classification = forest.schema.target.task === 'classification';
   const summary = {
     output: outPath,
     operator: classification ? 'TreeEnsembleClassifier' : 'TreeEnsembleRegressor',
     trees: forest.trees.length,
     nodes: forest.trees.reduce((s, t) => s + t.nodeCount, 0),
-    bytes: bytes.length,
+    bytes: size,
     input: { name: INPUT_NAME, features: forest.schema.features.map((f) => f.name) },
     outputs: classification ? ['label', 'probabilities'] : ['value'],
   };
@@ -58,7 +48,7 @@ export async function runExport(argv: string[]): Promise<void> {
     return;
   }
   const levelled = forest.schema.features.filter((f) => f.kind !== 'numeric').map((f) => `"${f.name}"`);
-  let out = `Wrote ${summary.trees} trees (${summary.nodes} nodes) to ${outPath} as an ONNX ${summary.operator}, ${(bytes.length / 1024).toFixed(0)} KiB.\n`;
+  let out = `Wrote ${summary.trees} trees (${summary.nodes} nodes) to ${outPath} as an ONNX ${summary.operator}, ${(size / 1024).toFixed(0)} KiB.\n`;
   out += `Input "${INPUT_NAME}": float [rows, ${forest.schema.features.length}], columns ${summary.input.features.map((f) => `"${f}"`).join(', ')}.\n`;
   if (levelled.length) out += `Give ${levelled.join(', ')} as level codes: the level's position in the model's list (see the file's copse.schema metadata).\n`;
   out += `Outputs: ${summary.outputs.map((o) => `"${o}"`).join(', ')}.\n`;

@@ -14,6 +14,7 @@ export const COMMANDS = {
   openModel: 'copse.openModel',
   predictToFile: 'copse.predictToFile',
   saveModel: 'copse.saveModel',
+  exportOnnx: 'copse.exportOnnx',
   showPanel: 'copse.showPanel',
   revealRow: 'copse.revealRow',
   showRowVotes: 'copse.showRowVotes',

@@ -7,7 +7,7 @@ import type { LoadResult } from '../../../src/core/csv/types';
 import { kinds, numeric, texts } from './helpers';
 
 const OPEN = join(__dirname, '..', '..', '..', '..', 'test', 'fixtures', 'open');
-const PYTHON = '/usr/bin/python3'; // Debian's, with pandas (see .team/RULES.md)
+const PYTHON = '/usr/bin/python3'; // Debian's, with pandas (python3-pandas)
 
 /** pandas.read_csv of the file, round-trip float parsing (correctly rounded, like ours), as JSON columns. */
 function pandasColumns(file: string): Record<string, (number | string | null)[]> {

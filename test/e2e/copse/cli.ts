@@ -53,7 +53,7 @@ export function copseJson<T>(args: string[]): Promise<T> {
 }
 
 /**
- * The headline figure as UI_CONTRACT.md fixes it: accuracy as a percentage
+ * The headline figure as the panel shows it: accuracy as a percentage
  * with one decimal ("95.3%"), R² with three decimals.
  */
 export function contractHeadline(fit: CliFit): string {

@@ -3,7 +3,7 @@
 // predictor on a saved model, and the cell's pixel must be a tint of the
 // colour the legend gives that class.
 //
-// What the panel promises (UI_CONTRACT.md): the canvas `region-map` exposes
+// What the panel promises its tests: the canvas `region-map` exposes
 // `data-grid` {nx, ny, xMin, xMax, yMin, yMax}; cell (i, j) is evaluated at
 // its centre, j = 0 is the lowest y and is drawn at the bottom; the features
 // not on the axes are held at their typical values (the model's reference row)
