@@ -45,3 +45,4 @@ export { saveOnnxFile } from '../core/onnx/save';
 export { readHeader } from '../core/csv/header';
 export { withCoverFrom } from '../core/forest/cover';
 export { permutationOnRows, type PermutationImportance } from '../core/explain/permutation';
+export { csvLine } from '../core/csv/write';

@@ -24,16 +24,16 @@ export async function fitFixture(
   file: string,
   target: string,
   params: { trees: number; seed: number; minLeaf?: number },
-  extra: { holdout?: number; intervalLevel?: number } = {},
+  extra: { holdout?: number; intervalLevel?: number; sampleRows?: number } = {},
 ): Promise<Fitted> {
-  const load = await loadCsv(file);
+  const load = await loadCsv(file, extra.sampleRows ? { sampleRows: extra.sampleRows, sampleSeed: params.seed } : undefined);
   const report = await fitForest(load.table, { target, params, workers: 2, holdout: extra.holdout });
   const summary = buildSummary({
     forest: report.forest,
     report,
     dataset: { label: path.basename(file), uri: `file://${file}` },
     rowsRead: load.rowsRead,
-    sampled: false,
+    sampled: extra.sampleRows !== undefined,
     warnings: [],
   });
   const session = await ForestSession.create({

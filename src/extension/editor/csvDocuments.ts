@@ -6,6 +6,7 @@ import * as vscode from 'vscode';
 import type { CopseContext } from '../context';
 import { loadCsvText } from '../engine';
 import { loadForForest } from '../session/loadFor';
+import { hasLoneLines, scoreLoneLine } from './loneLines';
 import type { ForestSession, ScoredFile } from '../session/session';
 import type { LineReader } from '../rows/lineMap';
 
@@ -30,6 +31,9 @@ export function samePath(a: string, b: string): boolean {
     : norm(a) === norm(b);
 }
 
+/** Lone lines kept scored: a screenful of hovers and then some, each one small. */
+const LONE_LINES_KEPT = 256;
+
 type Resolved =
   | { kind: 'fitted'; session: ForestSession }
   | { kind: 'other'; session: ForestSession; file: ScoredFile }
@@ -40,6 +44,8 @@ type Resolved =
 export class CsvDocuments implements vscode.Disposable {
   private readonly changedSinceFit = new Set<string>();
   private readonly others = new Map<string, { version: number; session: ForestSession; result: Promise<ScoredFile | undefined> }>();
+  /** Lines of the fitted file outside its sampled table, scored one at a time; most recent last. */
+  private readonly lone = new Map<string, Promise<ScoredFile | undefined>>();
   private readonly disposables: vscode.Disposable[] = [];
 
   constructor(private readonly ctx: CopseContext) {
@@ -51,11 +57,13 @@ export class CsvDocuments implements vscode.Disposable {
           this.changedSinceFit.add(e.document.uri.toString());
         }
         this.others.delete(e.document.uri.toString());
+        this.lone.clear();
       }),
       vscode.workspace.onDidCloseTextDocument((d) => this.others.delete(d.uri.toString())),
       ctx.onDidChangeSession(() => {
         this.changedSinceFit.clear();
         this.others.clear();
+        this.lone.clear();
       }),
     );
   }
@@ -83,6 +91,22 @@ export class CsvDocuments implements vscode.Disposable {
     }
     const file = await entry.result;
     return file && session === this.ctx.session ? { kind: 'other', session, file } : undefined;
+  }
+
+  /**
+   * A line of the fitted file whose row the fit's sample left out, scored alone (and kept for the next hover):
+   * undefined when the table holds every row, or the line is not a whole data record.
+   */
+  loneLine(session: ForestSession, doc: vscode.TextDocument, line: number): Promise<ScoredFile | undefined> {
+    if (!hasLoneLines(session)) return Promise.resolve(undefined);
+    const key = `${doc.version}:${line}`;
+    let result = this.lone.get(key);
+    if (!result) {
+      result = scoreLoneLine(session, line, lineReader(doc), (text, o, label) => loadCsvText(text, o, label));
+      this.lone.set(key, result);
+      if (this.lone.size > LONE_LINES_KEPT) this.lone.delete(this.lone.keys().next().value!);
+    }
+    return result;
   }
 
   private async scoreOther(session: ForestSession, doc: vscode.TextDocument): Promise<ScoredFile | undefined> {

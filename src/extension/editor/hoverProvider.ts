@@ -36,7 +36,9 @@ export function registerHover(ctx: CopseContext, docs: CsvDocuments): vscode.Dis
     const read = lineReader(doc);
     if (resolved.kind === 'fitted') {
       const row = resolved.session.rowAtLine(position.line + 1, read);
-      return row === undefined ? undefined : { kind: 'fitted', session: resolved.session, row };
+      if (row !== undefined) return { kind: 'fitted', session: resolved.session, row };
+      const lone = await docs.loneLine(resolved.session, doc, position.line + 1);
+      return lone ? { kind: 'other', session: resolved.session, file: lone, row: 0 } : undefined;
     }
     const row = resolved.file.lines.rowAt(position.line + 1, read);
     return row === undefined ? undefined : { kind: 'other', session: resolved.session, file: resolved.file, row };
@@ -94,8 +96,13 @@ export function registerHover(ctx: CopseContext, docs: CsvDocuments): vscode.Dis
         text = '**Copse** · this file has changed since the forest was fitted, so its lines no longer match the rows. Fit again to see per-row votes.';
       } else if (resolved.kind === 'fitted') {
         const row = resolved.session.rowAtLine(line, read);
-        if (row === undefined) return undefined;
-        text = resolved.session.hover(row, (dataRow) => commandLink(doc.uri, dataRow));
+        if (row !== undefined) {
+          text = resolved.session.hover(row, (dataRow) => commandLink(doc.uri, dataRow));
+        } else {
+          const lone = await docs.loneLine(resolved.session, doc, line);
+          if (!lone) return undefined;
+          text = resolved.session.hoverOther(lone, 0);
+        }
       } else {
         const row = resolved.file.lines.rowAt(line, read);
         if (row === undefined) return undefined;

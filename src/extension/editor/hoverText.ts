@@ -19,6 +19,10 @@ export interface HoverContext {
   readonly tolerance?: number;
   /** Set for a forest imported without its training sample: the model file's name. */
   readonly importedFrom?: string;
+  /** Says where the row stands instead of the role the answer gives (a row the fitted sample left out). */
+  readonly standing?: string;
+  /** The row's 1-based line, named when its data row number is not known (dataRow 0). */
+  readonly line?: number;
 }
 
 /** Show at most this many classes in the vote table; the rest are summed so wide targets stay readable. */
@@ -27,7 +31,9 @@ const MAX_CLASS_COLUMNS = 6;
 export function hoverMarkdown(a: RowAnswer, ctx: HoverContext): string {
   const out: string[] = [];
   const role =
-    a.role === 'training'
+    ctx.standing !== undefined
+      ? ctx.standing
+      : a.role === 'training'
       ? a.oob
         ? `training row; ${a.oob.trees} of ${a.all.trees} trees never saw it`
         : 'training row; every tree saw it, so there is no out-of-bag vote'
@@ -36,7 +42,8 @@ export function hoverMarkdown(a: RowAnswer, ctx: HoverContext): string {
         : ctx.importedFrom !== undefined && ctx.forestLabel === undefined
           ? `scored with the forest imported from ${escapeMd(ctx.importedFrom)}`
           : `scored with the forest from ${ctx.forestLabel ?? 'another file'}`;
-  out.push(`**Copse** · row ${ctx.dataRow} (${role})`);
+  const where = ctx.dataRow > 0 || ctx.line === undefined ? `row ${ctx.dataRow}` : `line ${ctx.line}`;
+  out.push(`**Copse** · ${where} (${role})`);
   out.push('');
   if (a.task === 'classification') classification(a, ctx, out);
   else regression(a, ctx, out);

@@ -97,6 +97,8 @@ export interface ScoredFile {
   readonly lines: LineIndex;
   readonly numbering: RowNumbering;
   readonly label: string;
+  /** A row of the fitted file itself that its table does not hold (sampled away), scored on its own. */
+  readonly outsideSample?: { readonly line: number };
 }
 
 export class ForestSession {
@@ -408,6 +410,8 @@ export class ForestSession {
       classes: this.classes,
       dataRow: file.numbering.dataRow(tableRow),
       forestLabel: this.source.label,
+      standing: file.outsideSample ? 'not in the sample the forest was fitted on, so no tree trained on it' : undefined,
+      line: file.outsideSample?.line,
       tolerance: this.task === 'regression' ? this.store.tolerance : undefined,
       importedFrom: this.importedFrom,
     });
