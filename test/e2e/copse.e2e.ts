@@ -1,9 +1,9 @@
 // Copse end to end: the packaged .vsix installed into a real VS Code 1.100
 // workbench (code-server) and used the way a person uses it: explorer menu,
-// quick pick, panel, hover, selection, a broken file, a window reload. Every
-// figure the UI shows is checked against the `copse` command line on the same
-// file with the same seed and tree count, or against core's predictor on a
-// model the CLI saved.
+// quick pick, panel, hover, selection, a broken file, a window reload, a
+// forest from another library. Every figure the UI shows is checked against
+// the `copse` command line on the same file with the same seed and tree count,
+// or against core's predictor on a model the CLI saved.
 //
 // The steps share one workbench and run in order (each builds on the fit
 // before it): starting a workbench costs ~20 s, so one start keeps the run short.
@@ -45,6 +45,10 @@ const LOAF = 'demo/loaf-rise.csv';
 // An invented table whose fourth line has one field too few.
 const RAGGED = 'ragged.csv';
 const RAGGED_TEXT = 'span_cm,weight_g,outcome\n80,120,soared\n95,140,crashed\n70,110\n88,125,soared\n';
+// A forest written outside Copse (scikit-learn through onnx.helper; test/core/onnx/fixtures/make_sklearn_onnx.py),
+// with features named only by position, and the open dataset it was fitted on.
+const FOREIGN = 'sklearn-iris.onnx';
+const IRIS = 'iris.csv';
 
 describe('Copse in a real workbench, installed from its .vsix', function () {
   this.timeout(300_000);
@@ -65,6 +69,8 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
     fs.mkdirSync(folder);
     fs.cpSync(path.join(repoRoot(), 'demo'), path.join(folder, 'demo'), { recursive: true });
     fs.writeFileSync(path.join(folder, RAGGED), RAGGED_TEXT);
+    fs.copyFileSync(path.join(repoRoot(), 'test/core/onnx/fixtures', FOREIGN), path.join(folder, FOREIGN));
+    fs.copyFileSync(path.join(repoRoot(), 'test/fixtures/open', IRIS), path.join(folder, IRIS));
     vsix = packagedVsix();
     const cliModel = path.join(temp, 'cli-kite.forest.json');
     // The reference fits run while the workbench starts.
@@ -268,6 +274,34 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
     await wb!.screenshot('reloaded');
   });
 
+  it('(8) opens an ONNX forest from elsewhere against a CSV, by position once asked, with the votes `copse votes` gives', async function () {
+    const expected = await copseJson<CliVotes>(['votes', path.join(folder, FOREIGN), path.join(folder, IRIS), '--rows', '71,120', '--by-position', '--leave-out', 'species']);
+    await wb!.explorerContextMenu(FOREIGN, 'Open a Saved Forest…');
+    await wb!.answerFileDialog(path.join(folder, IRIS));
+    const question = await wb!.waitForDialog(60_000);
+    assert.match(question.message, /names its 4 features by position only .* leaving out "species" as the target/, question.message);
+    await wb!.answerDialog('Take the columns in order');
+    const panel = wb!.webview({ extensionId: EXTENSION_ID });
+    const title = panel.locator('h1');
+    const deadline = Date.now() + 120_000;
+    while ((await title.innerText({ timeout: 2_000 }).catch(() => '')).replace(/\s+/g, ' ').trim() !== 'Copse iris.csv → species') {
+      if (Date.now() > deadline) throw new Error('the panel did not show the imported forest on iris.csv');
+      await sleep(200);
+    }
+    // Nothing stands in for what the file does not carry.
+    assert.match(await panel.locator('[data-testid=oob-note]').innerText({ timeout: 30_000 }), /unavailable for an imported forest/);
+
+    await wb!.openFile(IRIS, { pin: true });
+    for (const want of expected.rows) {
+      const text = await wb!.hoverLine(want.line, { timeoutMs: 30_000 });
+      const hover = parseHoverVotes(text);
+      assert.strictEqual(hover.row, want.row, text);
+      assert.strictEqual(hover.trees, expected.trees, text);
+      assert.deepStrictEqual(sortKeys(hover.counts), sortKeys(want.counts!), `row ${want.row}: hover ${JSON.stringify(hover.counts)}, CLI ${JSON.stringify(want.counts)}`);
+      assert.match(text, /imported from sklearn-iris\.onnx/);
+    }
+    await wb!.screenshot('imported');
+  });
 });
 
 /** The first error toast to appear (the file's reading progress toast names it too, as info). */
