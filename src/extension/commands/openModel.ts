@@ -6,6 +6,7 @@ import * as path from 'node:path';
 import * as vscode from 'vscode';
 import { knowsTraining, openModelFile, readHeader, Scorer } from '../engine';
 import { guarded, readCsv, requireFile } from '../fit/fitFlow';
+import { showCsv } from '../editor/showCsv';
 import { ForestSession } from '../session/session';
 import { ExplainClient } from '../workers/explainClient';
 import { openedSummary } from '../summary/openedSummary';
@@ -121,6 +122,7 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
       `Opened ${modelPath} (${forest.trees.length} trees predicting ${forest.schema.target.name}) against ${loaded.path}: ` +
         `${loaded.load.table.rowCount} rows read in ${Math.round(loaded.seconds * 1000)} ms, scored in ${Math.round(performance.now() - started)} ms.`,
     );
+    await showCsv(loaded.path, loaded.bytes);
     panel.reveal(true);
   });
 }

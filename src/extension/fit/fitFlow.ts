@@ -9,6 +9,7 @@ import { fitForest, findColumn, inBagCounts, loadCsv, Scorer, type Column, type 
 import { isAbort, isUserError, userMessage } from '../errors';
 import { formatBytes, formatSeconds, formatShare } from '../format';
 import type { PanelHost } from '../panel/panelHost';
+import { showCsv } from '../editor/showCsv';
 import { saveLastFit } from '../session/lastFit';
 import { loadForForest } from '../session/loadFor';
 import { ForestSession } from '../session/session';
@@ -240,6 +241,7 @@ async function runFit(ctx: CopseContext, panel: PanelHost, loaded: LoadedCsv, ch
   } finally {
     ctx.busy = undefined;
   }
+  await showCsv(loaded.path, loaded.bytes);
   panel.reveal(true);
 }
 
