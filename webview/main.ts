@@ -237,4 +237,5 @@ window.addEventListener('message', (ev: MessageEvent<unknown>) => {
   handle(ev.data);
 });
 
-post({ type: 'ready', version: PROTOCOL_VERSION });
+// The map chosen before a reload: the host draws it again instead of its default pair.
+post({ type: 'ready', version: PROTOCOL_VERSION, choice: restored?.choice ?? null });

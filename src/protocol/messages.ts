@@ -316,7 +316,8 @@ export type HostToPanel =
   | { type: 'sweep'; state: 'running' | 'done' | 'cancelled' | 'error'; progress: number | null; text: string; result: SweepSummary | null };
 
 export type PanelToHost =
-  | { type: 'ready'; version: number }
+  /** choice: the map the panel showed before a reload (from its saved state), for the host to draw again. */
+  | { type: 'ready'; version: number; choice?: { x: string; y: string; reference: ReferenceChoice } | null }
   | { type: 'chooseMap'; x: string; y: string; reference: ReferenceChoice }
   | { type: 'openMap'; x: string; y: string }
   | { type: 'revealRow'; row: number }
@@ -583,7 +584,7 @@ export function isPanelToHost(v: unknown): v is PanelToHost {
   if (!isObj(v)) return false;
   switch (v.type) {
     case 'ready':
-      return isInt(v.version);
+      return isInt(v.version) && (v.choice === undefined || v.choice === null || isMapChoice(v.choice));
     case 'chooseMap':
       return isStr(v.x) && isStr(v.y) && isReferenceChoice(v.reference);
     case 'openMap':
@@ -614,6 +615,10 @@ export function isPanelState(v: unknown): v is PanelState {
     (v.map === null || isRegionMap(v.map)) &&
     isArr(v.matrix, isRegionMap) &&
     isArr(v.suspects, isSuspect) &&
-    (ch === null || (isObj(ch) && isStr(ch.x) && isStr(ch.y) && isReferenceChoice(ch.reference)))
+    (ch === null || isMapChoice(ch))
   );
+}
+
+function isMapChoice(ch: unknown): ch is { x: string; y: string; reference: ReferenceChoice } {
+  return isObj(ch) && isStr(ch.x) && isStr(ch.y) && isReferenceChoice(ch.reference);
 }

@@ -98,7 +98,7 @@ describe('panel webview (headless Chromium)', function () {
 
   it('announces itself with a ready message carrying the protocol version', async () => {
     const ready = (await p.posted()).find((m) => m.type === 'ready');
-    assert.deepEqual(ready, { type: 'ready', version: 1 });
+    assert.deepEqual(ready, { type: 'ready', version: 1, choice: null }, 'a fresh page has no map of its own to ask for');
   });
 
   it('draws the region map so each grid point carries its class colour', async () => {
@@ -315,8 +315,14 @@ describe('panel webview (headless Chromium)', function () {
   });
 
   it('comes back from saved state after a reload, without the host resending', async () => {
+    await p.clearPosted();
     await p.page.reload();
-    await p.waitForPosted((m) => m.type === 'ready');
+    const ready = await p.waitForPosted((m) => m.type === 'ready');
+    // It asks the host for the map it showed when its state was last saved, so the host draws that pair again
+    // rather than its default (the picker test above posted choices the stand-in host never answered).
+    assert.ok(ready.type === 'ready' && ready.choice, JSON.stringify(ready));
+    const shown = classificationMap();
+    assert.deepEqual([ready.choice.x, ready.choice.y, ready.choice.reference.mode], [shown.x.feature, shown.y.feature, 'typical']);
     assert.equal((await p.page.textContent('[data-testid=oob-score]'))?.trim(), '93.3%');
     const { rgb } = await pixelsAt(p, [[1.5, 0.5]]);
     assert.equal(decodeClass(rgb[0], dark, 'dark', 3).k, 0);

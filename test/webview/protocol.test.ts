@@ -67,6 +67,8 @@ describe('protocol guards', () => {
   it('accepts the panel messages and rejects malformed ones', () => {
     const good: PanelToHost[] = [
       { type: 'ready', version: 1 },
+      { type: 'ready', version: 1, choice: null },
+      { type: 'ready', version: 1, choice: { x: 'a', y: 'b', reference: { mode: 'row', row: 3 } } },
       { type: 'chooseMap', x: 'a', y: 'b', reference: { mode: 'typical' } },
       { type: 'chooseMap', x: 'a', y: 'b', reference: { mode: 'row', row: 12 } },
       { type: 'chooseMap', x: 'a', y: 'b', reference: { mode: 'averaged' } },
@@ -78,6 +80,7 @@ describe('protocol guards', () => {
     for (const m of good) assert.ok(isPanelToHost(m), JSON.stringify(m));
     const bad: unknown[] = [
       { type: 'ready' },
+      { type: 'ready', version: 1, choice: { x: 'a', reference: { mode: 'typical' } } },
       { type: 'chooseMap', x: 'a', y: 'b', reference: { mode: 'row' } },
       { type: 'chooseMap', x: 'a', y: 'b', reference: { mode: 'medians' } },
       { type: 'revealRow', row: 0 },

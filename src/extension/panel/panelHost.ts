@@ -54,6 +54,8 @@ export class PanelHost implements vscode.Disposable {
   private dependenceTicket = 0;
   /** While the last fit is being brought back after a reload, the panel says so rather than "no forest". */
   private restoring = false;
+  /** The map the panel showed before a reload, until the first forest it fits is shown. */
+  private restoredChoice: { x: string; y: string; reference: ReferenceChoice } | undefined;
   /**
    * What the panel shows for the active forest. The webview's page is discarded whenever the panel is
    * hidden (we do not retain it), and comes back empty-handed but for its own saved state; this lets the
@@ -213,6 +215,7 @@ export class PanelHost implements vscode.Disposable {
         case 'ready':
           if (msg.version !== PROTOCOL_VERSION) this.ctx.log.warn(`Panel speaks protocol ${msg.version}, host ${PROTOCOL_VERSION}.`);
           this.ready = true;
+          this.restoredChoice = msg.choice ?? undefined;
           // Everything but progress is about to be sent afresh; a reloaded panel may hold an older
           // summary in its own state, and ours must win so both ends agree.
           for (const m of this.queue.splice(0)) if (m.type === 'status') void this.panel?.webview.postMessage(m);
@@ -274,6 +277,14 @@ export class PanelHost implements vscode.Disposable {
     }
   }
 
+  /** The pre-reload map choice, once, if this forest has both its features. */
+  private takeRestoredChoice(session: ForestSession): { x: string; y: string; reference: ReferenceChoice } | undefined {
+    const choice = this.restoredChoice;
+    this.restoredChoice = undefined;
+    const names = new Set(session.forest.schema.features.map((f) => f.name));
+    return choice && names.has(choice.x) && names.has(choice.y) ? choice : undefined;
+  }
+
   /** Everything the panel shows for the session, from the cache where the session has not changed. */
   private async sendAll(session: ForestSession | undefined): Promise<void> {
     if (!session) {
@@ -289,9 +300,21 @@ export class PanelHost implements vscode.Disposable {
     if (shown.map) {
       this.post({ type: 'regionMap', map: shown.map });
     } else {
-      const first = shown.choice ?? (session.defaultAxes() ? { ...session.defaultAxes()!, reference: { mode: 'typical' } as ReferenceChoice } : undefined);
-      if (first) await this.sendMap(first.x, first.y, first.reference);
-      else this.status('idle', 'A map needs at least two features the forest can draw.');
+      const restored = this.takeRestoredChoice(session);
+      const fallback = session.defaultAxes() ? { ...session.defaultAxes()!, reference: { mode: 'typical' } as ReferenceChoice } : undefined;
+      const first = shown.choice ?? restored ?? fallback;
+      if (!first) {
+        this.status('idle', 'A map needs at least two features the forest can draw.');
+      } else if (first === restored && fallback) {
+        // The saved choice may no longer apply (a row reference past the end, averaging without explanations).
+        try {
+          await this.sendMap(first.x, first.y, first.reference);
+        } catch {
+          await this.sendMap(fallback.x, fallback.y, fallback.reference);
+        }
+      } else {
+        await this.sendMap(first.x, first.y, first.reference);
+      }
     }
     if (session !== this.ctx.session) return;
     if (!shown.matrix) {
