@@ -3,13 +3,13 @@ import * as assert from 'node:assert/strict';
 import { promises as fs } from 'node:fs';
 import * as os from 'node:os';
 import * as path from 'node:path';
+import { inBagCounts } from '../../src/core/forest/bootstrap';
 import { Scorer } from '../../src/core/forest/scorer';
 import { fromBase64, loadLastFit, saveLastFit, toBase64 } from '../../src/extension/session/lastFit';
 import { restoreLastFit } from '../../src/extension/session/restore';
 import { choicesFrom } from '../../src/extension/fit/choices';
 import { readSettings } from '../../src/extension/settings';
 import { FIXTURES, fitFixture, type Fitted } from './helpers';
-import { inBagCounts } from '../../src/core/forest/bootstrap';
 
 describe('extension last fit', () => {
   let dir: string;
@@ -23,7 +23,7 @@ describe('extension last fit', () => {
     const choices = choicesFrom(readSettings({ get: () => undefined }).settings.training, 'cultivar', 'classification');
     await saveLastFit(
       path.join(dir, 'store'),
-      { forest: f.report.forest, trainRows: f.report.trainRows, inBag: inBagCounts(f.report.forest.params, f.report.forest.trees.length, f.report.trainRows.length) },
+      { forest: f.report.forest, trainRows: f.report.trainRows },
       { csvPath: csv, fingerprint: f.load.fingerprint, delimiter: f.load.delimiter, summary: f.session.summary, choices },
     );
   });
@@ -83,9 +83,27 @@ describe('extension last fit', () => {
     assert.equal(await loadLastFit(path.join(dir, 'nowhere')), undefined);
     const broken = path.join(dir, 'broken');
     await fs.cp(path.join(dir, 'store'), broken, { recursive: true });
-    await fs.writeFile(path.join(broken, 'inbag.bin'), Buffer.alloc(3));
-    assert.equal(await loadLastFit(broken), undefined);
-    await fs.writeFile(path.join(broken, 'meta.json'), '{"version": 1}');
-    assert.equal(await loadLastFit(broken), undefined);
+    const meta = JSON.parse(await fs.readFile(path.join(broken, 'meta.json'), 'utf8'));
+    await fs.writeFile(path.join(broken, 'meta.json'), JSON.stringify({ ...meta, trees: meta.trees - 1 }));
+    assert.equal(await loadLastFit(broken), undefined, 'a model that is not the one the meta describes');
+    await fs.writeFile(path.join(broken, 'meta.json'), JSON.stringify({ ...meta, version: 1 }));
+    assert.equal(await loadLastFit(broken), undefined, 'an older layout');
+  });
+
+  it('finishes one save before the next starts, so the last fit saved is the one that comes back', async () => {
+    const store = path.join(dir, 'store3');
+    const g = await fitFixture(csv, 'cultivar', { trees: 7, seed: 5 });
+    try {
+      const meta = { csvPath: csv, fingerprint: f.load.fingerprint, delimiter: f.load.delimiter, summary: f.session.summary };
+      await Promise.all([
+        saveLastFit(store, { forest: f.report.forest, trainRows: f.report.trainRows }, meta),
+        saveLastFit(store, { forest: g.report.forest, trainRows: g.report.trainRows }, meta),
+      ]);
+      const back = (await loadLastFit(store))!;
+      assert.equal(back.forest.trees.length, 7);
+      assert.deepEqual(back.inBag, inBagCounts(g.report.forest.params, 7, g.report.trainRows.length));
+    } finally {
+      await g.session.dispose();
+    }
   });
 });

@@ -358,7 +358,7 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
   // Kept for the next window reload; a failure here costs only the restore, so it is logged, not shown.
   void saveLastFit(
     ctx.storageDir,
-    { forest, trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag },
+    { forest, trainRows: report.trainRows, holdoutRows: report.holdoutRows },
     {
       csvPath: loaded.path,
       fingerprint: load.fingerprint,

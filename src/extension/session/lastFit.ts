@@ -1,15 +1,16 @@
 // Keeps the last fit in the extension's storage so a window reload brings the panel, hovers and
-// out-of-bag votes back without refitting: the model file (core's format), the CSV it was fitted on,
-// which rows trained it, and each tree's bootstrap counts. No `vscode`: the caller passes the folder.
+// out-of-bag votes back without refitting: the model file (core's format), the CSV it was fitted on and
+// which rows trained it. Each tree's bootstrap counts are drawn again from the forest's seed on load.
+// No `vscode`: the caller passes the folder.
 
 import { promises as fs } from 'node:fs';
 import * as path from 'node:path';
 import { isFitSummary, type FitSummary } from '../../protocol/messages';
 import type { Forest } from '../engine';
 import type { FitChoices } from '../fit/choices';
-import { loadModel, saveModel } from '../engine';
+import { inBagCounts, loadModel, saveModel } from '../engine';
 
-export const LAST_FIT_VERSION = 1;
+export const LAST_FIT_VERSION = 2;
 
 export interface LastFitMeta {
   readonly version: number;
@@ -34,18 +35,26 @@ export interface LastFit {
   readonly meta: LastFitMeta;
   readonly trainRows: Int32Array;
   readonly holdoutRows?: Int32Array;
+  /** Tree-major bootstrap counts of the training rows, drawn again from the seed. */
   readonly inBag: Uint8Array;
 }
 
 const MODEL = 'forest.json';
 const META = 'meta.json';
-const INBAG = 'inbag.bin';
 
-export async function saveLastFit(
-  dir: string,
-  fit: { forest: Forest; trainRows: Int32Array; holdoutRows?: Int32Array; inBag: Uint8Array },
-  meta: Omit<LastFitMeta, 'version' | 'trainRows' | 'holdoutRows' | 'trees'>,
-): Promise<void> {
+type Fit = { forest: Forest; trainRows: Int32Array; holdoutRows?: Int32Array };
+type Meta = Omit<LastFitMeta, 'version' | 'trainRows' | 'holdoutRows' | 'trees'>;
+
+/** Saves one after another: two fits in quick succession must not interleave their files. */
+let queue: Promise<void> = Promise.resolve();
+
+export function saveLastFit(dir: string, fit: Fit, meta: Meta): Promise<void> {
+  const run = queue.then(() => save(dir, fit, meta));
+  queue = run.catch(() => undefined);
+  return run;
+}
+
+async function save(dir: string, fit: Fit, meta: Meta): Promise<void> {
   await fs.mkdir(dir, { recursive: true });
   const full: LastFitMeta = {
     ...meta,
@@ -57,7 +66,7 @@ export async function saveLastFit(
   // Meta goes last and is what load looks for first, so a save cut short leaves no half-matching set.
   await fs.rm(path.join(dir, META), { force: true });
   await saveModel(path.join(dir, MODEL), fit.forest);
-  await writeAtomic(path.join(dir, INBAG), fit.inBag);
+  await fs.rm(path.join(dir, 'inbag.bin'), { force: true }); // kept by version 1
   await writeAtomic(path.join(dir, META), JSON.stringify(full));
 }
 
@@ -71,11 +80,10 @@ export async function loadLastFit(dir: string): Promise<LastFit | undefined> {
   }
   if (!isMeta(meta)) return undefined;
   const forest = await loadModel(path.join(dir, MODEL));
-  const inBag = new Uint8Array(await fs.readFile(path.join(dir, INBAG)));
   const trainRows = fromBase64(meta.trainRows);
   const holdoutRows = meta.holdoutRows ? fromBase64(meta.holdoutRows) : undefined;
-  if (forest.trees.length !== meta.trees || inBag.length !== meta.trees * trainRows.length) return undefined;
-  return { forest, meta, trainRows, holdoutRows, inBag };
+  if (forest.trees.length !== meta.trees) return undefined;
+  return { forest, meta, trainRows, holdoutRows, inBag: inBagCounts(forest.params, forest.trees.length, trainRows.length) };
 }
 
 export async function clearLastFit(dir: string): Promise<void> {
