@@ -2,7 +2,7 @@
 // fixtures (sources in test/fixtures/open/SOURCES.md): iris (Fisher 1936) and Friedman #1 (Friedman 1991).
 // The reference is always Copse's own forest before export: an import must score as it does.
 import * as assert from 'node:assert/strict';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import * as path from 'node:path';
 import { loadCsv } from '../../src/core/csv/load';
@@ -15,11 +15,9 @@ import { saveModel } from '../../src/core/model/file';
 import { ModelError, openModelFile } from '../../src/core/model/open';
 import { exportOnnx } from '../../src/core/onnx/export';
 import { decodeModel, encodeModel } from '../../src/core/onnx/proto';
-import { forestForTable, nameByHeader, permutationOnTable, positionalNaming, UNAVAILABLE_FOR_IMPORT } from '../../src/extension/session/imported';
+import { forestForTable, nameByHeader, openedSession, permutationOnTable, positionalNaming } from '../../src/extension/session/imported';
 import { loadForForest } from '../../src/extension/session/loadFor';
-import { ForestSession } from '../../src/extension/session/session';
-import { openedSummary } from '../../src/extension/summary/openedSummary';
-import { ExplainClient } from '../../src/extension/workers/explainClient';
+import type { ForestSession } from '../../src/extension/session/session';
 import { FIXTURES } from './helpers';
 
 const dir = mkdtempSync(path.join(tmpdir(), 'copse-open-onnx-'));
@@ -31,7 +29,7 @@ function positional(bytes: Uint8Array): Uint8Array {
   return encodeModel(m);
 }
 
-/** The open command's steps without its dialogs; `agree` answers the naming question. */
+/** The open command's steps without its dialogs (the same functions it calls); `agree` answers the naming question. */
 async function openAgainst(modelPath: string, csvPath: string, agree = true): Promise<{ session: ForestSession; question?: string }> {
   const opened = await openModelFile(modelPath);
   const label = path.basename(csvPath);
@@ -45,29 +43,15 @@ async function openAgainst(modelPath: string, csvPath: string, agree = true): Pr
   const forest = forestForTable(named, load.table, label);
   const scorer = new Scorer(forest);
   const permutation = await permutationOnTable(forest, load.table, label, load.fingerprint, scorer, 1);
-  const session = await ForestSession.create({
+  const session = await openedSession({
     forest,
-    source: { path: csvPath, label, delimiter: load.delimiter, fingerprint: load.fingerprint, rowsRead: load.rowsRead, header: load.header },
-    table: load.table,
-    text: () => readFileSync(csvPath, 'utf8'),
-    summary: ({ prediction, truth }) =>
-      openedSummary({
-        forest,
-        prediction,
-        truth,
-        dataset: { label, uri: `file://${csvPath}` },
-        rowsRead: load.rowsRead,
-        sampled: false,
-        fingerprint: load.fingerprint,
-        modelLabel,
-        warnings: [],
-        origin: opened.origin,
-        permutation,
-      }),
+    imported,
+    origin: opened.origin,
+    modelLabel,
+    csv: { path: csvPath, uri: `file://${csvPath}`, load, sampled: false },
+    warnings: [],
+    permutation,
     scorer,
-    explainer: (setup) => new ExplainClient(setup),
-    quantiles: imported ? { from: 'none', reason: `${UNAVAILABLE_FOR_IMPORT}.` } : { from: 'table' },
-    importedFrom: imported ? modelLabel : undefined,
   });
   return { session, question: naming?.question };
 }

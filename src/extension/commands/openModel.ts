@@ -1,16 +1,13 @@
 // "Copse: Open a saved forest": load a model file (Copse's own, or an ONNX tree ensemble), then pick the CSV
 // to look at it against.
 
-import { readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import { knowsTraining, openModelFile, readHeader, Scorer } from '../engine';
 import { guarded, readCsv, requireFile } from '../fit/fitFlow';
 import { showCsv } from '../editor/showCsv';
 import { ForestSession } from '../session/session';
-import { ExplainClient } from '../workers/explainClient';
-import { openedSummary } from '../summary/openedSummary';
-import { forestForTable, nameByHeader, permutationOnTable, positionalNaming, UNAVAILABLE_FOR_IMPORT } from '../session/imported';
+import { forestForTable, nameByHeader, openedSession, permutationOnTable, positionalNaming } from '../session/imported';
 import { COMMANDS, type Host } from './host';
 
 export function registerOpenModel(host: Host): vscode.Disposable {
@@ -77,40 +74,15 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
         { location: vscode.ProgressLocation.Notification, title: `Copse: measuring permutation importance on ${label}` },
         () => permutationOnTable(forest, loaded.load.table, label, loaded.load.fingerprint, scorer, ctx.settings().training.seed),
       );
-      session = await ForestSession.create({
+      session = await openedSession({
         forest,
-        source: {
-          path: loaded.path,
-          label,
-          delimiter: loaded.load.delimiter,
-          fingerprint: loaded.load.fingerprint,
-          rowsRead: loaded.load.rowsRead,
-          sampleRows: loaded.sampleRows,
-          sampleSeed: loaded.sampleSeed,
-          header: loaded.load.header,
-        },
-        table: loaded.load.table,
-        text: () => readFileSync(loaded.path, 'utf8'),
-        summary: ({ prediction, truth }) =>
-          openedSummary({
-            forest,
-            prediction,
-            truth,
-            dataset: { label, uri: csvUri.toString() },
-            rowsRead: loaded.load.rowsRead,
-            sampled: loaded.sampled,
-            fingerprint: loaded.load.fingerprint,
-            modelLabel,
-            warnings,
-            origin: opened.origin,
-            permutation,
-          }),
+        imported,
+        origin: opened.origin,
+        modelLabel,
+        csv: { path: loaded.path, uri: csvUri.toString(), load: loaded.load, sampled: loaded.sampled, sampleRows: loaded.sampleRows, sampleSeed: loaded.sampleSeed },
+        warnings,
+        permutation,
         scorer,
-        explainer: (setup) => new ExplainClient(setup),
-        // Intervals need the forest's training rows: they are there when this CSV is its training file, and
-        // never for an import without Copse's metadata.
-        quantiles: imported ? { from: 'none', reason: `${UNAVAILABLE_FOR_IMPORT}.` } : { from: 'table' },
-        importedFrom: imported ? modelLabel : undefined,
         intervalLevel: ctx.settings().explain.intervalLevel,
       });
     } catch (e) {

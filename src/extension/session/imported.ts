@@ -2,10 +2,14 @@
 // a foreign model's positional features by the CSV's columns, covers counted from the CSV when the file has
 // none, and permutation importance on the CSV's labelled rows. No `vscode` here, so tests run it as the command does.
 
-import type { Forest, ModelOrigin, PermutationImportance, Table } from '../engine';
+import { readFileSync } from 'node:fs';
+import * as path from 'node:path';
+import type { Forest, LoadResult, ModelOrigin, PermutationImportance, Table } from '../engine';
 import { encodeTable, knowsTraining, ModelError, nameByPosition, permutationOnRows, withCoverFrom } from '../engine';
-import type { ScorerLike } from './session';
-import { truthOf } from './session';
+import { openedSummary } from '../summary/openedSummary';
+import { ExplainClient } from '../workers/explainClient';
+import { UNAVAILABLE_FOR_IMPORT } from './importText';
+import { ForestSession, truthOf, type ScorerLike } from './session';
 
 export { COVERS_FROM_FILE, UNAVAILABLE_FOR_IMPORT } from './importText';
 
@@ -82,4 +86,67 @@ export async function permutationOnTable(
     (rows, n) => scorer.predict(rows, n),
   );
   return imp.rows > 0 ? imp : undefined;
+}
+
+export interface OpenedSessionInput {
+  /** Named for the CSV and ready for its table (forestForTable). */
+  readonly forest: Forest;
+  /** Whether the forest was imported without its training sample. */
+  readonly imported: boolean;
+  readonly origin: ModelOrigin;
+  readonly modelLabel: string;
+  readonly csv: {
+    readonly path: string;
+    readonly uri: string;
+    readonly load: LoadResult;
+    readonly sampled: boolean;
+    readonly sampleRows?: number;
+    readonly sampleSeed?: number;
+  };
+  readonly warnings: readonly string[];
+  readonly permutation: PermutationImportance | undefined;
+  readonly scorer: ScorerLike;
+  readonly intervalLevel?: number;
+}
+
+/** The session for a forest opened from a file and shown against a CSV. */
+export function openedSession(i: OpenedSessionInput): Promise<ForestSession> {
+  const { forest, csv, modelLabel } = i;
+  const label = path.basename(csv.path);
+  return ForestSession.create({
+    forest,
+    source: {
+      path: csv.path,
+      label,
+      delimiter: csv.load.delimiter,
+      fingerprint: csv.load.fingerprint,
+      rowsRead: csv.load.rowsRead,
+      sampleRows: csv.sampleRows,
+      sampleSeed: csv.sampleSeed,
+      header: csv.load.header,
+    },
+    table: csv.load.table,
+    text: () => readFileSync(csv.path, 'utf8'),
+    summary: ({ prediction, truth }) =>
+      openedSummary({
+        forest,
+        prediction,
+        truth,
+        dataset: { label, uri: csv.uri },
+        rowsRead: csv.load.rowsRead,
+        sampled: csv.sampled,
+        fingerprint: csv.load.fingerprint,
+        modelLabel,
+        warnings: [...i.warnings],
+        origin: i.origin,
+        permutation: i.permutation,
+      }),
+    scorer: i.scorer,
+    explainer: (setup) => new ExplainClient(setup),
+    // Intervals need the forest's training rows: they are there when this CSV is its training file, and
+    // never for an import without Copse's metadata.
+    quantiles: i.imported ? { from: 'none', reason: `${UNAVAILABLE_FOR_IMPORT}.` } : { from: 'table' },
+    importedFrom: i.imported ? modelLabel : undefined,
+    intervalLevel: i.intervalLevel,
+  });
 }
