@@ -44,5 +44,6 @@ export { openModelFile, isOnnxFile, knowsTraining, nameByPosition, ModelError, t
 export { saveOnnxFile } from '../core/onnx/save';
 export { readHeader } from '../core/csv/header';
 export { withCoverFrom } from '../core/forest/cover';
+export { median } from '../core/data/binning';
 export { permutationOnRows, type PermutationImportance } from '../core/explain/permutation';
 export { csvLine } from '../core/csv/write';

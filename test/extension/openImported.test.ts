@@ -158,6 +158,16 @@ describe('opening an ONNX tree ensemble in the editor', function () {
       assert.match((await session.hoverContributions(2)) ?? '', /weigh each split by this file's rows/);
     });
 
+    it('holds the other features of a map at their medians in the file, since the ONNX file has no typical values', async () => {
+      const original = forest.schema.features;
+      session.forest.schema.features.forEach((f, j) => {
+        // Friedman #1's features are uniform on [0, 1]: the file's medians sit near 0.5, as the fit's own do.
+        assert.ok(Math.abs(f.reference - original[j].reference) < 1e-12, `${f.name}: ${f.reference} vs ${original[j].reference}`);
+      });
+      const map = await session.regionMap('x1', 'x2', { mode: 'typical' }, { gridResolution: 20, pointsDrawn: 100, dependenceRows: 100, pairFeatures: 4 });
+      assert.ok(map.heldAt.length > 0 && map.heldAt.every((h) => !/NaN|missing/i.test(JSON.stringify(h))), JSON.stringify(map.heldAt));
+    });
+
     // x3 is left out of the comparison: it enters y only as 20 (x3 - 0.5)^2, whose spread a 12-tree forest barely resolves.
     it('measures permutation importance on the file: the noise features rank below x1, x2, x4 and x5', () => {
       assert.equal(session.summary.permutationOn, 'file');

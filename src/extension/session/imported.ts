@@ -5,7 +5,7 @@
 import { readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import type { Forest, LoadResult, ModelOrigin, PermutationImportance, Table } from '../engine';
-import { encodeTable, knowsTraining, ModelError, nameByPosition, permutationOnRows, withCoverFrom } from '../engine';
+import { encodeTable, findColumn, knowsTraining, median, ModelError, nameByPosition, permutationOnRows, withCoverFrom } from '../engine';
 import { openedSummary } from '../summary/openedSummary';
 import { ExplainClient } from '../workers/explainClient';
 import { UNAVAILABLE_FOR_IMPORT } from './importText';
@@ -58,10 +58,19 @@ export function nameByHeader(forest: Forest, header: readonly string[], target: 
   return { ...named, schema: { ...named.schema, target: { ...named.schema.target, name: target } } };
 }
 
-/** The forest ready for this table: covers counted from its rows when the file carried none. */
+/**
+ * The forest ready for this table. A file without training facts has no covers and no typical values: covers
+ * are counted from the table's rows, and each numeric feature's typical value (what maps hold the other
+ * features at) is its median in the table.
+ */
 export function forestForTable(forest: Forest, table: Table, label: string): Forest {
   if (knowsTraining(forest)) return forest;
-  return withCoverFrom(forest, encodeTable(forest.schema, table, label), table.rowCount);
+  const features = forest.schema.features.map((f) => {
+    const column = findColumn(table, f.name);
+    return f.kind === 'numeric' && Number.isNaN(f.reference) && column?.kind === 'numeric' ? { ...f, reference: median(column.values) } : f;
+  });
+  const typical = { ...forest, schema: { ...forest.schema, features } };
+  return withCoverFrom(typical, encodeTable(typical.schema, table, label), table.rowCount);
 }
 
 /**
