@@ -21,7 +21,9 @@ interface LineGeometry {
 
 /** Moves the cursor to `line` with Go to Line, so Monaco renders it. */
 export async function revealLine(page: Page, line: number): Promise<void> {
-  await activeEditor(page).locator('.view-lines').click({ position: { x: 1, y: 1 } });
+  // Focus the editor by clicking inside its visible box: the rendered lines' own box starts above the view
+  // when the editor is scrolled down, and a click there lands outside the editor.
+  await activeEditor(page).click({ position: { x: 80, y: 8 } });
   await page.keyboard.press('Control+G');
   const input = page.locator('.quick-input-widget .quick-input-box input');
   await input.waitFor({ state: 'visible' });
