@@ -4,7 +4,9 @@ import { tmpdir } from 'node:os';
 import * as path from 'node:path';
 import { fitForest } from '../../src/core/forest/fit';
 import type { Forest } from '../../src/core/forest/forest';
-import { predictTable } from '../../src/core/forest/predict';
+import { encodeTable, predictTable } from '../../src/core/forest/predict';
+import { Scorer } from '../../src/core/forest/scorer';
+import { sharedForest } from '../../src/core/forest/shared';
 import { loadModel, ModelError, parseModel, saveModel, serializeModel } from '../../src/core/model/file';
 import { threeClass } from './helpers/synthetic';
 
@@ -89,6 +91,23 @@ describe('model file', () => {
       assert.throws(() => parseModel(make(), 'm.json'), (e: Error) => e instanceof ModelError && message.test(e.message) && e.message.startsWith('m.json'));
     });
   }
+
+  it('loads trees into shared memory, so scoring threads read them without a copy each', async () => {
+    const back = parseModel(text);
+    for (const t of back.trees) for (const a of [t.left, t.right, t.feature, t.threshold, t.missingLeft, t.value, t.cover, t.catBits]) assert.ok(a.buffer instanceof SharedArrayBuffer);
+    assert.equal(sharedForest(back), back, 'already shared: no copy');
+    const copy = sharedForest(forest);
+    assert.notEqual(copy, forest);
+    assert.equal(sharedForest(forest), copy, 'a fitted forest is copied once');
+    assert.ok(copy.trees[0].left.buffer instanceof SharedArrayBuffer);
+    const scorer = new Scorer(back);
+    try {
+      const x = encodeTable(forest.schema, table);
+      assert.deepEqual((await scorer.predict(x, table.rowCount)).proba, predictTable(forest, table).proba);
+    } finally {
+      await scorer.dispose();
+    }
+  });
 
   it('treats keys such as __proto__ as plain data', () => {
     const hostile = text.replace('{"format"', '{"__proto__":{"polluted":true},"constructor":{"prototype":{"polluted":true}},"format"');

@@ -2,6 +2,7 @@
 import { Worker } from 'node:worker_threads';
 import type { Forest } from './forest';
 import { workerScript } from './pool';
+import { sharedForest } from './shared';
 import type { Prediction } from './predict';
 
 type Reply = { id: number; ok: true; prediction: Prediction } | { id: number; ok: false; error: string };
@@ -13,7 +14,8 @@ export class Scorer {
   private failed?: Error;
 
   constructor(readonly forest: Forest) {
-    this.worker = new Worker(workerScript('score-worker.js'), { workerData: forest });
+    // Shared tree arrays: the thread reads the caller's copy rather than receiving its own.
+    this.worker = new Worker(workerScript('score-worker.js'), { workerData: sharedForest(forest) });
     this.worker.on('message', (msg: Reply) => {
       const w = this.waiting.get(msg.id);
       if (!w) return;

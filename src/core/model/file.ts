@@ -8,6 +8,7 @@ import { createInterface } from 'node:readline';
 import type { ColumnKind, DroppedColumn } from '../data/table';
 import type { Forest, TrainingInfo } from '../forest/forest';
 import { validateParams, type ForestParams } from '../forest/params';
+import { sharedArray, type SharedMake } from '../forest/shared';
 import type { FlatTree } from '../tree/tree';
 import { outputCount, type FeatureInfo, type Schema, type TargetInfo } from './schema';
 import { ModelError, Reader, type Json } from './validate';
@@ -268,13 +269,14 @@ function readTree(r: Reader, v: Json, path: string, schema: Schema): FlatTree {
   const n = r.integer(r.field(o, 'nodes', path), `${path}.nodes`, 1, 50_000_000);
   const p = schema.features.length;
   const K = outputCount(schema.target);
+  // Straight into shared memory, so scoring threads read these arrays instead of copying them (see sharedForest).
   const list = <T extends Float64Array | Float32Array | Int32Array | Uint8Array | Uint32Array>(
     key: string,
-    make: new (n: number) => T,
-    length: number,
+    make: (new (n: number) => T) & SharedMake<T>,
+    length: number | undefined,
     check: (x: number) => boolean,
     rule: string,
-  ) => r.numbers(r.field(o, key, path), `${path}.${key}`, make, length, check, rule);
+  ) => r.numbers(r.field(o, key, path), `${path}.${key}`, make, length, check, rule, (len) => sharedArray(make, len));
   const isIndex = (x: number) => Number.isInteger(x) && x >= -1 && x < n;
   const left = list('left', Int32Array, n, isIndex, `should be -1 or a node index below ${n}`);
   const right = list('right', Int32Array, n, isIndex, `should be -1 or a node index below ${n}`);
@@ -283,7 +285,7 @@ function readTree(r: Reader, v: Json, path: string, schema: Schema): FlatTree {
   const missingLeft = list('missingLeft', Uint8Array, n, (x) => x === 0 || x === 1, 'should be 0 or 1');
   const value = list('value', Float32Array, n * K, Number.isFinite, 'should be a finite number');
   const cover = list('cover', Float32Array, n, (x) => Number.isFinite(x) && x >= 0, 'should be a number >= 0');
-  const catBits = r.numbers(r.field(o, 'levelSets', path), `${path}.levelSets`, Uint32Array, undefined, (x) => Number.isInteger(x) && x >= 0 && x <= 0xffffffff, 'should be a 32-bit word');
+  const catBits = list('levelSets', Uint32Array, undefined, (x) => Number.isInteger(x) && x >= 0 && x <= 0xffffffff, 'should be a 32-bit word');
   // Children after parents and each node reached once: the walk always ends, and the arrays form one tree.
   const reached = new Uint8Array(n);
   for (let i = 0; i < n; i++) {

@@ -58,7 +58,7 @@ export class Reader {
     return v as T;
   }
 
-  /** A numeric list read straight into a typed array, each entry checked. */
+  /** A numeric list read straight into a typed array (made by `make`), each entry checked. */
   numbers<T extends Float64Array | Float32Array | Int32Array | Uint8Array | Uint32Array>(
     v: Json,
     path: string,
@@ -66,9 +66,10 @@ export class Reader {
     length: number | undefined,
     check: (x: number) => boolean,
     rule: string,
+    alloc: (n: number) => T = (n) => new make(n),
   ): T {
     const list = this.array(v, path, length);
-    const out = new make(list.length);
+    const out = alloc(list.length);
     for (let i = 0; i < list.length; i++) {
       const x = list[i];
       if (typeof x !== 'number' || !check(x)) this.fail(`${path}[${i}]`, rule);
