@@ -9,6 +9,7 @@ import {
   CLASSES,
   classificationMap,
   classificationMessages,
+  classificationSummary,
   HOSTILE_CLASS,
   HOSTILE_DROPPED,
   HOSTILE_FEATURE,
@@ -395,6 +396,33 @@ describe('panel webview, regression', function () {
   it('saves a screenshot for review', async () => {
     const file = await p.screenshot('panel-regression.png');
     assert.ok(fs.statSync(file).size > 10_000);
+    assert.deepEqual(p.errors, []);
+  });
+});
+
+describe('panel webview, a forest opened from a file without its training sample', function () {
+  this.timeout(180_000);
+  let p: PanelPage;
+
+  before(async () => {
+    p = await PanelPage.open('light');
+    const summary = { ...classificationSummary(), oob: null, curve: [], permutationOn: 'file' as const, oobUnavailable: 'Out-of-bag scores and votes are unavailable here.' };
+    await p.send({ type: 'summary', summary }, { type: 'disagreement', rows: [rowVotes(71, 1, 0.45)] });
+  });
+
+  after(async () => {
+    await p?.close();
+  });
+
+  it('says why there is no out-of-bag score, and that permutation importance was measured on the file', async () => {
+    assert.equal((await p.page.textContent('[data-testid=oob-note]'))?.trim(), 'Out-of-bag scores and votes are unavailable here.');
+    assert.match((await p.page.textContent('[data-testid=permutation-caption]')) ?? '', /on this file/);
+  });
+
+  it('shows the out-of-bag vote of a selected row as unavailable rather than a value', async () => {
+    const head = (await p.page.textContent('[data-testid=disagreement] [data-row="71"] .vote-head')) ?? '';
+    assert.match(head, /out-of-bag vote\s*unavailable/);
+    assert.doesNotMatch(head, /out-of-bag trees/);
     assert.deepEqual(p.errors, []);
   });
 });
