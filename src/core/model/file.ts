@@ -120,6 +120,17 @@ export async function loadModel(path: string): Promise<Forest> {
   return parser.end();
 }
 
+/**
+ * The forest as loading its saved file would give it back, every field checked the same way; a tree at a time,
+ * so a large forest (an import) is never one string.
+ */
+export function checkForest(forest: Forest, label = 'the model'): Forest {
+  const parser = new ModelParser(label);
+  parser.line(headLine(forest, forest.trees.length));
+  for (const tree of forest.trees) parser.line(treeLine(tree));
+  return parser.end();
+}
+
 export function parseModel(text: string, label = 'the model'): Forest {
   const parser = new ModelParser(label);
   for (const line of text.split('\n')) parser.line(line);

@@ -3,7 +3,7 @@
 // ModelError naming what is wrong. The forest then passes the same validator as a saved model file.
 import type { Forest, TrainingInfo } from '../forest/forest';
 import { defaultParams, type ForestParams } from '../forest/params';
-import { parseModel, serializeModel } from '../model/file';
+import { checkForest } from '../model/file';
 import type { FeatureInfo, Schema } from '../model/schema';
 import { ModelError } from '../model/validate';
 import { Attributes, failWith, type Fail } from './attributes';
@@ -203,7 +203,7 @@ function positionalSchema(p: number, task: 'classification' | 'regression', e: E
 /** Runs the forest through the model file's validator, so an import is held to the same rules as a saved model. */
 function validate(forest: Forest, label: string, known: boolean): Forest {
   try {
-    return parseModel(serializeModel(forest), label);
+    return checkForest(forest, label);
   } catch (e) {
     if (e instanceof ModelError) throw new ModelError(`${e.message.replace(/\.$/, '')} (after converting it from ONNX${known ? ', with its Copse metadata' : ''}).`);
     throw e;
