@@ -180,7 +180,7 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
     await wb!.screenshot(`map-${next}`);
   });
 
-  it('(4) shows on hover the tree votes `copse votes` reports for that row', async function () {
+  it('(4) shows on hover the tree votes `copse votes` reports for that row, and exports a forest that votes the same', async function () {
     await wb!.activateTab('kite-flights.csv');
     // The model the extension itself grew, saved through its command.
     const modelPath = path.join(folder, 'kite.outcome.forest.json');
@@ -191,6 +191,13 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
     // Rows 4-8 are for the selection step; 35 is one of the demo's planted label errors (demo/README.md).
     cliVotes = await copseJson<CliVotes>(['votes', modelPath, path.join(folder, KITE), '--rows', '2,35,4,5,6,7,8']);
     assert.strictEqual(cliVotes.trees, TREES);
+    // The same forest exported to ONNX through the editor votes as the model file does.
+    const onnxPath = path.join(folder, 'kite.outcome.forest.onnx');
+    await wb!.runCommand('Copse: Export the Forest to ONNX…');
+    await wb!.answerFileDialog(onnxPath);
+    await wb!.waitForNotification(/exported the forest/);
+    const onnxVotes = await copseJson<CliVotes>(['votes', onnxPath, path.join(folder, KITE), '--rows', '2,35,4,5,6,7,8']);
+    assert.deepStrictEqual(onnxVotes.rows, cliVotes.rows, 'the exported ONNX file votes otherwise than the saved model');
 
     await wb!.activateTab('kite-flights.csv');
     for (const row of [2, 35]) {
