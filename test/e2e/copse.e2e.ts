@@ -260,6 +260,18 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
   it('(7) restores the panel, its forest and its map after a window reload', async function () {
     const panel = wb!.webview({ extensionId: EXTENSION_ID });
     const before = await waitForSummary(panel, 'loaf-rise.csv', 'rise_mm');
+    // Choose a feature pair other than the default, so the reload has something of the user's to keep.
+    const shown = await readRegionMap(await wb!.webviewFrame({ extensionId: EXTENSION_ID }));
+    const picker = panel.locator('[data-testid=region-x]');
+    await picker.click();
+    const options = (await picker.locator('li[role=option]').allInnerTexts()).map((o) => o.trim());
+    const chosen = options.find((o) => o !== shown.x && o !== shown.y)!;
+    assert.ok(chosen, `no third feature among ${JSON.stringify(options)}`);
+    await picker.locator('li[role=option]', { hasText: new RegExp(`^\\s*${chosen}\\s*$`) }).click();
+    for (const deadline = Date.now() + 60_000; (await readRegionMap(await wb!.webviewFrame({ extensionId: EXTENSION_ID }))).x !== chosen; ) {
+      if (Date.now() > deadline) throw new Error(`the map was not redrawn for ${chosen}`);
+      await sleep(200);
+    }
     await wb!.reload();
     const after = await waitForSummary(wb!.webview({ extensionId: EXTENSION_ID }), 'loaf-rise.csv', 'rise_mm', 60_000);
     assert.strictEqual(after, before);
@@ -271,6 +283,14 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
     const map = await readRegionMap(frame);
     const painted = paintedShare(map);
     assert.ok(painted > 0.9, `only ${(painted * 100).toFixed(0)}% of the restored map is painted`);
+    // The new extension host draws the pair chosen before the reload, not its default (its own log says
+    // which map it scored; the panel's saved picture alone would look the same).
+    const firstMap = async () => /Map (.+?) × (.+?) \(/.exec(copseLogOfCurrentHost(wb!))?.[1];
+    for (const deadline = Date.now() + 60_000; (await firstMap()) === undefined; ) {
+      if (Date.now() > deadline) throw new Error('the reloaded extension host drew no map');
+      await sleep(200);
+    }
+    assert.strictEqual(await firstMap(), chosen, 'the reloaded host drew another pair than the one chosen');
 
     // The host has the forest back too (not only the panel's saved picture): the fitted file answers hovers.
     await wb!.activateTab('loaf-rise.csv');
@@ -310,6 +330,13 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
     await wb!.screenshot('imported');
   });
 });
+
+/** The Copse output channel of the window's current extension host, as written so far. */
+function copseLogOfCurrentHost(wb: Workbench): string {
+  const hosts = wb.server.extensionHostLogs();
+  const file = path.join(path.dirname(hosts[hosts.length - 1]), 'copse.copse', 'Copse.log');
+  return fs.existsSync(file) ? fs.readFileSync(file, 'utf8') : '';
+}
 
 /** The first error toast to appear (the file's reading progress toast names it too, as info). */
 async function waitForError(wb: Workbench, timeoutMs: number): Promise<Notification> {
