@@ -112,12 +112,17 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
     assert.ok(installed.includes(`${EXTENSION_ID}-${vsix.version}`), `extensions folder: ${JSON.stringify(installed)}`);
     // And the workbench lists it as an enabled extension, under its own name and version.
     await wb!.runCommand('Extensions: Show Enabled Extensions');
-    const row = wb!.page.locator('.extensions-viewlet .monaco-list-row').first();
-    await row.waitFor({ timeout: 30_000 });
-    const labels = await wb!.page.locator('.extensions-viewlet .monaco-list-row').evaluateAll((els: Array<{ getAttribute(n: string): string | null }>) =>
-      els.map((el) => el.getAttribute('aria-label') ?? ''),
-    );
-    assert.ok(labels.some((l) => l.startsWith(`Copse, ${vsix.version}, Publisher copse`)), `enabled extensions: ${JSON.stringify(labels)}`);
+    const rows = wb!.page.locator('.extensions-viewlet .monaco-list-row');
+    await rows.first().waitFor({ timeout: 30_000 });
+    // The list can render again while it fills (a clean run once read it empty right after its first row
+    // appeared), so it is read until it names Copse or the time is up.
+    const want = `Copse, ${vsix.version}, Publisher copse`;
+    let labels: string[] = [];
+    for (const deadline = Date.now() + 30_000; !labels.some((l) => l.startsWith(want)) && Date.now() < deadline; ) {
+      labels = await rows.evaluateAll((els: Array<{ getAttribute(n: string): string | null }>) => els.map((el) => el.getAttribute('aria-label') ?? ''));
+      if (!labels.some((l) => l.startsWith(want))) await sleep(250);
+    }
+    assert.ok(labels.some((l) => l.startsWith(want)), `enabled extensions: ${JSON.stringify(labels)}`);
     await wb!.runCommand('View: Show Explorer');
   });
 
