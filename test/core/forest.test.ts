@@ -95,6 +95,9 @@ describe('forest', () => {
       assert.equal(rows.oobTrees[i], oob);
       for (let k = 0; k < K; k++) assert.ok(Math.abs(rows.oobProba![i * K + k] - (oob ? expected[k] / oob : 0)) < 1e-12, `row ${i}`);
     }
+    assert.equal(rows.inBag, undefined, 'not kept unless asked for');
+    const kept = await fitForest(table, { target: 'label', params: { trees: 15 }, workers: 2, keepInBag: true });
+    assert.deepEqual(kept.rows.inBag, inBag, 'the draws kept while fitting are the ones drawn again from the seed');
     // A bootstrap draw of n from n leaves about 1/e of the rows out (common practice: 0.368).
     let out = 0;
     for (const c of inBag) if (c === 0) out++;

@@ -9,7 +9,6 @@ import { ForestSession } from '../../src/extension/session/session';
 import { ExplainClient } from '../../src/extension/workers/explainClient';
 import { buildSummary } from '../../src/extension/summary/summary';
 import { readFileSync } from 'node:fs';
-import { inBagCounts } from '../../src/core/forest/bootstrap';
 
 export const FIXTURES = path.resolve(__dirname, '..', '..', '..', 'test', 'fixtures', 'open');
 
@@ -27,7 +26,7 @@ export async function fitFixture(
   extra: { holdout?: number; intervalLevel?: number; sampleRows?: number } = {},
 ): Promise<Fitted> {
   const load = await loadCsv(file, extra.sampleRows ? { sampleRows: extra.sampleRows, sampleSeed: params.seed } : undefined);
-  const report = await fitForest(load.table, { target, params, workers: 2, holdout: extra.holdout });
+  const report = await fitForest(load.table, { target, params, workers: 2, holdout: extra.holdout, keepInBag: true });
   const summary = buildSummary({
     forest: report.forest,
     report,
@@ -41,7 +40,7 @@ export async function fitFixture(
     source: { path: file, label: path.basename(file), delimiter: load.delimiter, fingerprint: load.fingerprint, rowsRead: load.rowsRead, header: load.header },
     table: load.table,
     text: () => readFileSync(file, 'utf8'),
-    oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag: inBagCounts(report.forest.params, report.forest.trees.length, report.trainRows.length), margin: report.rows.margin },
+    oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag: report.rows.inBag!, margin: report.rows.margin },
     summary,
     scorer: new Scorer(report.forest),
     explainer: (setup) => new ExplainClient(setup),

@@ -125,7 +125,7 @@ export function quantileIndexFromFit(report: FitReport, table: Table): QuantileI
   const all = encodeTable(forest.schema, table);
   const x = new Float64Array(trainRows.length * p);
   trainRows.forEach((r, i) => x.set(all.subarray(r * p, r * p + p), i * p));
-  return buildQuantileIndex(forest, { y: report.rows.truth, inBag: inBagCounts(forest.params, forest.trees.length, trainRows.length), leaves: trainingLeaves(forest, x, trainRows.length) });
+  return buildQuantileIndex(forest, { y: report.rows.truth, inBag: report.rows.inBag ?? inBagCounts(forest.params, forest.trees.length, trainRows.length), leaves: trainingLeaves(forest, x, trainRows.length) });
 }
 
 /**

@@ -43,6 +43,11 @@ export interface FitOptions {
    * A holdout or test set is scored with the trees, so it needs them kept.
    */
   readonly keepTrees?: boolean;
+  /**
+   * true: rows.inBag keeps every tree's bootstrap draw (a byte per row and tree). For a caller that reads them
+   * at once on a thread that must stay responsive (the editor), rather than drawing them again from the seed.
+   */
+  readonly keepInBag?: boolean;
 }
 
 export interface Importance {
@@ -119,7 +124,7 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
   const head: ModelHead = { schema, params, training: { rows: n, fingerprint: options.fingerprint ?? '', dropped: [...(options.dropped ?? [])] } };
   const keepTrees = options.keepTrees ?? true;
   if (!keepTrees && (holdout || options.test)) throw new RangeError('Scoring a holdout or test set needs the trees kept.');
-  const fold = new OobFold(task, n, K, params.trees, trainY, infos.length);
+  const fold = new OobFold(task, n, K, params.trees, trainY, infos.length, options.keepInBag);
   const trees: FlatTree[] = [];
   let grown = 0;
   await growInWorkers(

@@ -1,12 +1,15 @@
 // Folds tree results, in tree order, into what users read per training row: out-of-bag predictions, vote counts
 // and margins, plus the error curve and importances. Memory is per row, not per row and tree: a tree's votes and
-// bootstrap draw are used as it arrives and dropped (inBagCounts draws the membership again when it is wanted).
+// bootstrap draw are used as it arrives and dropped, unless the caller asks to keep the draws (inBagCounts
+// draws them again from the seed otherwise).
 import { argmaxAt, classificationScores, regressionScores, type Scores } from '../metrics/scores';
 import type { TreeResult } from './grow-task';
 import type { Task } from './params';
 
 export interface RowResults {
   readonly count: number;
+  /** Tree-major: times row i was drawn for tree t (0: out-of-bag for t); only when the fit kept them. */
+  readonly inBag?: Uint8Array;
   readonly truth: Float64Array;
   /** classification: count * K, averaged over the trees that had the row out-of-bag. */
   readonly oobProba?: Float64Array;
@@ -19,6 +22,7 @@ export interface RowResults {
 export class OobFold {
   /** classification: count * K out-of-bag votes per class, for the margins. */
   private readonly voteCounts: Int32Array;
+  private readonly inBag: Uint8Array | undefined;
   private readonly sums: Float64Array;
   private readonly oobTrees: Int32Array;
   private readonly impurity: Float64Array;
@@ -35,7 +39,9 @@ export class OobFold {
     private readonly T: number,
     private readonly truth: Float64Array,
     private readonly p: number,
+    keepInBag = false,
   ) {
+    this.inBag = keepInBag ? new Uint8Array(T * n) : undefined;
     this.voteCounts = new Int32Array(task === 'classification' ? n * K : 0);
     this.sums = new Float64Array(n * K);
     this.oobTrees = new Int32Array(n);
@@ -49,6 +55,7 @@ export class OobFold {
     const { n, K, sums, oobTrees, voteCounts } = this;
     const value = r.tree.value;
     const classification = this.task === 'classification';
+    this.inBag?.set(r.inBag, this.t * n);
     for (let i = 0; i < n; i++) {
       if (r.inBag[i] !== 0) continue;
       const leaf = r.rowLeaf[i];
@@ -102,7 +109,7 @@ export class OobFold {
 
   private compute(): RowResults {
     const { n, K, sums, oobTrees } = this;
-    const common = { count: n, truth: this.truth, oobTrees };
+    const common = { count: n, inBag: this.inBag, truth: this.truth, oobTrees };
     if (this.task === 'regression') {
       return { ...common, oobValue: Float64Array.from({ length: n }, (_, i) => (oobTrees[i] ? sums[i] / oobTrees[i] : NaN)) };
     }

@@ -5,7 +5,7 @@ import { promises as fs, readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import type { CopseContext, FitOrigin } from '../context';
-import { fitForest, findColumn, inBagCounts, loadCsv, Scorer, type Column, type FitReport, type LoadResult, type Schema } from '../engine';
+import { fitForest, findColumn, loadCsv, Scorer, type Column, type FitReport, type LoadResult, type Schema } from '../engine';
 import { isAbort, isUserError, userMessage } from '../errors';
 import { formatBytes, formatSeconds, formatShare } from '../format';
 import type { PanelHost } from '../panel/panelHost';
@@ -217,6 +217,8 @@ async function runFit(ctx: CopseContext, panel: PanelHost, loaded: LoadedCsv, ch
           permutationImportance: settings.training.permutationImportance,
           fingerprint: loaded.load.fingerprint,
           dropped: [...loaded.load.dropped],
+          // The session reads every draw at once; redrawing them here would block the extension host.
+          keepInBag: true,
           onProgress: (done, total) => {
             const pct = (100 * done) / total;
             progress.report({ increment: pct - reported, message: `${done} of ${total} trees` });
@@ -250,7 +252,7 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
   const settings = ctx.settings();
   const { load } = loaded;
   const forest = report.forest;
-  const inBag = inBagCounts(forest.params, forest.trees.length, report.trainRows.length);
+  const inBag = report.rows.inBag!;
   const label = path.basename(loaded.path);
   const tSummary = performance.now();
   const features = forest.schema.features.map((f) => findColumn(load.table, f.name)).filter((c): c is Column => !!c);
