@@ -9,7 +9,7 @@ import { loadCsv } from '../../src/core/csv/load';
 import { readHeader } from '../../src/core/csv/header';
 import { fitForest } from '../../src/core/forest/fit';
 import type { Forest } from '../../src/core/forest/forest';
-import { predictTable } from '../../src/core/forest/predict';
+import { encodeTable, predictTable } from '../../src/core/forest/predict';
 import { Scorer } from '../../src/core/forest/scorer';
 import { saveModel } from '../../src/core/model/file';
 import { ModelError, openModelFile } from '../../src/core/model/open';
@@ -40,15 +40,17 @@ async function openAgainst(modelPath: string, csvPath: string, agree = true): Pr
   const named = naming ? nameByHeader(opened.forest, header, naming.target) : opened.forest;
   const load = await loadForForest((o) => loadCsv(csvPath, o), named.schema);
   const imported = named.training.rows === 0;
-  const forest = forestForTable(named, load.table, label);
+  const x = encodeTable(named.schema, load.table, label);
+  const forest = forestForTable(named, load.table, x);
   const scorer = new Scorer(forest);
-  const permutation = await permutationOnTable(forest, load.table, label, load.fingerprint, scorer, 1);
+  const permutation = await permutationOnTable(forest, load.table, x, load.fingerprint, scorer, 1);
   const session = await openedSession({
     forest,
     imported,
     origin: opened.origin,
     modelLabel,
     csv: { path: csvPath, uri: `file://${csvPath}`, load, sampled: false },
+    encoded: x,
     warnings: [],
     permutation,
     scorer,

@@ -3,7 +3,7 @@
 
 import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { knowsTraining, openModelFile, readHeader, Scorer } from '../engine';
+import { encodeTable, knowsTraining, openModelFile, readHeader, Scorer } from '../engine';
 import { guarded, readCsv, requireFile } from '../fit/fitFlow';
 import { showCsv } from '../editor/showCsv';
 import { ForestSession } from '../session/session';
@@ -60,7 +60,9 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
     if (!loaded) return;
     const label = path.basename(loaded.path);
     const imported = !knowsTraining(named);
-    const forest = forestForTable(named, loaded.load.table, label);
+    // Encoded once: for covers, permutation importance and the session alike.
+    const x = encodeTable(named.schema, loaded.load.table, label);
+    const forest = forestForTable(named, loaded.load.table, x);
     const warnings = [...loaded.load.warnings];
     if (loaded.sampled) {
       warnings.push(`Shown against a random sample of ${loaded.load.table.rowCount} of ${loaded.load.rowsRead} rows.`);
@@ -72,7 +74,7 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
       // Rescoring runs in the scorer's thread; the host only shuffles one column at a time.
       const permutation = await vscode.window.withProgress(
         { location: vscode.ProgressLocation.Notification, title: `Copse: measuring permutation importance on ${label}` },
-        () => permutationOnTable(forest, loaded.load.table, label, loaded.load.fingerprint, scorer, ctx.settings().training.seed),
+        () => permutationOnTable(forest, loaded.load.table, x, loaded.load.fingerprint, scorer, ctx.settings().training.seed),
       );
       session = await openedSession({
         forest,
@@ -80,6 +82,7 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
         origin: opened.origin,
         modelLabel,
         csv: { path: loaded.path, uri: csvUri.toString(), load: loaded.load, sampled: loaded.sampled, sampleRows: loaded.sampleRows, sampleSeed: loaded.sampleSeed },
+        encoded: x,
         warnings,
         permutation,
         scorer,

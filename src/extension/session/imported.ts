@@ -5,7 +5,7 @@
 import { readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import type { Forest, LoadResult, ModelOrigin, PermutationImportance, Table } from '../engine';
-import { encodeTable, findColumn, knowsTraining, median, ModelError, nameByPosition, permutationOnRows, withCoverFrom } from '../engine';
+import { findColumn, knowsTraining, median, ModelError, nameByPosition, permutationOnRows, withCoverFrom } from '../engine';
 import { openedSummary } from '../summary/openedSummary';
 import { ExplainClient } from '../workers/explainClient';
 import { UNAVAILABLE_FOR_IMPORT } from './importText';
@@ -61,16 +61,17 @@ export function nameByHeader(forest: Forest, header: readonly string[], target: 
 /**
  * The forest ready for this table. A file without training facts has no covers and no typical values: covers
  * are counted from the table's rows, and each numeric feature's typical value (what maps hold the other
- * features at) is its median in the table.
+ * features at) is its median in the table. `x` is the table in the forest's feature space (encodeTable), which
+ * the caller encodes once for this, permutation importance and the session.
  */
-export function forestForTable(forest: Forest, table: Table, label: string): Forest {
+export function forestForTable(forest: Forest, table: Table, x: Float64Array): Forest {
   if (knowsTraining(forest)) return forest;
   const features = forest.schema.features.map((f) => {
     const column = findColumn(table, f.name);
     return f.kind === 'numeric' && Number.isNaN(f.reference) && column?.kind === 'numeric' ? { ...f, reference: median(column.values) } : f;
   });
   const typical = { ...forest, schema: { ...forest.schema, features } };
-  return withCoverFrom(typical, encodeTable(typical.schema, table, label), table.rowCount);
+  return withCoverFrom(typical, x, table.rowCount);
 }
 
 /**
@@ -81,7 +82,7 @@ export function forestForTable(forest: Forest, table: Table, label: string): For
 export async function permutationOnTable(
   forest: Forest,
   table: Table,
-  label: string,
+  x: Float64Array,
   fingerprint: string,
   scorer: ScorerLike,
   seed: number,
@@ -89,7 +90,6 @@ export async function permutationOnTable(
   if (forest.training.fingerprint !== '' && forest.training.fingerprint === fingerprint) return undefined;
   const truth = truthOf(forest, table);
   if (!truth.some((v) => !Number.isNaN(v))) return undefined;
-  const x = encodeTable(forest.schema, table, label);
   const imp = await permutationOnRows(
     { x, rows: table.rowCount, features: forest.schema.features.length, truth, task: forest.schema.target.task, seed },
     (rows, n) => scorer.predict(rows, n),
@@ -112,6 +112,8 @@ export interface OpenedSessionInput {
     readonly sampleRows?: number;
     readonly sampleSeed?: number;
   };
+  /** The table in the forest's feature space, as forestForTable was given it. */
+  readonly encoded: Float64Array;
   readonly warnings: readonly string[];
   readonly permutation: PermutationImportance | undefined;
   readonly scorer: ScorerLike;
@@ -135,6 +137,7 @@ export function openedSession(i: OpenedSessionInput): Promise<ForestSession> {
       header: csv.load.header,
     },
     table: csv.load.table,
+    encoded: i.encoded,
     text: () => readFileSync(csv.path, 'utf8'),
     summary: ({ prediction, truth }) =>
       openedSummary({

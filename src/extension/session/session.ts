@@ -65,6 +65,8 @@ export interface SessionInit {
   readonly forest: Forest;
   readonly source: SessionSource;
   readonly table: Table;
+  /** The table in the forest's feature space, when the caller has encoded it already. */
+  readonly encoded?: Float64Array;
   /** The CSV's text, read only if rows must be renumbered (see RowNumbering). */
   readonly text: () => string;
   readonly oob?: OobInput;
@@ -169,7 +171,7 @@ export class ForestSession {
   /** Scores the whole table once (in the scorer's thread) and indexes it for hovers and the panel. */
   static async create(init: SessionInit): Promise<ForestSession> {
     const { forest, table } = init;
-    const encoded = encodeTable(forest.schema, table, init.source.label);
+    const encoded = init.encoded ?? encodeTable(forest.schema, table, init.source.label);
     const prediction = await init.scorer.predict(encoded, table.rowCount);
     const truth = truthOf(forest, table);
     let oob: OobPart | undefined;
