@@ -2,7 +2,7 @@
 // ONNX tree ensemble, with a foreign model's positional features named by the data file's columns on request.
 import { readHeader } from '../core/csv/header';
 import type { Forest } from '../core/forest/forest';
-import { nameByPosition, openModelFile, type ModelOrigin } from '../core/model/open';
+import { nameByPosition, openModelFile, targetColumn, type ModelOrigin } from '../core/model/open';
 import { list, flag, UsageError, type Options, type Parsed } from './args';
 
 export const MODEL_OPTIONS: Options = { 'by-position': { type: 'boolean' }, 'leave-out': { type: 'string' } };
@@ -29,8 +29,7 @@ export async function openForData(modelPath: string, dataPath: string, args: Par
     const { header } = await readHeader(dataPath);
     const missing = leaveOut.filter((c) => !header.includes(c));
     if (missing.length) throw new UsageError(`--leave-out: ${dataPath} has no column ${missing.map((c) => `"${c}"`).join(', ')}.`, command);
-    const target = opened.schema.target.name;
-    const skip = leaveOut.length ? leaveOut : header.includes(target) ? [target] : [];
+    const skip = leaveOut.length ? leaveOut : targetColumn(opened, header);
     const p = opened.schema.features.length;
     const left = header.filter((h) => !skip.includes(h));
     if (left.length !== p) {

@@ -58,10 +58,14 @@ export function knowsTraining(forest: Forest): boolean {
  * The forest with its features named by a CSV header's columns in order, leaving out the given columns (by
  * default the forest's target, if the header has it). For a model whose file carries no names; refuses unless exactly as many columns remain.
  */
-export function nameByPosition(forest: Forest, header: readonly string[], leaveOut?: readonly string[]): Forest {
-  const target = forest.schema.target.name;
-  leaveOut ??= header.includes(target) ? [target] : [];
+export function nameByPosition(forest: Forest, header: readonly string[], leaveOut: readonly string[] = targetColumn(forest, header)): Forest {
   return nameFeatures(forest, columnsInOrder(header, forest.schema.features.length, leaveOut));
+}
+
+/** The columns nameByPosition leaves out unless told otherwise: the one named like the forest's target, if any. */
+export function targetColumn(forest: Forest, header: readonly string[]): string[] {
+  const target = forest.schema.target.name;
+  return header.includes(target) ? [target] : [];
 }
 
 export { ModelError };
