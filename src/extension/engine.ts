@@ -42,6 +42,7 @@ export { shuffle, stream } from '../core/forest/rng';
 // Opening models from either file kind, and what an imported forest needs before it can be explained.
 export { openModelFile, isOnnxFile, knowsTraining, nameByPosition, ModelError, type ModelOrigin, type OpenedModel } from '../core/model/open';
 export { saveOnnxFile } from '../core/onnx/save';
+export { writeFileAtomic } from '../core/atomic';
 export { readHeader } from '../core/csv/header';
 export { withCoverFrom } from '../core/forest/cover';
 export { median } from '../core/data/binning';

@@ -1,8 +1,8 @@
 // Reading a CSV to score with a saved forest, and writing the input back out with the forest's answers.
 import { parse } from 'csv-parse';
 import { createReadStream, createWriteStream, promises as fs } from 'node:fs';
-import { randomBytes } from 'node:crypto';
 import * as path from 'node:path';
+import { tempBeside } from '../atomic';
 import { loadCsv } from '../csv/load';
 import type { LoadResult } from '../csv/types';
 import { parserOptions } from '../csv/record-parser';
@@ -96,7 +96,7 @@ export async function writePredictions(input: string, out: string, delimiter: st
   const [a, b] = await Promise.all([fs.realpath(input), fs.realpath(out).catch(() => path.resolve(out))]);
   if (a === b) throw new OverwriteError(`Refusing to write predictions over the input file ${input}; choose another --out.`);
   const eol = await lineEndingOf(input);
-  const tmp = `${out}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`;
+  const tmp = tempBeside(out);
   const sink = createWriteStream(tmp, { flags: 'wx' });
   try {
     const parser = createReadStream(input).pipe(parse({ ...parserOptions(delimiter), raw: true }));

@@ -2,9 +2,9 @@
 // Line 1 holds the format, schema, settings and training facts and says how many trees follow; each further line
 // is one tree. A full-depth forest on millions of rows runs to gigabytes, more than one JavaScript string can
 // hold, so a model is written and read a tree at a time. Version 1 files (one JSON document) are still read.
-import { randomBytes } from 'node:crypto';
 import { closeSync, createReadStream, openSync, promises as fs, rmSync, writeSync } from 'node:fs';
 import { createInterface } from 'node:readline';
+import { tempBeside } from '../atomic';
 import type { ColumnKind, DroppedColumn } from '../data/table';
 import type { Forest, TrainingInfo } from '../forest/forest';
 import { validateParams, type ForestParams } from '../forest/params';
@@ -53,7 +53,7 @@ export class ModelWriter {
   private written = 0;
 
   constructor(private readonly path: string, head: ModelHead, private readonly trees: number) {
-    this.tmp = `${path}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`;
+    this.tmp = tempBeside(path);
     this.fd = openSync(this.tmp, 'wx');
     try {
       this.line(headLine(head, trees));

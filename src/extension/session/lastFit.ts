@@ -8,7 +8,7 @@ import * as path from 'node:path';
 import { isFitSummary, type FitSummary } from '../../protocol/messages';
 import type { Forest } from '../engine';
 import type { FitChoices } from '../fit/choices';
-import { inBagCounts, loadModel, saveModel } from '../engine';
+import { inBagCounts, loadModel, saveModel, writeFileAtomic } from '../engine';
 
 export const LAST_FIT_VERSION = 2;
 
@@ -67,7 +67,7 @@ async function save(dir: string, fit: Fit, meta: Meta): Promise<void> {
   await fs.rm(path.join(dir, META), { force: true });
   await saveModel(path.join(dir, MODEL), fit.forest);
   await fs.rm(path.join(dir, 'inbag.bin'), { force: true }); // kept by version 1
-  await writeAtomic(path.join(dir, META), JSON.stringify(full));
+  await writeFileAtomic(path.join(dir, META), JSON.stringify(full));
 }
 
 /** The saved fit, or undefined when there is none or it does not hang together. */
@@ -102,12 +102,6 @@ function isMeta(m: unknown): m is LastFitMeta {
     typeof v.trees === 'number' &&
     isFitSummary(v.summary)
   );
-}
-
-async function writeAtomic(file: string, data: string | Uint8Array): Promise<void> {
-  const tmp = `${file}.${process.pid}.tmp`;
-  await fs.writeFile(tmp, data);
-  await fs.rename(tmp, file);
 }
 
 export function toBase64(a: Int32Array): string {
