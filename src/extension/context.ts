@@ -32,6 +32,16 @@ export class CopseContext implements vscode.Disposable {
   /** The fit in progress, if any: a second fit waits its turn rather than racing the first. */
   busy: Promise<unknown> | undefined;
 
+  /** Waits for `work`, marked busy until it settles (however it settles). */
+  async whileBusy<T>(work: Promise<T>): Promise<T> {
+    this.busy = work;
+    try {
+      return await work;
+    } finally {
+      this.busy = undefined;
+    }
+  }
+
   constructor(readonly extension: vscode.ExtensionContext) {
     this.log = this.track(vscode.window.createOutputChannel('Copse', { log: true }));
     this.track(this.changed);

@@ -237,12 +237,7 @@ async function runFit(ctx: CopseContext, panel: PanelHost, loaded: LoadedCsv, ch
       }
     },
   ));
-  ctx.busy = work;
-  try {
-    await work;
-  } finally {
-    ctx.busy = undefined;
-  }
+  await ctx.whileBusy(work);
   await showCsv(loaded.path, loaded.bytes);
   panel.reveal(true);
 }

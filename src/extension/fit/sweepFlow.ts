@@ -91,11 +91,9 @@ export class SweepRunner {
         }
       },
     ));
-    ctx.busy = work;
     try {
-      await work;
+      await ctx.whileBusy(work);
     } finally {
-      ctx.busy = undefined;
       this.abort = undefined;
     }
   }
