@@ -2,7 +2,7 @@
 import type { Forest } from '../core/forest/forest';
 import { encodeTable } from '../core/forest/predict';
 import { loadForScoring } from '../core/forest/score-file';
-import { dataRowOf } from '../core/forest/summary';
+import { dataRowOf } from '../core/summary/fit';
 import { list, UsageError, type Parsed } from './args';
 import type { LoadResult } from '../core/csv/types';
 

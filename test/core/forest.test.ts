@@ -119,10 +119,10 @@ describe('forest', () => {
     const planted = [3, 40, 77, 120, 190];
     for (const r of planted) y[r] = y[r] === 'left' ? 'right' : 'left';
     const rep = await fitForest(tableFrom({ x, y }), { target: 'y', params: { trees: 50 }, workers: 2 });
-    const flagged = rep.suspects.map((s) => rep.trainRows[s.row]);
+    const flagged = rep.suspects.map((s) => rep.trainRows[s.index]);
     // Full-depth trees also unsettle a planted row's neighbours a little; the planted rows are the most doubtful.
     assert.deepEqual(flagged.slice(0, planted.length).sort((a, b) => a - b), planted);
-    assert.ok(rep.suspects.slice(0, planted.length).every((s) => s.margin < -0.5));
+    assert.ok(rep.suspects.slice(0, planted.length).every((s) => s.score < -0.5));
   });
 
   it('scores a holdout and a separate test table the same way', async () => {

@@ -3,7 +3,7 @@ import type { LoadOptions } from '../../core/csv/types';
 import type { ColumnKind } from '../../core/data/table';
 import { fitForest } from '../../core/forest/fit';
 import { parseFeaturesPerSplit, type ForestParams } from '../../core/forest/params';
-import { summarizeFit } from '../../core/forest/summary';
+import { summarizeFit } from '../../core/summary/fit';
 import { ModelWriter } from '../../core/model/file';
 import { choice, flag, fraction, list, parse, text, UsageError, wholeNumber, type Options } from '../args';
 import { progressBar } from '../progress';

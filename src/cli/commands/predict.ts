@@ -3,7 +3,7 @@ import { predictInterval, quantileIndexFromTrainingFile } from '../../core/expla
 import { predictInWorkers } from '../../core/forest/parallel-predict';
 import { encodeTable } from '../../core/forest/predict';
 import { loadForScoring, predictionColumns, writePredictions, type IntervalCells } from '../../core/forest/score-file';
-import { dataRowOf } from '../../core/forest/summary';
+import { dataRowOf } from '../../core/summary/fit';
 import { knowsTraining } from '../../core/model/open';
 import { flag, fraction, parse, text, UsageError, type Options } from '../args';
 import { MODEL_HELP, MODEL_OPTIONS, openForData } from '../model';

@@ -6,7 +6,8 @@
 import { loadCsv } from '../csv/load';
 import { findColumn, type Table } from '../data/table';
 import { inBagCounts } from '../forest/bootstrap';
-import { splitRows, type FitReport } from '../forest/fit';
+import type { FitReport } from '../forest/fit';
+import { trainingRowsIn } from '../forest/membership';
 import type { Forest } from '../forest/forest';
 import { encodeTable, leafOf, levelCounts } from '../forest/predict';
 import { encodeTarget, targetOf } from '../forest/target';
@@ -134,23 +135,19 @@ export function quantileIndexFromFit(report: FitReport, table: Table): QuantileI
  * the holdout, which is recovered from the row count the model records.
  */
 export function quantileIndexFromTrainingTable(forest: Forest, table: Table): QuantileIndex {
-  const { schema, params } = forest;
+  const { schema } = forest;
   const column = findColumn(table, schema.target.name);
   if (!column) throw new TrainingMismatchError(`The training data has no column "${schema.target.name}", the forest's target.`);
   if (column.kind !== 'numeric') throw new TrainingMismatchError(`The column "${schema.target.name}" is not numeric here, so this is not the data the forest was fitted on.`);
-  const encoded = encodeTarget(column, 'regression');
-  const n = forest.training.rows;
-  if (encoded.rows.length < n) {
-    throw new TrainingMismatchError(`The forest was fitted on ${n} rows; this data has only ${encoded.rows.length} with a target.`);
-  }
-  const { train } = splitRows(encoded.rows, encoded.rows.length - n, params.seed);
-  const y = targetOf(encoded, train);
-  const inBag = inBagCounts(params, forest.trees.length, n);
+  const rows = trainingRowsIn(forest, table, null);
+  if ('unknown' in rows) throw new TrainingMismatchError(`This is not the forest's training data: ${rows.unknown}.`);
+  const n = rows.trainRows.length;
+  const y = targetOf(encodeTarget(column, 'regression'), rows.trainRows);
   const p = schema.features.length;
   const all = encodeTable(schema, table, 'the training data');
   const x = new Float64Array(n * p);
-  train.forEach((r, i) => x.set(all.subarray(r * p, r * p + p), i * p));
-  return buildQuantileIndex(forest, { y, inBag, leaves: trainingLeaves(forest, x, n) });
+  rows.trainRows.forEach((r, i) => x.set(all.subarray(r * p, r * p + p), i * p));
+  return buildQuantileIndex(forest, { y, inBag: rows.inBag, leaves: trainingLeaves(forest, x, n) });
 }
 
 export interface TrainingFileOptions {

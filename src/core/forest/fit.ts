@@ -1,5 +1,6 @@
 // Fits a forest on a table: prepares the binned training data, grows the trees in worker threads, and folds
 // their results in tree order into out-of-bag predictions, the error curve, importances and margins.
+import type { Doubt } from './doubtful';
 import { binColumns, describeFeatures } from '../data/binning';
 import { findColumn, type DroppedColumn, type Table } from '../data/table';
 import { classificationScores, regressionScores, type Scores } from '../metrics/scores';
@@ -70,7 +71,8 @@ export interface FitReport {
   readonly testPrediction?: Prediction;
   readonly curve: Float64Array;
   readonly importance: Importance;
-  readonly suspects: ReadonlyArray<{ row: number; margin: number }>;
+  /** Training rows the forest doubts (index: the training row), most doubtful first. */
+  readonly suspects: readonly Doubt[];
   readonly notes: readonly string[];
   readonly seconds: { fit: number };
 }
@@ -121,7 +123,7 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
     permutationRows: DEFAULT_PERMUTATION_ROWS,
   };
 
-  const head: ModelHead = { schema, params, training: { rows: n, fingerprint: options.fingerprint ?? '', dropped: [...(options.dropped ?? [])] } };
+  const head: ModelHead = { schema, params, training: { rows: n, fingerprint: options.fingerprint ?? '', heldOut: holdout?.length ?? 0, dropped: [...(options.dropped ?? [])] } };
   const keepTrees = options.keepTrees ?? true;
   if (!keepTrees && (holdout || options.test)) throw new RangeError('Scoring a holdout or test set needs the trees kept.');
   const fold = new OobFold(task, n, K, params.trees, trainY, infos.length, options.keepInBag);

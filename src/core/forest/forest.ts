@@ -8,6 +8,8 @@ export interface TrainingInfo {
   readonly rows: number;
   /** sha256 of the training file's bytes (empty when fitted from memory). */
   readonly fingerprint: string;
+  /** Rows with a target that the fit held out of training; absent in files written before it was recorded. */
+  readonly heldOut?: number;
   readonly dropped: readonly DroppedColumn[];
 }
 

@@ -3,7 +3,9 @@
 // bootstrap draw are used as it arrives and dropped, unless the caller asks to keep the draws (inBagCounts
 // draws them again from the seed otherwise).
 import { argmaxAt, classificationScores, regressionScores, type Scores } from '../metrics/scores';
+import { doubtfulByMargin, doubtfulByResidual, type Doubt } from './doubtful';
 import type { TreeResult } from './grow-task';
+import { voteMargin } from './row-votes';
 import type { Task } from './params';
 
 export interface RowResults {
@@ -118,21 +120,11 @@ export class OobFold {
     return { ...common, oobProba, margin: this.margins() };
   }
 
-  /** Breiman's margin: share of out-of-bag votes for the true class minus the largest share for another class. */
+  /** Breiman's margin over each row's out-of-bag votes (see voteMargin). */
   private margins(): Float64Array {
     const { n, K, voteCounts: counts } = this;
     const margin = new Float64Array(n);
-    for (let i = 0; i < n; i++) {
-      const total = this.oobTrees[i];
-      if (!total) {
-        margin[i] = NaN;
-        continue;
-      }
-      const y = this.truth[i];
-      let other = 0;
-      for (let k = 0; k < K; k++) if (k !== y && counts[i * K + k] > other) other = counts[i * K + k];
-      margin[i] = (counts[i * K + y] - other) / total;
-    }
+    for (let i = 0; i < n; i++) margin[i] = voteMargin(counts.subarray(i * K, i * K + K), this.truth[i], this.oobTrees[i]);
     return margin;
   }
 
@@ -153,14 +145,9 @@ export class OobFold {
     return { impurity, permutation, permutationSpread };
   }
 
-  /** Training rows with a negative out-of-bag margin, most doubtful first: possible label errors. */
-  suspects(): Array<{ row: number; margin: number }> {
-    if (this.task !== 'classification') return [];
-    const margin = this.rows().margin!;
-    const out: Array<{ row: number; margin: number }> = [];
-    margin.forEach((m, row) => {
-      if (m < 0) out.push({ row, margin: m });
-    });
-    return out.sort((a, b) => a.margin - b.margin || a.row - b.row);
+  /** Training rows the forest doubts, most doubtful first (see doubtful.ts); index is the training row. */
+  suspects(): Doubt[] {
+    const rows = this.rows();
+    return this.task === 'classification' ? doubtfulByMargin(rows.margin!) : doubtfulByResidual(this.truth, rows.oobValue!).rows;
   }
 }

@@ -28,6 +28,26 @@ export interface Prediction {
   readonly agreement?: Float64Array;
   /** regression: standard deviation of the trees' values. */
   readonly spread?: Float64Array;
+  /** Scored with a membership: the same over each training row's out-of-bag trees only (NaN: none left it out). */
+  readonly oob?: OutOfBagPrediction;
+}
+
+export interface OutOfBagPrediction {
+  /** classification: rows * K, probabilities averaged over the out-of-bag trees. */
+  readonly proba?: Float64Array;
+  /** Class code or mean value; NaN outside training or where every tree drew the row. */
+  readonly predicted: Float64Array;
+  /** Out-of-bag trees per row (0 outside training). */
+  readonly trees: Int32Array;
+}
+
+/** Which rows of a scored table the forest trained on, and how many times each tree drew them. */
+export interface Membership {
+  /** Per table row: its index among the training rows, or -1. */
+  readonly trainPos: Int32Array;
+  readonly trainCount: number;
+  /** Tree-major: inBag[t * trainCount + i]; 0 means tree t never drew training row i. */
+  readonly inBag: Uint8Array;
 }
 
 export function voteArray(classification: boolean, classes: number, length: number): Uint8Array | Uint16Array | Float32Array {
@@ -107,7 +127,8 @@ export function levelCounts(schema: Schema): Int32Array {
   return Int32Array.from(schema.features.map((f) => (f.kind === 'numeric' ? 0 : (f.levels?.length ?? 0))));
 }
 
-export function predictEncoded(forest: Forest, x: ArrayLike<number>, rows: number): Prediction {
+/** Scores rows with every tree; with a membership, also with each training row's out-of-bag trees in the same walk. */
+export function predictEncoded(forest: Forest, x: ArrayLike<number>, rows: number, membership?: Membership): Prediction {
   const { schema, trees } = forest;
   const p = schema.features.length;
   const classification = schema.target.task === 'classification';
@@ -117,6 +138,8 @@ export function predictEncoded(forest: Forest, x: ArrayLike<number>, rows: numbe
   const votes = voteArray(classification, K, T * rows);
   const sums = new Float64Array(rows * K);
   const sq = classification ? null : new Float64Array(rows);
+  const oobSums = membership ? new Float64Array(rows * K) : undefined;
+  const oobTrees = membership ? new Int32Array(rows) : undefined;
   for (let t = 0; t < T; t++) {
     const tree = trees[t];
     const base = t * rows;
@@ -132,8 +155,15 @@ export function predictEncoded(forest: Forest, x: ArrayLike<number>, rows: numbe
         sq![i] += v * v;
         votes[base + i] = v;
       }
+      if (membership) {
+        const pos = membership.trainPos[i];
+        if (pos < 0 || membership.inBag[t * membership.trainCount + pos] !== 0) continue;
+        oobTrees![i]++;
+        for (let k = 0; k < K; k++) oobSums![i * K + k] += tree.value[leaf * K + k];
+      }
     }
   }
+  const oob = membership ? outOfBagPart(oobSums!, oobTrees!, rows, K, classification) : undefined;
   const predicted = new Float64Array(rows);
   if (classification) {
     const agreement = new Float64Array(rows);
@@ -141,7 +171,7 @@ export function predictEncoded(forest: Forest, x: ArrayLike<number>, rows: numbe
     for (let i = 0; i < rows; i++) predicted[i] = argmaxAt(sums, i * K, K);
     for (let t = 0; t < T; t++) for (let i = 0; i < rows; i++) if (votes[t * rows + i] === predicted[i]) agreement[i]++;
     for (let i = 0; i < rows; i++) agreement[i] /= T;
-    return { rows, proba: sums, predicted, votes, agreement };
+    return { rows, proba: sums, predicted, votes, agreement, oob };
   }
   const spread = new Float64Array(rows);
   for (let i = 0; i < rows; i++) {
@@ -149,7 +179,17 @@ export function predictEncoded(forest: Forest, x: ArrayLike<number>, rows: numbe
     predicted[i] = m;
     spread[i] = Math.sqrt(Math.max(0, sq![i] / T - m * m));
   }
-  return { rows, value: predicted, predicted, votes, spread };
+  return { rows, value: predicted, predicted, votes, spread, oob };
+}
+
+function outOfBagPart(sums: Float64Array, trees: Int32Array, rows: number, K: number, classification: boolean): OutOfBagPrediction {
+  const predicted = new Float64Array(rows).fill(NaN);
+  for (let i = 0; i < rows; i++) {
+    if (!trees[i]) continue;
+    for (let k = 0; k < K; k++) sums[i * K + k] /= trees[i];
+    predicted[i] = classification ? argmaxAt(sums, i * K, K) : sums[i];
+  }
+  return { proba: classification ? sums : undefined, predicted, trees };
 }
 
 export function predictTable(forest: Forest, table: Table, label?: string): Prediction {

@@ -3,7 +3,7 @@ import { Worker } from 'node:worker_threads';
 import type { Forest } from './forest';
 import { workerScript } from './pool';
 import { sharedForest } from './shared';
-import type { Prediction } from './predict';
+import type { Membership, Prediction } from './predict';
 
 type Reply = { id: number; ok: true; prediction: Prediction } | { id: number; ok: false; error: string };
 
@@ -29,13 +29,14 @@ export class Scorer {
     this.worker.unref();
   }
 
-  predict(x: Float64Array, rows: number): Promise<Prediction> {
+  /** Scores rows; with a membership, each training row's out-of-bag answer too (see predictEncoded). */
+  predict(x: Float64Array, rows: number, membership?: Membership): Promise<Prediction> {
     if (this.failed) return Promise.reject(this.failed);
     const id = this.nextId++;
     return new Promise<Prediction>((resolve, reject) => {
       this.waiting.set(id, { resolve, reject });
       this.worker.ref();
-      this.worker.postMessage({ id, x, rows });
+      this.worker.postMessage({ id, x, rows, membership });
     }).finally(() => {
       if (this.waiting.size === 0) this.worker.unref();
     });

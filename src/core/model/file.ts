@@ -211,6 +211,10 @@ function readHead(r: Reader, doc: Record<string, Json>): ModelHead {
     fingerprint: r.string(r.field(training, 'fingerprint', 'training'), 'training.fingerprint'),
     dropped,
   };
+  // Written since the fit began recording it; older files leave it to be inferred (see membership.ts).
+  if (Object.prototype.hasOwnProperty.call(training, 'heldOut')) {
+    return { schema, params, training: { ...info, heldOut: r.integer(r.field(training, 'heldOut', 'training'), 'training.heldOut', 0) } };
+  }
   return { schema, params, training: info };
 }
 

@@ -3,8 +3,10 @@ import * as assert from 'node:assert/strict';
 import * as path from 'node:path';
 import { loadCsv } from '../../src/core/csv/load';
 import type { Column } from '../../src/core/data/table';
-import { cautions, sampleRows, singleFeatureScore, type CautionInput } from '../../src/extension/summary/warnings';
-import { FIXTURES } from './helpers';
+import { cautions, type CautionInput } from '../../src/core/checks/cautions';
+import { singleFeatureScore } from '../../src/core/checks/single-feature';
+import { sampleRows } from '../../src/core/data/sample';
+import { FIXTURES } from '../extension/helpers';
 
 function rng(seed: number): () => number {
   let s = seed >>> 0 || 1;
@@ -41,7 +43,7 @@ describe('extension cautions', () => {
     const out = cautions(input([noise, copy], truth));
     const leak = out.filter((c) => c.kind === 'leakage');
     assert.equal(leak.length, 1);
-    assert.equal(leak[0].feature, 'outcome_code');
+    assert.equal(leak[0].column, 'outcome_code');
     assert.match(leak[0].message, /"outcome_code" alone predicts "y"/);
   });
 
@@ -82,7 +84,7 @@ describe('extension cautions', () => {
     const out = cautions(input([noise, a, numeric('b', truth.map(() => r()))], truth, { permutation: Float64Array.from([0.001, 0.3, -0.002]) }));
     const dom = out.filter((c) => c.kind === 'leakage');
     assert.equal(dom.length, 1);
-    assert.equal(dom[0].feature, 'a');
+    assert.equal(dom[0].column, 'a');
     // 0.3 of the 0.301 positive total.
     assert.match(dom[0].message, /carries 99\.7% of the permutation importance/);
   });
@@ -109,7 +111,7 @@ describe('extension cautions', () => {
   it('checks regression leakage by held-back R²', () => {
     const y = truth.map(() => r() * 100);
     const out = cautions({ ...input([noise, numeric('y_copy', y.map((v) => v + r() * 0.01))], y), task: 'regression', classes: [] });
-    assert.deepEqual(out.filter((c) => c.kind === 'leakage').map((c) => c.feature), ['y_copy']);
+    assert.deepEqual(out.filter((c) => c.kind === 'leakage').map((c) => c.column), ['y_copy']);
   });
 
   it('draws a reproducible sample without repeats', () => {

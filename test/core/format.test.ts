@@ -1,5 +1,5 @@
 import * as assert from 'node:assert/strict';
-import { formatBytes, formatNumber, formatSeconds, formatShare } from '../../src/extension/format';
+import { formatBytes, formatNumber, formatSeconds, formatShare } from '../../src/core/format';
 
 describe('extension number formatting', () => {
   it('shows shares as the panel does: a percentage with one decimal', () => {
