@@ -1,5 +1,6 @@
 #!/usr/bin/python3
-"""Writes the open datasets under test/fixtures/open/ as plain CSV.
+"""Writes the open datasets under test/fixtures/open/ that scikit-learn ships, as plain CSV.
+(Those from R's MASS package are written by scripts/export_mass_datasets.R.)
 
 Run with Debian's Python (/usr/bin/python3), which has scikit-learn. The data come from the copies
 that Debian's python3-sklearn ships inside the package (sklearn/datasets/data); the load_* functions
@@ -65,8 +66,6 @@ def main():
                    ["sepal_length", "sepal_width", "petal_length", "petal_width"])
 
     classification("wine.csv", datasets.load_wine(), "cultivar")
-
-    classification("breast_cancer.csv", datasets.load_breast_cancer(), "diagnosis")
 
     # scaled=False gives the measurements as Efron et al. published them (age in years, sex coded
     # 1/2, ...) instead of sklearn's centred and scaled copy; trees do not care about scale, and the

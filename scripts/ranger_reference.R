@@ -28,7 +28,7 @@ TOP_K <- 3
 datasets <- list(
   list(key = "iris", file = "iris.csv", target = "species", task = "classification"),
   list(key = "wine", file = "wine.csv", target = "cultivar", task = "classification"),
-  list(key = "breastCancer", file = "breast_cancer.csv", target = "diagnosis", task = "classification"),
+  list(key = "pima", file = "pima.csv", target = "type", task = "classification"),
   list(key = "diabetes", file = "diabetes.csv", target = "progression", task = "regression"),
   list(key = "friedman1", file = "friedman1.csv", target = "y", task = "regression")
 )

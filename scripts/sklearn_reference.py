@@ -52,7 +52,7 @@ DATASETS = [
     # (file, target, task)
     ("iris.csv", "species", "classification"),
     ("wine.csv", "cultivar", "classification"),
-    ("breast_cancer.csv", "diagnosis", "classification"),
+    ("pima.csv", "type", "classification"),
     ("diabetes.csv", "progression", "regression"),
     ("friedman1.csv", "y", "regression"),
 ]

@@ -46,7 +46,7 @@ function topK(names: string[], values: Float64Array, k: number): string[] {
   return names.map((n, i) => [n, values[i]] as const).sort((a, b) => b[1] - a[1]).slice(0, k).map(([n]) => n);
 }
 
-for (const name of ['iris', 'wine', 'breastCancer', 'diabetes', 'friedman1']) {
+for (const name of ['iris', 'wine', 'pima', 'diabetes', 'friedman1']) {
   describe(`${name}: against scikit-learn ${sklearn.sklearnVersion} and ranger ${ranger.rangerVersion}`, function () {
     this.timeout(300000);
     const ref: Ref = sklearn.datasets[name];

@@ -54,13 +54,17 @@ describe('csv open datasets', () => {
     assertSameAsPandas(r, file);
   });
 
-  it('breast cancer: 569 rows x 30 numeric features, 212 malignant / 357 benign (Street et al. 1993), cells as pandas reads them', async () => {
-    const file = join(OPEN, 'breast_cancer.csv');
-    const r = await loadCsv(file, { target: 'diagnosis' });
-    assert.equal(r.table.rowCount, 569);
-    const d = texts(r, 'diagnosis');
-    assert.equal(d.filter((x) => x === 'malignant').length, 212);
-    assert.equal(d.filter((x) => x === 'benign').length, 357);
+  it('Pima: 532 rows (Pima.tr 200 then Pima.te 332, MASS help page) x 7 numeric columns, type No 355 / Yes 177 as MASS 7.3-58.2 holds them, cells as pandas reads them', async () => {
+    const file = join(OPEN, 'pima.csv');
+    const r = await loadCsv(file, { target: 'type' });
+    assert.equal(r.table.rowCount, 532);
+    assert.deepEqual(kinds(r), { npreg: 'numeric', glu: 'numeric', bp: 'numeric', skin: 'numeric', bmi: 'numeric', ped: 'numeric', age: 'numeric', type: 'boolean' });
+    // No/Yes is one of the pairs the loader reads as a boolean column (src/core/csv/infer.ts).
+    const type = texts(r, 'type');
+    assert.deepEqual(['No', 'Yes'].map((c) => type.filter((x) => x === c).length), [355, 177]);
+    // table(Pima.tr$type) in MASS 7.3-58.2: the first 200 rows are the training frame, unchanged.
+    assert.deepEqual(['No', 'Yes'].map((c) => type.slice(0, 200).filter((x) => x === c).length), [132, 68]);
+    assert.deepEqual(r.dropped, []);
     assertSameAsPandas(r, file);
   });
 

@@ -26,7 +26,7 @@ const PYTHON = '/usr/bin/python3';
 const cases = [
   { name: 'iris', file: 'test/fixtures/open/iris.csv', target: 'species' },
   { name: 'wine', file: 'test/fixtures/open/wine.csv', target: 'cultivar' },
-  { name: 'breast cancer (two classes)', file: 'test/fixtures/open/breast_cancer.csv', target: 'diagnosis' },
+  { name: 'Pima (two classes)', file: 'test/fixtures/open/pima.csv', target: 'type' },
   { name: 'diabetes', file: 'test/fixtures/open/diabetes.csv', target: 'progression' },
   { name: 'kite flights (categorical and boolean columns)', file: 'demo/kite-flights.csv', target: 'outcome' },
 ];
