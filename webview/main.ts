@@ -32,6 +32,8 @@ import { onThemeChange, readTheme, type Theme } from './theme';
 export const CAUTION =
   'A quick forest is an exploratory model: validate it before any decision that affects people, and follow local rules and qualified review where health, money or safety are at stake.';
 
+/** The fit the panel shows; messages about any other are dropped. */
+let fit: string | null = null;
 let summary: FitSummary | null = null;
 let map: RegionMap | null = null;
 let matrix: RegionMap[] = [];
@@ -150,23 +152,35 @@ function showSummary(s: FitSummary): void {
 }
 
 function persist(): void {
-  const state: PanelState = { version: PROTOCOL_VERSION, summary, map, matrix, suspects, choice: mapView.choice() };
+  const state: PanelState = { version: PROTOCOL_VERSION, fit, summary, map, matrix, suspects, choice: mapView.choice() };
   saveState(state);
 }
 
+/** A new fit: everything drawn for the previous forest would now mislead, so every section starts empty. */
+function startFit(id: string): void {
+  fit = id;
+  map = null;
+  matrix = [];
+  suspects = [];
+  importanceView.reset();
+  sweepView.reset();
+  mapView.reset();
+  matrixView.setMaps([]);
+  suspectsView.setRows([]);
+  votesView.setRows([]);
+  window.scrollTo(0, 0);
+}
+
 function handle(msg: HostToPanel): void {
+  // A slow answer about an earlier fit (or a restored panel's stale one) must not be drawn into this one.
+  if (msg.type === 'summary') {
+    if (msg.fit !== fit) startFit(msg.summary.fit);
+  } else if (msg.fit !== fit && !(msg.type === 'status' && msg.fit === null)) {
+    return;
+  }
   switch (msg.type) {
     case 'summary':
-      // A summary starts a new fit: anything drawn for the previous forest would now mislead.
-      map = null;
-      matrix = [];
-      suspects = [];
-      importanceView.reset();
-      sweepView.reset();
       showSummary(msg.summary);
-      matrixView.setMaps([]);
-      suspectsView.setRows([]);
-      votesView.setRows([]);
       break;
     case 'regionMap':
       map = msg.map;
@@ -218,6 +232,7 @@ onThemeChange(applyTheme);
 
 const restored = loadState();
 if (restored) {
+  fit = restored.fit;
   if (restored.summary) showSummary(restored.summary);
   if (restored.map) {
     map = restored.map;

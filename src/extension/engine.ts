@@ -48,3 +48,17 @@ export { withCoverFrom } from '../core/forest/cover';
 export { median } from '../core/data/binning';
 export { permutationOnRows, type PermutationImportance } from '../core/explain/permutation';
 export { csvLine } from '../core/csv/write';
+// Numbers as every surface writes them, the cautions every fit carries, and per-row answers.
+export { formatBytes, formatNumber, formatSeconds, formatShare } from '../core/format';
+export { cautions, type Caution, type CautionKind } from '../core/checks/cautions';
+export { sampleRows } from '../core/data/sample';
+export { RowVotes, membershipOf, targetTolerance, voteEntropy, voteMargin, type GroupAnswer, type RowAnswer, type RowRole, type VoteTally } from '../core/forest/row-votes';
+export type { Membership } from '../core/forest/predict';
+export type { FitSummary as CoreFitSummary, ScoresSummary as CoreScoresSummary, SuspectRow as CoreSuspectRow } from '../core/summary/types';
+export { summarizeFit } from '../core/summary/fit';
+export { summarizeOpened } from '../core/summary/opened';
+export { trainingRowsIn, type TrainingRows } from '../core/forest/membership';
+export { doubtfulByMargin, doubtfulByResidual, type Doubt } from '../core/forest/doubtful';
+export { impurityFromTrees } from '../core/explain/impurity';
+export { cellsFromAverages, GridAccumulator, gridBatches, planAxis, rankFeatures, topPairs, type GridPlan } from '../core/explain/region-grid';
+export { targetCodes } from '../core/forest/target';

@@ -1,7 +1,7 @@
 // The status bar item's words for a fit summary. Pure, so the wording is tested without an editor.
 
 import type { FitSummary } from '../protocol/messages';
-import { formatShare } from './format';
+import { formatShare } from './engine';
 
 /** Text and tooltip for a summary. */
 export function statusText(s: FitSummary): { text: string; tooltip: string } {

@@ -144,6 +144,12 @@ export class RegionMapView {
     if (!this.map && a && b) this.setPickers(a.name, b.name);
   }
 
+  /** Forgets the map of an earlier fit, so its feature pair is not kept against the next fit's features. */
+  reset(): void {
+    this.map = null;
+    this.draw();
+  }
+
   setMap(map: RegionMap): void {
     this.map = map;
     this.setPickers(map.x.feature, map.y.feature);

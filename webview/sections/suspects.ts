@@ -43,9 +43,11 @@ export class SuspectsView {
     if (!summary || !theme) return;
     if (this.rows.length === 0) {
       const text =
-        summary.task === 'classification'
-          ? 'None: for every training row, the trees that did not see it voted mostly for its own label.'
-          : 'None listed for this fit.';
+        summary.suspectCount === null
+          ? 'Not known for this forest: it takes the votes of the trees that never saw each row.'
+          : summary.task === 'classification'
+            ? 'None: for every training row, the trees that did not see it voted mostly for its own label.'
+            : 'None: every training row lies within 3.5 robust standard deviations of what the trees that never saw it predict.';
       append(this.root, h('p', { class: 'muted' }, text));
       return;
     }
@@ -58,7 +60,7 @@ export class SuspectsView {
         h('td', {}, h('button', { class: 'row-link', attrs: { type: 'button' }, title: 'Show this row in the editor' }, `Row ${r.row}`)),
         h('td', {}, swatch(theme, classification, r.label), say(r.label)),
         h('td', {}, swatch(theme, classification, r.oobPredicted), say(r.oobPredicted)),
-        h('td', { class: 'num' }, fixed(r.margin, 2)),
+        h('td', { class: 'num' }, fixed(r.score, classification ? 2 : 1)),
       );
       tr.dataset.row = String(r.row);
       return tr;
@@ -68,11 +70,17 @@ export class SuspectsView {
       h(
         'table',
         { class: 'suspect-table' },
-        h('thead', {}, h('tr', {}, h('th', {}, 'row'), h('th', {}, 'label'), h('th', {}, 'out-of-bag vote'), h('th', { class: 'num', title: 'Share of out-of-bag trees voting for the label minus the largest share for any other class' }, 'margin'))),
+        h('thead', {}, h('tr', {}, h('th', {}, 'row'), h('th', {}, 'label'), h('th', {}, classification ? 'out-of-bag vote' : 'out-of-bag prediction'), scoreHeader(classification))),
         h('tbody', {}, ...body),
       ),
     );
   }
+}
+
+function scoreHeader(classification: boolean): HTMLElement {
+  return classification
+    ? h('th', { class: 'num', title: 'Share of out-of-bag trees voting for the label minus the largest share for any other class' }, 'margin')
+    : h('th', { class: 'num', title: 'Label minus out-of-bag prediction, in robust standard deviations of all out-of-bag residuals' }, 'z');
 }
 
 function swatch(theme: Theme, classification: boolean, k: number): HTMLElement | null {

@@ -20,6 +20,8 @@ export interface PermutationInput {
   readonly repeats?: number;
   /** Labelled rows used at most (a seeded sample beyond that), to bound the rescoring. */
   readonly maxRows?: number;
+  /** Stops between shuffles (an AbortError) when aborted. */
+  readonly signal?: AbortSignal;
 }
 
 export interface PermutationImportance {
@@ -70,6 +72,7 @@ export async function permutationOnRows(input: PermutationInput, score: ScoreRow
   for (let f = 0; f < p; f++) {
     const column = Float64Array.from({ length: n }, (_, i) => x[i * p + f]);
     for (let k = 0; k < repeats; k++) {
+      input.signal?.throwIfAborted();
       for (let i = 0; i < n; i++) order[i] = i;
       // One stream per (feature, repeat): a feature's figure does not depend on how many others there are.
       shuffle(order, stream(seed, 'permutation', f * repeats + k));

@@ -6,6 +6,7 @@
 //
 // Everything here reads the flat arrays core's scoring produced, so a hover costs O(trees).
 
+import { doubtfulByMargin, doubtfulByResidual, type Doubt } from './doubtful';
 import type { Task } from './params';
 import type { Membership, Prediction } from './predict';
 
@@ -163,6 +164,19 @@ export class RowVotes {
       tally,
       agreement: trees.length ? near / trees.length : NaN,
     };
+  }
+
+  /**
+   * The training rows the forest doubts, most doubtful first (see doubtful.ts); a Doubt's index is the position
+   * in `trainRows` (table rows, in training order). Empty without a membership.
+   */
+  doubtful(trainRows: Int32Array): Doubt[] {
+    const oob = this.prediction.oob;
+    if (!this.membership || !oob) return [];
+    const truth = Float64Array.from(trainRows, (r) => (this.truth ? this.truth[r] : NaN));
+    if (this.task === 'regression') return doubtfulByResidual(truth, Float64Array.from(trainRows, (r) => oob.predicted[r])).rows;
+    const margin = Float64Array.from(trainRows, (r) => this.answer(r).margin ?? NaN);
+    return doubtfulByMargin(margin);
   }
 
   tally(r: number, trees: readonly number[]): VoteTally {

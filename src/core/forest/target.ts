@@ -1,5 +1,6 @@
 // Turns the target column into class codes or values, and decides the task when the user has not.
-import { cellText, type Column } from '../data/table';
+import { cellText, findColumn, type Column, type Table } from '../data/table';
+import type { Forest } from './forest';
 import type { Task } from './params';
 
 /** Few distinct integers in a numeric column read as class labels (common practice; the user can override). */
@@ -63,4 +64,22 @@ export function targetOf(encoded: EncodedTarget, rows: Int32Array): Float64Array
     if (i < 0) throw new RangeError(`Row ${r} has no target value.`);
     return y[i];
   });
+}
+
+/** The table's own target per row in the forest's codes (NaN: missing, absent, or a class the forest never saw). */
+export function targetCodes(forest: Forest, table: Table): Float64Array {
+  const target = forest.schema.target;
+  const col = findColumn(table, target.name);
+  const out = new Float64Array(table.rowCount).fill(NaN);
+  if (!col) return out;
+  if (target.task === 'regression') {
+    if (col.kind === 'numeric') out.set(col.values);
+    return out;
+  }
+  const code = new Map((target.classes ?? []).map((c, k) => [c, k]));
+  for (let i = 0; i < table.rowCount; i++) {
+    const k = code.get(cellText(col, i));
+    if (k !== undefined) out[i] = k;
+  }
+  return out;
 }

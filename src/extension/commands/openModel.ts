@@ -3,11 +3,11 @@
 
 import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { encodeTable, knowsTraining, openModelFile, readHeader, Scorer } from '../engine';
+import { encodeTable, knowsTraining, openModelFile, readHeader, Scorer, trainingRowsIn } from '../engine';
 import { guarded, readCsv, requireFile } from '../fit/fitFlow';
 import { showCsv } from '../editor/showCsv';
 import { ForestSession } from '../session/session';
-import { forestForTable, nameByHeader, openedSession, permutationOnTable, positionalNaming } from '../session/imported';
+import { forestForTable, nameByHeader, openedSession, permutationOnTable, permutationSkipped, positionalNaming } from '../session/imported';
 import { COMMANDS, type Host } from './host';
 
 export function registerOpenModel(host: Host): vscode.Disposable {
@@ -71,11 +71,23 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
     const started = performance.now();
     let session: ForestSession;
     try {
-      // Rescoring runs in the scorer's thread; the host only shuffles one column at a time.
-      const permutation = await vscode.window.withProgress(
-        { location: vscode.ProgressLocation.Notification, title: `Copse: measuring permutation importance on ${label}` },
-        () => permutationOnTable(forest, loaded.load.table, x, loaded.load.fingerprint, scorer, ctx.settings().training.seed),
-      );
+      const table = loaded.load.table;
+      const training = trainingRowsIn(forest, table, loaded.load.fingerprint);
+      const permutationMissing = permutationSkipped(forest, table, loaded.load.fingerprint);
+      // Rescoring runs in the scorer's thread; the host only shuffles one column at a time. Cancelling skips it.
+      const permutation = permutationMissing
+        ? undefined
+        : await vscode.window.withProgress(
+            { location: vscode.ProgressLocation.Notification, title: `Copse: measuring permutation importance on ${label}`, cancellable: true },
+            (_progress, token) => {
+              const stop = new AbortController();
+              token.onCancellationRequested(() => stop.abort());
+              return permutationOnTable(forest, table, x, scorer, ctx.settings().training.seed, stop.signal).catch((e: unknown) => {
+                if (stop.signal.aborted) return undefined;
+                throw e;
+              });
+            },
+          );
       session = await openedSession({
         forest,
         imported,
@@ -85,6 +97,8 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
         encoded: x,
         warnings,
         permutation,
+        permutationMissing: permutation || permutationMissing ? permutationMissing : 'not measured: cancelled while it was being measured.',
+        training,
         scorer,
         intervalLevel: ctx.settings().explain.intervalLevel,
       });

@@ -1,7 +1,6 @@
 // The hover for one CSV row, as Markdown. Pure: the editor seam wraps it in a trusted MarkdownString.
 
-import type { RowAnswer, VoteTally } from '../session/rowStore';
-import { formatNumber, formatShare } from '../format';
+import { formatNumber, formatShare, type GroupAnswer, type RowAnswer, type VoteTally } from '../engine';
 import { UNAVAILABLE_FOR_IMPORT } from '../session/importText';
 
 export interface HoverContext {
@@ -23,6 +22,8 @@ export interface HoverContext {
   readonly standing?: string;
   /** The row's 1-based line, named when its data row number is not known (dataRow 0). */
   readonly line?: number;
+  /** Set when the forest's training rows are not known here (a saved forest against a file read differently). */
+  readonly membershipUnknown?: boolean;
 }
 
 /** Show at most this many classes in the vote table; the rest are summed so wide targets stay readable. */
@@ -30,18 +31,21 @@ const MAX_CLASS_COLUMNS = 6;
 
 export function hoverMarkdown(a: RowAnswer, ctx: HoverContext): string {
   const out: string[] = [];
+  const oobTrees = a.oob?.tally.trees ?? 0;
   const role =
     ctx.standing !== undefined
       ? ctx.standing
       : a.role === 'training'
-      ? a.oob
-        ? `training row; ${a.oob.trees} of ${a.all.trees} trees never saw it`
-        : 'training row; every tree saw it, so there is no out-of-bag vote'
-      : a.role === 'holdout'
-        ? 'held out of training'
-        : ctx.importedFrom !== undefined && ctx.forestLabel === undefined
-          ? `scored with the forest imported from ${escapeMd(ctx.importedFrom)}`
-          : `scored with the forest from ${ctx.forestLabel ?? 'another file'}`;
+        ? a.oob
+          ? `training row; ${oobTrees} of ${a.all.tally.trees} trees never saw it`
+          : 'training row; every tree saw it, so there is no out-of-bag vote'
+        : a.role === 'holdout'
+          ? 'held out of training'
+          : ctx.importedFrom !== undefined && ctx.forestLabel === undefined
+            ? `scored with the forest imported from ${escapeMd(ctx.importedFrom)}`
+            : ctx.forestLabel !== undefined
+              ? `scored with the forest from ${ctx.forestLabel}`
+              : 'scored by every tree';
   const where = ctx.dataRow > 0 || ctx.line === undefined ? `row ${ctx.dataRow}` : `line ${ctx.line}`;
   out.push(`**Copse** · ${where} (${role})`);
   out.push('');
@@ -50,10 +54,13 @@ export function hoverMarkdown(a: RowAnswer, ctx: HoverContext): string {
   if (ctx.importedFrom !== undefined) {
     out.push('');
     out.push(`Out-of-bag votes and margins: ${escapeMd(UNAVAILABLE_FOR_IMPORT)}.`);
+  } else if (ctx.membershipUnknown) {
+    out.push('');
+    out.push('Out-of-bag votes: not known here, since this reading of the file does not tell the training rows apart; every tree, including those fitted on the row, is counted.');
   }
   if (ctx.suspectReason) {
     out.push('');
-    out.push(`$(warning) **Suspect row:** ${escapeMd(ctx.suspectReason)}`);
+    out.push(`$(warning) **Doubtful row:** ${escapeMd(ctx.suspectReason)}`);
   }
   if (ctx.showVotesLink) {
     out.push('');
@@ -62,28 +69,31 @@ export function hoverMarkdown(a: RowAnswer, ctx: HoverContext): string {
   return out.join('\n');
 }
 
+/** "the 35 trees that never saw this row" or "all 100 trees": who the headline speaks for. */
+function whose(a: RowAnswer): string {
+  return a.lead === 'out-of-bag' ? `the ${a.headline.tally.trees} trees that never saw this row` : `all ${a.all.tally.trees} trees`;
+}
+
 function classification(a: RowAnswer, ctx: HoverContext, out: string[]): void {
   const label = (k: number): string => escapeMd(ctx.classes[k] ?? `class ${k}`);
-  const proba = a.proba ?? [];
-  const ranked = proba
-    .map((p, k) => ({ p, k }))
-    .sort((x, y) => y.p - x.p || x.k - y.k)
-    .filter((e, i) => i < 3 || e.p >= 0.05);
-  out.push(`**Predicted ${escapeMd(ctx.target)}: ${label(a.predicted)}**`);
+  const h = a.headline;
+  out.push(`**${a.lead === 'out-of-bag' ? 'Out-of-bag prediction' : 'Predicted'} ${escapeMd(ctx.target)}: ${label(h.predicted)}** (${whose(a)})`);
+  const ranked = topShares(h);
   if (ranked.length) out.push('', 'Probability: ' + ranked.map((e) => `${label(e.k)} ${formatShare(e.p)}`).join(' · '));
-  if (a.truth !== undefined) {
-    const hit = a.truth === a.predicted;
-    out.push('', `True value: ${label(a.truth)} ${hit ? '(matches)' : '(differs)'}`);
+  if (a.truth !== undefined) out.push('', `Label: ${label(a.truth)} ${a.truth === h.predicted ? '(agrees)' : '(differs)'}`);
+  if (a.lead === 'out-of-bag') {
+    const all = a.all;
+    out.push('', `All ${all.tally.trees} trees, including the ${all.tally.trees - h.tally.trees} fitted on this row: ${label(all.predicted)} ${formatShare(all.proba?.[all.predicted] ?? NaN)}`);
   }
 
   // Vote table: columns are the classes with the most all-tree votes, so the table stays narrow.
-  const all = a.all.kind === 'classification' ? a.all.counts : [];
-  const order = all
+  const counts = a.all.tally.kind === 'classification' ? a.all.tally.counts : [];
+  const order = counts
     .map((c, k) => ({ c, k }))
     .sort((x, y) => y.c - x.c || x.k - y.k)
     .map((e) => e.k);
-  const shown = order.slice(0, all.length > MAX_CLASS_COLUMNS ? MAX_CLASS_COLUMNS - 1 : MAX_CLASS_COLUMNS);
-  if (a.truth !== undefined && !shown.includes(a.truth) && a.truth < all.length) shown[shown.length - 1] = a.truth;
+  const shown = order.slice(0, counts.length > MAX_CLASS_COLUMNS ? MAX_CLASS_COLUMNS - 1 : MAX_CLASS_COLUMNS);
+  if (a.truth !== undefined && !shown.includes(a.truth) && a.truth < counts.length) shown[shown.length - 1] = a.truth;
   const hidden = order.filter((k) => !shown.includes(k));
   const cells = (t: VoteTally): string[] => {
     if (t.kind !== 'classification') return [];
@@ -96,30 +106,34 @@ function classification(a: RowAnswer, ctx: HoverContext, out: string[]): void {
   out.push('');
   out.push(`| Votes | ${header.join(' | ')} |`);
   out.push(`|---|${header.map(() => '---:').join('|')}|`);
-  out.push(`| all ${a.all.trees} trees | ${cells(a.all).join(' | ')} |`);
-  if (a.oob) out.push(`| ${a.oob.trees} out-of-bag trees | ${cells(a.oob).join(' | ')} |`);
+  if (a.oob) out.push(`| ${a.oob.tally.trees} out-of-bag trees | ${cells(a.oob.tally).join(' | ')} |`);
+  out.push(`| all ${a.all.tally.trees} trees | ${cells(a.all.tally).join(' | ')} |`);
   out.push('');
-  const facts = [`Agreement: ${formatShare(a.agreement)} of trees vote ${label(a.predicted)}`];
+  const facts = [`Agreement: ${formatShare(h.agreement)} of ${a.lead === 'out-of-bag' ? 'out-of-bag trees' : 'trees'} vote ${label(h.predicted)}`];
   if (a.margin !== undefined) facts.push(`out-of-bag margin ${formatSigned(a.margin)}`);
   out.push(facts.join(' · '));
 }
 
+function topShares(g: GroupAnswer): Array<{ p: number; k: number }> {
+  return (g.proba ?? [])
+    .map((p, k) => ({ p, k }))
+    .sort((x, y) => y.p - x.p || x.k - y.k)
+    .filter((e, i) => i < 3 || e.p >= 0.05);
+}
+
 function regression(a: RowAnswer, ctx: HoverContext, out: string[]): void {
-  const all = a.all;
-  out.push(`**Predicted ${escapeMd(ctx.target)}: ${formatNumber(a.predicted)}**`);
-  if (all.kind === 'regression') {
-    out.push('', `All ${all.trees} trees: mean ${formatNumber(all.mean)}, sd ${formatNumber(all.sd)}, range ${formatNumber(all.min)} to ${formatNumber(all.max)}`);
-  }
-  if (a.oob && a.oob.kind === 'regression') {
-    out.push('', `${a.oob.trees} out-of-bag trees: mean ${formatNumber(a.oob.mean)}, sd ${formatNumber(a.oob.sd)}`);
-  }
-  if (a.truth !== undefined) {
-    const ref = a.oob && a.oob.kind === 'regression' ? a.oob.mean : a.predicted;
-    const which = a.oob ? 'out-of-bag mean' : 'prediction';
-    out.push('', `True value: ${formatNumber(a.truth)} (${formatSigned(a.truth - ref)} from the ${which})`);
+  const h = a.headline;
+  out.push(`**${a.lead === 'out-of-bag' ? 'Out-of-bag prediction' : 'Predicted'} ${escapeMd(ctx.target)}: ${formatNumber(h.predicted)}** (${whose(a)})`);
+  if (a.truth !== undefined) out.push('', `Label: ${formatNumber(a.truth)} (${formatSigned(a.truth - h.predicted)} from the ${a.lead === 'out-of-bag' ? 'out-of-bag prediction' : 'prediction'})`);
+  for (const [name, g] of [
+    [a.lead === 'out-of-bag' ? `${h.tally.trees} out-of-bag trees` : '', a.oob],
+    [a.lead === 'out-of-bag' ? `All ${a.all.tally.trees} trees, including those fitted on this row` : `All ${a.all.tally.trees} trees`, a.all],
+  ] as const) {
+    if (!g || !name || g.tally.kind !== 'regression') continue;
+    out.push('', `${name}: mean ${formatNumber(g.tally.mean)}, sd ${formatNumber(g.tally.sd)}, range ${formatNumber(g.tally.min)} to ${formatNumber(g.tally.max)}`);
   }
   const within = ctx.tolerance !== undefined ? ` within ±${formatNumber(ctx.tolerance)} of the prediction` : '';
-  out.push('', `Agreement: ${formatShare(a.agreement)} of trees${within}`);
+  out.push('', `Agreement: ${formatShare(h.agreement)} of ${a.lead === 'out-of-bag' ? 'out-of-bag trees' : 'trees'}${within}`);
 }
 
 export interface HoverContributions {

@@ -3,7 +3,7 @@
 
 import type { Column, DroppedColumn, Table, Task } from '../engine';
 import { inferTask } from '../engine';
-import { formatShare } from '../format';
+import { formatShare } from '../engine';
 
 export interface ColumnProfile {
   readonly name: string;

@@ -5,17 +5,16 @@ import { promises as fs, readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import type { CopseContext, FitOrigin } from '../context';
-import { fitForest, findColumn, loadCsv, Scorer, type Column, type FitReport, type LoadResult, type Schema } from '../engine';
+import { findColumn, fitForest, loadCsv, Scorer, summarizeFit, type FitReport, type LoadResult, type Schema } from '../engine';
 import { isAbort, isUserError, userMessage } from '../errors';
-import { formatBytes, formatSeconds, formatShare } from '../format';
+import { formatBytes, formatSeconds, formatShare } from '../engine';
 import type { PanelHost } from '../panel/panelHost';
 import { showCsv } from '../editor/showCsv';
 import { saveLastFit } from '../session/lastFit';
 import { loadForForest } from '../session/loadFor';
 import { ForestSession } from '../session/session';
 import { ExplainClient } from '../workers/explainClient';
-import { buildSummary } from '../summary/summary';
-import { cautions } from '../summary/warnings';
+import { panelSummary } from '../summary/panel';
 import { choicesFrom, paramsFor, type FitChoices } from './choices';
 import { profileColumns } from './columnProfile';
 import { adjustChoices, pickTarget } from './fitDialog';
@@ -250,8 +249,6 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
   const inBag = report.rows.inBag!;
   const label = path.basename(loaded.path);
   const tSummary = performance.now();
-  const features = forest.schema.features.map((f) => findColumn(load.table, f.name)).filter((c): c is Column => !!c);
-  const oob = report.oob;
   const warnings: string[] = [];
   if (loaded.sampled) {
     warnings.push(
@@ -260,29 +257,8 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
     );
   }
   warnings.push(...load.warnings);
-  warnings.push(
-    ...cautions({
-      task: forest.schema.target.task,
-      classes: forest.schema.target.classes ?? [],
-      target: forest.schema.target.name,
-      features,
-      trainRows: report.trainRows,
-      truth: report.rows.truth,
-      permutation: report.importance.permutation,
-      oobScore: oob.kind === 'classification' ? oob.accuracy : oob.r2,
-      oobBalancedAccuracy: oob.kind === 'classification' ? oob.balancedAccuracy : undefined,
-      seed: forest.params.seed,
-    }).map((c) => c.message),
-  );
-  const summary = buildSummary({
-    forest,
-    report,
-    dataset: { label, uri: vscode.Uri.file(loaded.path).toString() },
-    rowsRead: load.rowsRead,
-    sampled: loaded.sampled,
-    heldOutFrom: 'holdout',
-    warnings,
-  });
+  const core = summarizeFit(report, load.table, { file: label, rowsRead: load.rowsRead, sampled: loaded.sampled, testFrom: 'holdout', warnings });
+  const uri = vscode.Uri.file(loaded.path).toString();
   const summarySeconds = (performance.now() - tSummary) / 1000;
 
   const tScore = performance.now();
@@ -303,8 +279,8 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
       },
       table: load.table,
       text: () => readText(loaded.path),
-      oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag, margin: report.rows.margin },
-      summary,
+      oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag },
+      summary: (fit) => panelSummary(core, { fit, uri }),
       scorer,
       explainer: (setup) => new ExplainClient(setup),
       quantiles: { from: 'fit', report },
@@ -343,11 +319,12 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
     holdout: choices.holdout,
     workers: settings.training.workers,
     fitNotes: report.notes,
-    summary,
+    summary: session.summary,
     seconds: { load: loaded.seconds, fit: report.seconds.fit, score: scoreSeconds, summary: summarySeconds },
   })) {
     ctx.log.info(line);
   }
+  const oob = report.oob;
   const score =
     oob.kind === 'classification' ? `out-of-bag accuracy ${formatShare(oob.accuracy)}` : `out-of-bag R² ${oob.r2.toFixed(3)}`;
   ctx.log.info(`Fitted ${forest.trees.length} trees on ${label} in ${formatSeconds(report.seconds.fit)}: ${score}.`);
@@ -363,7 +340,7 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
       sampleRows: loaded.sampleRows,
       sampleSeed: loaded.sampleSeed,
       loadTarget: loaded.loadTarget,
-      summary,
+      summary: session.summary,
       choices,
       bytes: loaded.bytes,
     },

@@ -2,7 +2,7 @@
 
 import type { FitSummary } from '../../protocol/messages';
 import type { ForestParams, LoadResult } from '../engine';
-import { formatNumber, formatSeconds, formatShare } from '../format';
+import { formatNumber, formatSeconds, formatShare } from '../engine';
 
 export interface FitLogInput {
   readonly path: string;

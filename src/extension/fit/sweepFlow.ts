@@ -7,7 +7,7 @@ import type { SweepSummary } from '../../protocol/messages';
 import type { CopseContext } from '../context';
 import { sweepFeaturesPerSplit } from '../engine';
 import { isAbort, isUserError, userMessage } from '../errors';
-import { formatSeconds } from '../format';
+import { formatSeconds } from '../engine';
 import type { PanelHost } from '../panel/panelHost';
 import { featuresPerSplitOf, sweepKey, sweepOptions, sweepSummary } from './sweep';
 

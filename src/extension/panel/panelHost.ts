@@ -9,6 +9,7 @@ import {
   isPanelToHost,
   type Dependence,
   type GlobalContributions,
+  type HostMessage,
   type HostToPanel,
   type PanelToHost,
   type ReferenceChoice,
@@ -125,7 +126,17 @@ export class PanelHost implements vscode.Disposable {
     this.adopt(panel);
   }
 
-  post(message: HostToPanel): void {
+  /** Sends a message about the active forest (or none). */
+  post(message: HostMessage): void {
+    this.postStamped({ ...message, fit: message.type === 'status' ? null : (this.ctx.session?.id ?? null) } as HostToPanel);
+  }
+
+  /** Sends a message about one session's forest: the panel drops it if it has moved on to another fit. */
+  private send(session: ForestSession, message: HostMessage): void {
+    this.postStamped({ ...message, fit: session.id } as HostToPanel);
+  }
+
+  private postStamped(message: HostToPanel): void {
     // The guard runs here too: a malformed message is our bug, better caught in the log than drawn wrong.
     if (!isHostToPanel(message)) {
       this.ctx.log.error(`Not sending a malformed ${(message as { type?: string }).type ?? '?'} message to the panel.`);
@@ -152,18 +163,18 @@ export class PanelHost implements vscode.Disposable {
     const rows = dataRows.slice(0, LIMITS.selectedRows);
     if (this.shown?.session === s) this.shown.rows = rows;
     this.postRows(s, rows);
-    this.post({ type: 'highlight', rows });
+    this.send(s, { type: 'highlight', rows });
     if (rows.length > 0) void this.guard(this.sendContributions(rows[0]));
   }
 
   /** Votes at once; again with intervals once the rows' are computed, if the selection has not moved on. */
   private postRows(s: ForestSession, rows: number[]): void {
     const level = this.ctx.settings().explain.intervalLevel;
-    this.post({ type: 'disagreement', rows: s.rowVotes(rows, level) });
+    this.send(s, { type: 'disagreement', rows: s.rowVotes(rows, level) });
     void this.guard(
       s.intervalsReady(rows, level).then((changed) => {
         if (changed && this.ctx.session === s && (this.shown?.session !== s || this.shown.rows === rows)) {
-          this.post({ type: 'disagreement', rows: s.rowVotes(rows, level) });
+          this.send(s, { type: 'disagreement', rows: s.rowVotes(rows, level) });
         }
       }),
     );
@@ -295,10 +306,10 @@ export class PanelHost implements vscode.Disposable {
     }
     if (this.shown?.session !== session) this.shown = { session };
     const shown = this.shown;
-    this.post({ type: 'summary', summary: session.summary });
-    this.post({ type: 'suspects', rows: session.suspects(LIMITS.suspects) });
+    this.send(session, { type: 'summary', summary: session.summary });
+    this.send(session, { type: 'suspects', rows: session.suspects(LIMITS.suspects) });
     if (shown.map) {
-      this.post({ type: 'regionMap', map: shown.map });
+      this.send(session, { type: 'regionMap', map: shown.map });
     } else {
       const restored = this.takeRestoredChoice(session);
       const fallback = session.defaultAxes() ? { ...session.defaultAxes()!, reference: { mode: 'typical' } as ReferenceChoice } : undefined;
@@ -323,26 +334,26 @@ export class PanelHost implements vscode.Disposable {
       this.ctx.log.info(`Small maps: ${shown.matrix.length} pairs in ${Math.round(performance.now() - started)} ms.`);
     }
     if (session !== this.ctx.session) return;
-    this.post({ type: 'mapMatrix', maps: shown.matrix });
+    this.send(session, { type: 'mapMatrix', maps: shown.matrix });
     if (shown.rows?.length) {
       this.postRows(session, shown.rows);
-      this.post({ type: 'highlight', rows: shown.rows });
+      this.send(session, { type: 'highlight', rows: shown.rows });
     }
     const sweep = this.actions.sweepResult();
-    if (sweep) this.post({ type: 'sweep', state: 'done', progress: null, text: '', result: sweep });
+    if (sweep) this.send(session, { type: 'sweep', state: 'done', progress: null, text: '', result: sweep });
     if (!session.explanations) {
       const why = 'Explanations are not available for this forest.';
-      this.post({ type: 'contributions', row: null, state: 'unavailable', contributions: null, text: why });
-      this.post({ type: 'globalContributions', global: null, text: why });
+      this.send(session, { type: 'contributions', row: null, state: 'unavailable', contributions: null, text: why });
+      this.send(session, { type: 'globalContributions', global: null, text: why });
       return;
     }
     if (shown.contributions && shown.contributions.row === shown.explained) {
-      this.post({ type: 'contributions', row: shown.explained, state: 'ready', contributions: shown.contributions, text: '' });
+      this.send(session, { type: 'contributions', row: shown.explained, state: 'ready', contributions: shown.contributions, text: '' });
     } else if (shown.explained !== undefined) {
       void this.guard(this.sendContributions(shown.explained));
     }
     this.sendGlobal(session);
-    if (shown.dependence) this.post({ type: 'dependence', dependence: shown.dependence });
+    if (shown.dependence) this.send(session, { type: 'dependence', dependence: shown.dependence });
     else {
       const feature = session.defaultDependenceFeature();
       if (feature) await this.sendDependence(feature, null);
@@ -358,11 +369,11 @@ export class PanelHost implements vscode.Disposable {
     shown.explained = row;
     const ticket = ++this.explainTicket;
     if (!session.explanations) {
-      this.post({ type: 'contributions', row, state: 'unavailable', contributions: null, text: 'Explanations are not available for this forest.' });
+      this.send(session, { type: 'contributions', row, state: 'unavailable', contributions: null, text: 'Explanations are not available for this forest.' });
       return;
     }
     const note = setTimeout(() => {
-      if (ticket === this.explainTicket) this.post({ type: 'contributions', row, state: 'working', contributions: null, text: `Working out row ${row}’s contributions…` });
+      if (ticket === this.explainTicket) this.send(session, { type: 'contributions', row, state: 'working', contributions: null, text: `Working out row ${row}’s contributions…` });
     }, WORKING_NOTE_MS);
     this.explainWithdraw?.abort();
     const withdraw = (this.explainWithdraw = new AbortController());
@@ -372,10 +383,10 @@ export class PanelHost implements vscode.Disposable {
       if (ticket !== this.explainTicket || session !== this.ctx.session) return;
       this.ctx.log.debug(`Contributions of row ${row} in ${Math.round(performance.now() - started)} ms.`);
       shown.contributions = c;
-      this.post({ type: 'contributions', row, state: 'ready', contributions: c, text: '' });
+      this.send(session, { type: 'contributions', row, state: 'ready', contributions: c, text: '' });
     } catch (e) {
       if (ticket === this.explainTicket && !isAbort(e)) {
-        this.post({ type: 'contributions', row, state: 'unavailable', contributions: null, text: userMessage(e) });
+        this.send(session, { type: 'contributions', row, state: 'unavailable', contributions: null, text: userMessage(e) });
       }
       if (!isUserError(e)) throw e;
     } finally {
@@ -386,9 +397,9 @@ export class PanelHost implements vscode.Disposable {
   /** Starts the global view's background sample once per session, and re-sends what it has so far. */
   private sendGlobal(session: ForestSession): void {
     const shown = this.shown!;
-    if (shown.global) this.post({ type: 'globalContributions', global: shown.global, text: '' });
+    if (shown.global) this.send(session, { type: 'globalContributions', global: shown.global, text: '' });
     if (shown.globalRun) return;
-    if (!shown.global) this.post({ type: 'globalContributions', global: null, text: 'Working out contributions over a sample of rows…' });
+    if (!shown.global) this.send(session, { type: 'globalContributions', global: null, text: 'Working out contributions over a sample of rows…' });
     const run = (shown.globalRun = new AbortController());
     const started = performance.now();
     void this.guard(
@@ -396,7 +407,7 @@ export class PanelHost implements vscode.Disposable {
         .globalContributions((g) => {
           if (session !== this.ctx.session) return;
           shown.global = g;
-          this.post({ type: 'globalContributions', global: g, text: '' });
+          this.send(session, { type: 'globalContributions', global: g, text: '' });
         }, run.signal)
         .then((g) => this.ctx.log.info(`Global view: contributions of ${g.rows} rows in ${Math.round(performance.now() - started)} ms.`)),
     );
@@ -414,7 +425,7 @@ export class PanelHost implements vscode.Disposable {
     if (ticket !== this.dependenceTicket || session !== this.ctx.session) return;
     this.ctx.log.info(`Dependence on ${feature}: ${d.grid.length} points, ${d.ice.length} curves in ${Math.round(performance.now() - started)} ms.`);
     shown.dependence = d;
-    this.post({ type: 'dependence', dependence: d });
+    this.send(session, { type: 'dependence', dependence: d });
     this.status('idle', '');
   }
 
@@ -432,7 +443,7 @@ export class PanelHost implements vscode.Disposable {
     const ms = Math.round(performance.now() - started);
     this.ctx.log.info(`Map ${x} × ${y} (${reference.mode}): ${map.nx}×${map.ny} cells in ${ms} ms.`);
     shown.map = map;
-    this.post({ type: 'regionMap', map });
+    this.send(session, { type: 'regionMap', map });
     this.status('idle', '');
   }
 }

@@ -10,7 +10,7 @@
 import type { Dependence, GlobalContributions, PredictionInterval, RowContributions } from '../../protocol/messages';
 import type { FeatureInfo, Forest, PartialDependence } from '../engine';
 import { meanAbsoluteContributions, outputCount, shuffle, stream } from '../engine';
-import { formatNumber } from '../format';
+import { formatNumber } from '../engine';
 import type { ExplainerLike, Urgency } from '../workers/explainClient';
 import type { ExplainResults } from '../workers/explainJobs';
 

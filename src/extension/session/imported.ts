@@ -4,12 +4,12 @@
 
 import { readFileSync } from 'node:fs';
 import * as path from 'node:path';
-import type { Forest, LoadResult, ModelOrigin, PermutationImportance, Table } from '../engine';
-import { findColumn, knowsTraining, median, ModelError, nameByPosition, permutationOnRows, withCoverFrom } from '../engine';
-import { openedSummary } from '../summary/openedSummary';
+import type { Forest, LoadResult, ModelOrigin, PermutationImportance, Table, TrainingRows } from '../engine';
+import { findColumn, knowsTraining, median, ModelError, nameByPosition, permutationOnRows, summarizeOpened, targetCodes, withCoverFrom } from '../engine';
+import { panelSummary } from '../summary/panel';
 import { ExplainClient } from '../workers/explainClient';
-import { UNAVAILABLE_FOR_IMPORT } from './importText';
-import { ForestSession, truthOf, type ScorerLike } from './session';
+import { COVERS_FROM_FILE, UNAVAILABLE_FOR_IMPORT } from './importText';
+import { ForestSession, type ScorerLike } from './session';
 
 export { COVERS_FROM_FILE, UNAVAILABLE_FOR_IMPORT } from './importText';
 
@@ -75,23 +75,22 @@ export function forestForTable(forest: Forest, table: Table, x: Float64Array): F
 }
 
 /**
- * Permutation importance on the table's labelled rows, scored by the given scorer (a worker thread in the
- * editor). Undefined when the table has no target values, or is the forest's own training file (the figures
- * would be in-sample, as its scores would be).
+ * Why permutation importance will not be measured on this table, or undefined when it will: it needs target
+ * values, and on the forest's own training file it would be in-sample (its rows were fitted).
  */
-export async function permutationOnTable(
-  forest: Forest,
-  table: Table,
-  x: Float64Array,
-  fingerprint: string,
-  scorer: ScorerLike,
-  seed: number,
-): Promise<PermutationImportance | undefined> {
-  if (forest.training.fingerprint !== '' && forest.training.fingerprint === fingerprint) return undefined;
-  const truth = truthOf(forest, table);
-  if (!truth.some((v) => !Number.isNaN(v))) return undefined;
+export function permutationSkipped(forest: Forest, table: Table, fingerprint: string): string | undefined {
+  if (forest.training.fingerprint !== '' && forest.training.fingerprint === fingerprint) {
+    return 'not measured: this is the file the forest was trained on, so shuffling its columns would be measured on rows the trees fitted. Fit again for out-of-bag permutation importance.';
+  }
+  if (!targetCodes(forest, table).some((v) => !Number.isNaN(v))) return `not measured: the file has no "${forest.schema.target.name}" values to score against.`;
+  return undefined;
+}
+
+/** Permutation importance on the table's labelled rows, scored by the given scorer (a worker thread in the editor). */
+export async function permutationOnTable(forest: Forest, table: Table, x: Float64Array, scorer: ScorerLike, seed: number, signal?: AbortSignal): Promise<PermutationImportance | undefined> {
+  const truth = targetCodes(forest, table);
   const imp = await permutationOnRows(
-    { x, rows: table.rowCount, features: forest.schema.features.length, truth, task: forest.schema.target.task, seed },
+    { x, rows: table.rowCount, features: forest.schema.features.length, truth, task: forest.schema.target.task, seed, signal },
     (rows, n) => scorer.predict(rows, n),
   );
   return imp.rows > 0 ? imp : undefined;
@@ -116,6 +115,10 @@ export interface OpenedSessionInput {
   readonly encoded: Float64Array;
   readonly warnings: readonly string[];
   readonly permutation: PermutationImportance | undefined;
+  /** Why permutation importance was not measured (permutationSkipped), when it was not. */
+  readonly permutationMissing?: string;
+  /** The forest's training rows in this table, or why they are not known (core's trainingRowsIn). */
+  readonly training: TrainingRows | { readonly unknown: string };
   readonly scorer: ScorerLike;
   readonly intervalLevel?: number;
 }
@@ -124,6 +127,7 @@ export interface OpenedSessionInput {
 export function openedSession(i: OpenedSessionInput): Promise<ForestSession> {
   const { forest, csv, modelLabel } = i;
   const label = path.basename(csv.path);
+  const training = i.training;
   return ForestSession.create({
     forest,
     source: {
@@ -139,20 +143,27 @@ export function openedSession(i: OpenedSessionInput): Promise<ForestSession> {
     table: csv.load.table,
     encoded: i.encoded,
     text: () => readFileSync(csv.path, 'utf8'),
-    summary: ({ prediction, truth }) =>
-      openedSummary({
-        forest,
-        prediction,
-        truth,
-        dataset: { label, uri: csv.uri },
-        rowsRead: csv.load.rowsRead,
-        sampled: csv.sampled,
-        fingerprint: csv.load.fingerprint,
-        modelLabel,
-        warnings: [...i.warnings],
-        origin: i.origin,
-        permutation: i.permutation,
-      }),
+    // The training file itself, read as the fit read it: the out-of-bag views are the fit's own.
+    oob: 'trainRows' in training ? training : undefined,
+    summary: (fit, { prediction, truth }) =>
+      panelSummary(
+        summarizeOpened({
+          forest,
+          table: csv.load.table,
+          prediction,
+          truth,
+          file: label,
+          fingerprint: csv.load.fingerprint,
+          rowsRead: csv.load.rowsRead,
+          sampled: csv.sampled,
+          training,
+          permutation: i.permutation,
+          permutationMissing: i.permutationMissing,
+          notes: originNotes(forest, i.origin, modelLabel, label),
+          warnings: i.warnings,
+        }),
+        { fit, uri: csv.uri },
+      ),
     scorer: i.scorer,
     explainer: (setup) => new ExplainClient(setup),
     // Intervals need the forest's training rows: they are there when this CSV is its training file, and
@@ -161,4 +172,26 @@ export function openedSession(i: OpenedSessionInput): Promise<ForestSession> {
     importedFrom: i.imported ? modelLabel : undefined,
     intervalLevel: i.intervalLevel,
   });
+}
+
+/** What the reader must know first: where the forest came from, and for an import what it cannot show. */
+function originNotes(forest: Forest, origin: ModelOrigin, modelLabel: string, csvLabel: string): string[] {
+  const trained = `trained on ${forest.training.rows} rows.`;
+  if (origin.kind === 'copse') {
+    // A model file saved from an import keeps the import's lack of a training sample.
+    if (!knowsTraining(forest)) return [`Opened from ${modelLabel}, saved from an import: out-of-bag scores, bootstrap membership and prediction intervals are ${UNAVAILABLE_FOR_IMPORT}.`];
+    return [`Opened from ${modelLabel}: ${trained}`];
+  }
+  const by = origin.producer ? `, written by ${origin.producer}` : '';
+  const head = `Imported from ${modelLabel} (ONNX ${origin.operator}${by})`;
+  const out: string[] = [];
+  if (knowsTraining(forest)) out.push(`${head}, a Copse export: ${trained}`);
+  else {
+    out.push(
+      `${head}: out-of-bag scores, bootstrap membership, doubtful-row margins and prediction intervals are ${UNAVAILABLE_FOR_IMPORT}.`,
+      `Impurity decrease and ${COVERS_FROM_FILE}.`,
+    );
+  }
+  if (origin.names === 'positions') out.push(`The file names no features: they were taken from ${csvLabel}'s columns in order.`);
+  return [...out, ...origin.notes.map((n) => `Import: ${n}`)];
 }

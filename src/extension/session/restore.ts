@@ -49,7 +49,8 @@ export async function restoreLastFit(
       table: load.table,
       text: () => readFileSync(meta.csvPath, 'utf8'),
       oob: same ? { trainRows: saved.trainRows, holdoutRows: saved.holdoutRows, inBag: saved.inBag } : undefined,
-      summary,
+      // The saved summary was the panel's for the earlier session: it is stamped with this session's id.
+      summary: (fit) => ({ ...summary, fit }),
       scorer,
       explainer: explain.explainer,
       // The saved forest keeps its seed, so the same rows give back its bootstrap draws for intervals.

@@ -1,6 +1,6 @@
 // Grid construction for decision-region maps, checked on hand-sized inputs.
 import * as assert from 'node:assert/strict';
-import { GridAccumulator, gridBatches, planAxis, rankFeatures, topPairs } from '../../src/extension/panel/grid';
+import { GridAccumulator, gridBatches, planAxis, rankFeatures, topPairs } from '../../src/core/explain/region-grid';
 import type { FeatureInfo } from '../../src/core/model/schema';
 
 const num = (name: string): FeatureInfo => ({ name, kind: 'numeric', hadMissing: false, reference: 0, edges: [] });

@@ -6,9 +6,8 @@
 // from core's partialDependence2D instead, which never scores the grid row by row; both end in
 // cellsFromAverages, so the two kinds of map read their cells the same way.
 
-import type { MapAxis, RegionCells } from '../../protocol/messages';
-import { cellCentre } from '../../protocol/messages';
-import type { FeatureInfo } from '../engine';
+import type { FeatureInfo } from '../model/schema';
+import { cellCentre, type MapAxis, type RegionCells } from './grid-axis';
 
 /** More levels than this cannot be drawn one cell per level. */
 export const MAX_LEVEL_CELLS = 200;

@@ -1,0 +1,45 @@
+// Per-row answers the panel shows: tree votes on selected rows and the rows the forest doubts.
+
+export interface RowVotes {
+  row: number;
+  /** Classification: trees voting for each class, in class order. Regression: []. */
+  counts: number[];
+  /** Which answer leads: the trees that never saw the row (a training row), or all trees. */
+  lead: 'out-of-bag' | 'all-trees';
+  /** The all-trees answer (class code or value), which for a training row includes trees fitted on it. */
+  allPredicted: number;
+  /** Share of the leading answer's trees that vote for it (or lie near it, for regression), 0..1. */
+  agreement: number;
+  /** Entropy (bits) of the vote shares; null for regression. */
+  entropy: number | null;
+  /** Majority of the trees that did not see this row (class code or mean value); null without such trees. */
+  oobVote: number | null;
+  /** The row's own target (class code or value); null if missing. */
+  label: number | null;
+  /** votes[t] = tree t's class code or value. */
+  votes: number[];
+  /** Indices of the trees for which this row was out-of-bag (empty if not a training row). */
+  outOfBag: number[];
+  /** Regression: the central prediction interval at `level` (quantile regression forest); absent otherwise. */
+  interval?: PredictionInterval;
+}
+
+export interface PredictionInterval {
+  /** Share of the conditional distribution inside, e.g. 0.9. */
+  level: number;
+  lower: number;
+  upper: number;
+}
+
+export interface SuspectRow {
+  row: number;
+  /**
+   * How doubtful. Classification: the out-of-bag margin (share of out-of-bag votes for the label minus the
+   * largest share for another class; negative). Regression: the modified z-score of label − out-of-bag value.
+   */
+  score: number;
+  /** Class code, or the labelled value. */
+  label: number;
+  /** The out-of-bag trees' class code, or their mean value. */
+  oobPredicted: number;
+}
