@@ -62,3 +62,4 @@ export { doubtfulByMargin, doubtfulByResidual, type Doubt } from '../core/forest
 export { impurityFromTrees } from '../core/explain/impurity';
 export { cellsFromAverages, GridAccumulator, gridBatches, planAxis, rankFeatures, topPairs, type GridPlan } from '../core/explain/region-grid';
 export { targetCodes } from '../core/forest/target';
+export { UNAVAILABLE_FOR_IMPORT } from '../core/forest/membership';

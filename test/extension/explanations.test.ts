@@ -14,9 +14,8 @@ import type { GlobalContributions } from '../../src/protocol/messages';
 import { ForestSession } from '../../src/extension/session/session';
 import { dependenceMessage, Explanations, largestContributions } from '../../src/extension/session/explanations';
 import type { ExplainerLike } from '../../src/extension/workers/explainClient';
-import { buildSummary } from '../../src/extension/summary/summary';
 import { ExplainClient } from '../../src/extension/workers/explainClient';
-import { fitFixture, FIXTURES, type Fitted } from './helpers';
+import { fitFixture, FIXTURES, summaryFor, type Fitted } from './helpers';
 import { inBagCounts } from '../../src/core/forest/bootstrap';
 
 const close = (a: number, b: number, tol = 1e-9) => Math.abs(a - b) <= tol * Math.max(1, Math.abs(a), Math.abs(b));
@@ -34,14 +33,14 @@ describe('extension explanations (iris, classification)', function () {
     for (const dataRow of [1, 60, 120, 150]) {
       const c = await s.contributions(dataRow);
       const r = s.numbering.tableRow(dataRow)!;
-      const answer = s.store.answer(r);
+      const answer = s.store.answer(r).all;
       assert.equal(c.row, dataRow);
       assert.equal(c.output, answer.predicted, 'the predicted class is the one explained');
       assert.deepEqual(c.features.map((x) => x.feature), s.forest.schema.features.map((x) => x.name));
       const sum = c.base + c.features.reduce((a, x) => a + x.contribution, 0);
       assert.ok(close(sum, answer.proba![answer.predicted], 1e-9), `row ${dataRow}: ${sum} vs ${answer.proba![answer.predicted]}`);
       assert.ok(close(c.prediction, sum));
-      assert.ok(isHostToPanel({ type: 'contributions', row: dataRow, state: 'ready', contributions: c, text: '' }));
+      assert.ok(isHostToPanel({ fit: 'f', type: 'contributions', row: dataRow, state: 'ready', contributions: c, text: '' }));
     }
   });
 
@@ -85,7 +84,7 @@ describe('extension explanations (iris, classification)', function () {
   it('shows one feature’s partial dependence for the class whose curve moves most, with its curves and the data’s spread', async () => {
     const s = f.session;
     const d = await s.dependence('petal_length', null);
-    assert.ok(isHostToPanel({ type: 'dependence', dependence: d }));
+    assert.ok(isHostToPanel({ fit: 'f', type: 'dependence', dependence: d }));
     const p = s.p;
     const fx = s.forest.schema.features.findIndex((x) => x.name === 'petal_length');
     const trainX = new Float64Array(s.trainRows.length * p);
@@ -154,7 +153,7 @@ describe('extension explanations (Friedman #1, regression)', function () {
       const direct = predictInterval(index, s.encoded.subarray(r * s.p, r * s.p + s.p), 1, 0.9);
       assert.deepEqual(v.interval, { level: 0.9, lower: direct.lower[0], upper: direct.upper[0] });
     }
-    assert.ok(isHostToPanel({ type: 'disagreement', rows: votes }));
+    assert.ok(isHostToPanel({ fit: 'f', type: 'disagreement', rows: votes }));
     // Another level is computed afresh, not read from the 0.9 table.
     const r = s.numbering.tableRow(2)!;
     const md = (await s.hoverInterval(r, 0.5))!;
@@ -183,7 +182,7 @@ describe('extension explanations (Friedman #1, regression)', function () {
     const g = await f.session.globalContributions((u) => updates.push(u));
     assert.ok(g.done && updates[updates.length - 1] === g);
     assert.ok(g.rows > 0 && g.rows <= g.planned && g.planned === 100);
-    assert.ok(isHostToPanel({ type: 'globalContributions', global: g, text: '' }));
+    assert.ok(isHostToPanel({ fit: 'f', type: 'globalContributions', global: g, text: '' }));
     const by = new Map(g.features.map((x) => [x.feature, x.meanAbs]));
     // Friedman (1991): y depends on x1..x5 only, x4 with slope 10.
     for (const noise of ['x6', 'x7', 'x8', 'x9', 'x10']) assert.ok(by.get(noise)! < by.get('x4')! / 3, `${noise} ${by.get(noise)} vs x4 ${by.get('x4')}`);
@@ -215,7 +214,7 @@ describe('extension explanations without the fit in memory', function () {
         source: { path: file, label: 'friedman1.csv', delimiter: ',', fingerprint: t.fingerprint, rowsRead: t.rowsRead, header: t.header },
         table: t.table,
         text: () => text,
-        summary: buildSummary({ forest: report.forest, report, dataset: { label: 'f', uri: 'file:///f' }, rowsRead: t.rowsRead, sampled: false, warnings: [] }),
+        summary: summaryFor(report, { table: t.table, rowsRead: t.rowsRead }, 'f'),
         scorer: new Scorer(report.forest),
         explainer: (setup) => new ExplainClient(setup),
         quantiles: { from: 'table' },
@@ -339,7 +338,7 @@ describe('extension explanation shaping', () => {
       table: load.table,
       text: () => text,
       oob: { trainRows: report.trainRows, inBag: inBagCounts(report.forest.params, report.forest.trees.length, report.trainRows.length) },
-      summary: buildSummary({ forest: report.forest, report, dataset: { label: 'x', uri: 'file:///x' }, rowsRead: 60, sampled: false, warnings: [] }),
+      summary: summaryFor(report, { table: load.table, rowsRead: 60 }, 'x'),
       scorer: new Scorer(report.forest),
       explainer: (setup) => new ExplainClient(setup),
     });

@@ -7,7 +7,9 @@ import type { FitReport } from '../../src/core/forest/fit';
 import type { LoadResult } from '../../src/core/csv/types';
 import { ForestSession } from '../../src/extension/session/session';
 import { ExplainClient } from '../../src/extension/workers/explainClient';
-import { buildSummary } from '../../src/extension/summary/summary';
+import { summarizeFit } from '../../src/core/summary/fit';
+import { panelSummary } from '../../src/extension/summary/panel';
+import type { FitSummary } from '../../src/protocol/messages';
 import { readFileSync } from 'node:fs';
 
 export const FIXTURES = path.resolve(__dirname, '..', '..', '..', 'test', 'fixtures', 'open');
@@ -27,20 +29,13 @@ export async function fitFixture(
 ): Promise<Fitted> {
   const load = await loadCsv(file, extra.sampleRows ? { sampleRows: extra.sampleRows, sampleSeed: params.seed } : undefined);
   const report = await fitForest(load.table, { target, params, workers: 2, holdout: extra.holdout, keepInBag: true });
-  const summary = buildSummary({
-    forest: report.forest,
-    report,
-    dataset: { label: path.basename(file), uri: `file://${file}` },
-    rowsRead: load.rowsRead,
-    sampled: extra.sampleRows !== undefined,
-    warnings: [],
-  });
+  const summary = summaryFor(report, load, file, extra.sampleRows !== undefined);
   const session = await ForestSession.create({
     forest: report.forest,
     source: { path: file, label: path.basename(file), delimiter: load.delimiter, fingerprint: load.fingerprint, rowsRead: load.rowsRead, header: load.header },
     table: load.table,
     text: () => readFileSync(file, 'utf8'),
-    oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag: report.rows.inBag!, margin: report.rows.margin },
+    oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag: report.rows.inBag! },
     summary,
     scorer: new Scorer(report.forest),
     explainer: (setup) => new ExplainClient(setup),
@@ -48,6 +43,12 @@ export async function fitFixture(
     intervalLevel: extra.intervalLevel,
   });
   return { file, load, report, session };
+}
+
+/** The panel's summary of a fit, as the fit command makes it (core's summary, reshaped). */
+export function summaryFor(report: FitReport, load: Pick<LoadResult, 'table' | 'rowsRead'>, file: string, sampled = false): (fit: string) => FitSummary {
+  const core = summarizeFit(report, load.table, { file: path.basename(file), rowsRead: load.rowsRead, sampled });
+  return (fit) => panelSummary(core, { fit, uri: `file://${file}` });
 }
 
 /** A 1-based line reader over a file's text (what the editor seam supplies). */

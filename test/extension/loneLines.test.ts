@@ -36,7 +36,7 @@ describe('hovers on rows the fitted sample left out', function () {
       for (let t = 0; t < T; t++) assert.equal(lone.store.vote(t, 0), expected.votes[t * whole.table.rowCount + r], `line ${line} tree ${t}`);
       const hover = session.hoverOther(lone, 0);
       assert.match(hover, new RegExp(`row ${r + 1} \\(not in the sample the forest was fitted on`));
-      assert.match(hover, /True value: /);
+      assert.match(hover, /Label: /);
       checked++;
     }
     assert.equal(checked, 90);

@@ -20,7 +20,7 @@ import { ExplainClient } from '../../src/extension/workers/explainClient';
 import { sweepOptions } from '../../src/extension/fit/sweep';
 import { choicesFrom } from '../../src/extension/fit/choices';
 import { ForestSession } from '../../src/extension/session/session';
-import { buildSummary } from '../../src/extension/summary/summary';
+import { summaryFor } from './helpers';
 import { readSettings } from '../../src/extension/settings';
 import { readFileSync } from 'node:fs';
 import { inBagCounts } from '../../src/core/forest/bootstrap';
@@ -77,14 +77,14 @@ async function main(): Promise<void> {
   try {
     const load = await timed('read CSV (core loadCsv)', () => loadCsv(file));
     const report = await timed('fit (core, worker threads)', () => fitForest(load.table, { target: 'y', params: { trees, seed: 1 } }));
-    const summary = buildSummary({ forest: report.forest, report, dataset: { label: 'measure.csv', uri: file }, rowsRead: rows, sampled: false, warnings: [] });
+    const summary = summaryFor(report, { table: load.table, rowsRead: rows }, 'measure.csv');
     const session = await timed('score all rows once for hovers (Scorer)', () =>
       ForestSession.create({
         forest: report.forest,
         source: { path: file, label: 'measure.csv', delimiter: ',', fingerprint: load.fingerprint, rowsRead: rows, header: load.header },
         table: load.table,
         text: () => readFileSync(file, 'utf8'),
-        oob: { trainRows: report.trainRows, inBag: inBagCounts(report.forest.params, report.forest.trees.length, report.trainRows.length), margin: report.rows.margin },
+        oob: { trainRows: report.trainRows, inBag: inBagCounts(report.forest.params, report.forest.trees.length, report.trainRows.length) },
         summary,
         scorer: new Scorer(report.forest),
         explainer: (setup) => new ExplainClient(setup),

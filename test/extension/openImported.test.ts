@@ -15,7 +15,8 @@ import { saveModel } from '../../src/core/model/file';
 import { ModelError, openModelFile } from '../../src/core/model/open';
 import { exportOnnx } from '../../src/core/onnx/export';
 import { decodeModel, encodeModel } from '../../src/core/onnx/proto';
-import { forestForTable, nameByHeader, openedSession, permutationOnTable, positionalNaming } from '../../src/extension/session/imported';
+import { forestForTable, nameByHeader, openedSession, permutationOnTable, permutationSkipped, positionalNaming } from '../../src/extension/session/imported';
+import { trainingRowsIn } from '../../src/core/forest/membership';
 import { loadForForest } from '../../src/extension/session/loadFor';
 import type { ForestSession } from '../../src/extension/session/session';
 import { FIXTURES } from './helpers';
@@ -43,7 +44,8 @@ async function openAgainst(modelPath: string, csvPath: string, agree = true): Pr
   const x = encodeTable(named.schema, load.table, label);
   const forest = forestForTable(named, load.table, x);
   const scorer = new Scorer(forest);
-  const permutation = await permutationOnTable(forest, load.table, x, load.fingerprint, scorer, 1);
+  const permutationMissing = permutationSkipped(forest, load.table, load.fingerprint);
+  const permutation = permutationMissing ? undefined : await permutationOnTable(forest, load.table, x, scorer, 1);
   const session = await openedSession({
     forest,
     imported,
@@ -53,6 +55,8 @@ async function openAgainst(modelPath: string, csvPath: string, agree = true): Pr
     encoded: x,
     warnings: [],
     permutation,
+    permutationMissing,
+    training: trainingRowsIn(forest, load.table, load.fingerprint),
     scorer,
   });
   return { session, question: naming?.question };
@@ -98,7 +102,7 @@ describe('opening an ONNX tree ensemble in the editor', function () {
       assert.deepEqual(session.forest.schema.features.map((f) => f.name), ['sepal_length', 'sepal_width', 'petal_length', 'petal_width']);
       const expected = predictTable(forest, session.table);
       const n = session.table.rowCount;
-      for (let r = 0; r < n; r++) assert.equal(session.store.answer(r).predicted, expected.predicted[r], `row ${r + 1}`);
+      for (let r = 0; r < n; r++) assert.equal(session.store.answer(r).headline.predicted, expected.predicted[r], `row ${r + 1}`);
       // The CSV's labels are read as the target, so the file is scored like test data.
       assert.ok(session.summary.heldOut && session.summary.heldOut.scores.kind === 'classification');
       assert.equal(session.summary.heldOut.scores.rows, 150);
@@ -133,7 +137,7 @@ describe('opening an ONNX tree ensemble in the editor', function () {
     it('scores as the original forest, to float32 leaf rounding', () => {
       const expected = predictTable(forest, session.table);
       for (let r = 0; r < session.table.rowCount; r++) {
-        const got = session.store.answer(r).predicted;
+        const got = session.store.answer(r).headline.predicted;
         assert.ok(Math.abs(got - expected.predicted[r]) <= 1e-4 * Math.max(1, Math.abs(expected.predicted[r])), `row ${r + 1}: ${got} vs ${expected.predicted[r]}`);
       }
     });
@@ -156,7 +160,7 @@ describe('opening an ONNX tree ensemble in the editor', function () {
       for (const tree of session.forest.trees) assert.equal(tree.cover[0], n);
       const c = await session.contributions(3);
       const sum = c.base + c.features.reduce((s, f) => s + f.contribution, 0);
-      assert.ok(Math.abs(sum - session.store.answer(2).predicted) < 1e-6, `${sum} vs ${session.store.answer(2).predicted}`);
+      assert.ok(Math.abs(sum - session.store.answer(2).headline.predicted) < 1e-6, `${sum} vs ${session.store.answer(2).headline.predicted}`);
       assert.match((await session.hoverContributions(2)) ?? '', /weigh each split by this file's rows/);
     });
 

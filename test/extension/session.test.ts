@@ -7,7 +7,7 @@ import { loadCsvText } from '../../src/core/csv/load';
 import { inBagCounts } from '../../src/core/forest/bootstrap';
 import { predictEncoded, predictTable } from '../../src/core/forest/predict';
 import { cellCentre, isRegionMap } from '../../src/protocol/messages';
-import { breimanMargin } from '../../src/extension/session/rowStore';
+import { voteMargin } from '../../src/core/forest/row-votes';
 import { loadForForest } from '../../src/extension/session/loadFor';
 import { readSettings } from '../../src/extension/settings';
 import { FIXTURES, fitFixture, readerOf, type Fitted } from './helpers';
@@ -35,26 +35,38 @@ describe('extension session (iris, classification)', () => {
     f.report.trainRows.forEach((r, i) => {
       const a = f.session.store.answer(r);
       const oobTrees = f.report.rows.oobTrees[i];
-      assert.equal(a.oob?.trees ?? 0, oobTrees);
+      assert.equal(a.oob?.tally.trees ?? 0, oobTrees);
       const core = f.report.rows.margin![i];
       if (Number.isNaN(core)) assert.equal(a.margin, undefined);
       else {
         assert.equal(a.margin, core);
-        assert.ok(Math.abs(breimanMargin(a.oob, a.truth!) - core) < 1e-12, `row ${r}`);
+        const t = a.oob!.tally;
+        if (t.kind === 'classification') assert.ok(Math.abs(voteMargin(t.counts, a.truth!, t.trees) - core) < 1e-12, `row ${r}`);
       }
-      if (a.all.kind === 'classification') assert.equal(a.all.counts.reduce((x, y) => x + y, 0), 40);
+      if (a.all.tally.kind === 'classification') assert.equal(a.all.tally.counts.reduce((x, y) => x + y, 0), 40);
+      // The headline of a training row is the out-of-bag answer, the same as the fit's own out-of-bag prediction.
+      if (a.oob) {
+        assert.equal(a.lead, 'out-of-bag');
+        const K = f.report.forest.schema.target.classes!.length;
+        a.oob.proba!.forEach((p, k) => assert.ok(Math.abs(p - f.report.rows.oobProba![i * K + k]) < 1e-12, `row ${r} class ${k}`));
+      }
     });
   });
 
   it('lists suspects most doubtful first, each with an out-of-bag majority other than its label', () => {
     const s = f.session.suspects(50);
-    for (let i = 1; i < s.length; i++) assert.ok(s[i - 1].margin <= s[i].margin);
+    for (let i = 1; i < s.length; i++) assert.ok(s[i - 1].score <= s[i].score);
     for (const x of s) {
-      assert.ok(x.margin < 0);
+      assert.ok(x.score < 0);
       assert.notEqual(x.oobPredicted, x.label);
     }
     // Iris has a handful of versicolor/virginica rows that forests misclassify out-of-bag (common practice to expect a few).
     assert.ok(s.length >= 1 && s.length <= 15, `${s.length} suspects`);
+    // The same rows, in the same order, as the fit's own report lists (one definition, in core).
+    assert.deepEqual(
+      s.map((x) => x.row),
+      f.report.suspects.map((d) => f.report.trainRows[d.index] + 1),
+    );
     const lines = f.session.suspectLines(50);
     assert.equal(lines[0].line, s[0].row + 1, 'one-line rows: data row N sits on line N + 1');
   });
@@ -66,7 +78,7 @@ describe('extension session (iris, classification)', () => {
     assert.equal(f.session.rowAtLine(2, read), 0);
     const md = f.session.hover(0, (row) => `command:copse.showRowVotes?${row}`);
     assert.match(md, /row 1 \(training row; \d+ of 40 trees never saw it\)/);
-    assert.match(md, /Predicted species: setosa/);
+    assert.match(md, /Out-of-bag prediction species: setosa/);
     assert.match(md, /command:copse\.showRowVotes\?1/);
   });
 
@@ -186,7 +198,7 @@ describe('extension session (iris, classification)', () => {
     const { table, delimiter } = await loadForForest((o) => loadCsvText(text, o, 'other.csv'), f.report.forest.schema);
     const other = await f.session.scoreOther(table, delimiter, 'other.csv', () => text);
     const direct = predictTable(f.report.forest, table);
-    for (let r = 0; r < 5; r++) assert.equal(other.store.answer(r).predicted, direct.predicted[r]);
+    for (let r = 0; r < 5; r++) assert.equal(other.store.answer(r).headline.predicted, direct.predicted[r]);
     const md = f.session.hoverOther(other, 2);
     assert.match(md, /row 3 \(scored with the forest from iris\.csv\)/);
     assert.doesNotMatch(md, /out-of-bag/);
@@ -209,19 +221,27 @@ describe('extension session (Friedman #1, regression)', () => {
     const train = f.report.trainRows[0];
     assert.equal(f.session.store.answer(train).role, 'training');
     const md = f.session.hover(train);
-    assert.match(md, /All 15 trees: mean [-\d.]+, sd [\d.]+/);
+    assert.match(md, /All 15 trees, including those fitted on this row: mean [-\d.]+, sd [\d.]+/);
     assert.match(md, /within ±[\d.]+ of the prediction/);
-    assert.equal(f.session.suspects(10).length, 0, 'no margins for regression');
   });
 
   it('measures agreement as the share of trees within the tolerance of the forest value', () => {
-    const r = f.report.trainRows[3];
+    const r = f.report.holdoutRows![3];
     const s = f.session.store;
-    const centre = s.answer(r).predicted;
+    const centre = s.answer(r).all.predicted;
     let near = 0;
     for (let t = 0; t < s.trees; t++) if (Math.abs(s.vote(t, r) - centre) <= s.tolerance) near++;
-    assert.equal(s.answer(r).agreement, near / s.trees);
+    assert.equal(s.answer(r).headline.agreement, near / s.trees);
     assert.ok(s.tolerance > 0);
+  });
+
+  it('lists the training rows whose label is far from their out-of-bag prediction, as the fit does', () => {
+    const s = f.session.suspects(1000);
+    assert.deepEqual(
+      s.map((x) => x.row),
+      f.report.suspects.map((d) => f.report.trainRows[d.index] + 1),
+    );
+    for (const x of s) assert.ok(Math.abs(x.score) > 3.5);
   });
 
   it('maps the mean over trees on the grid', async () => {

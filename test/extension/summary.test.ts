@@ -2,9 +2,13 @@
 import * as assert from 'node:assert/strict';
 import * as path from 'node:path';
 import { isFitSummary, isHostToPanel } from '../../src/protocol/messages';
-import { quantile, residualSummary } from '../../src/extension/summary/summary';
-import { impurityFromTrees } from '../../src/extension/summary/treeImportance';
-import { openedSummary } from '../../src/extension/summary/openedSummary';
+import { quantile, residualSummary } from '../../src/core/summary/parts';
+import { impurityFromTrees } from '../../src/core/explain/impurity';
+import { summarizeOpened } from '../../src/core/summary/opened';
+import { trainingRowsIn } from '../../src/core/forest/membership';
+import { membershipOf } from '../../src/core/forest/row-votes';
+import { predictEncoded } from '../../src/core/forest/predict';
+import { panelSummary } from '../../src/extension/summary/panel';
 import { statusText } from '../../src/extension/statusText';
 import { fitLogLines } from '../../src/extension/fit/fitLog';
 import { FIXTURES, fitFixture, type Fitted } from './helpers';
@@ -24,7 +28,8 @@ describe('extension summary', () => {
   it('builds a classification summary the protocol accepts and that survives JSON', () => {
     const s = iris.session.summary;
     assert.ok(isFitSummary(s));
-    assert.ok(isHostToPanel({ type: 'summary', summary: JSON.parse(JSON.stringify(s)) }));
+    assert.ok(isHostToPanel({ type: 'summary', fit: s.fit, summary: JSON.parse(JSON.stringify(s)) }));
+    assert.ok(!isHostToPanel({ type: 'summary', fit: 'another fit', summary: s }), 'a summary names its own fit');
     assert.equal(s.trees, 30);
     assert.deepEqual(s.classes, ['setosa', 'versicolor', 'virginica']);
     assert.equal(s.curve.length, 30);
@@ -65,19 +70,40 @@ describe('extension summary', () => {
     }
   });
 
-  it('shows no scores for an opened forest against its own training file, rather than in-sample ones', async () => {
+  it('shows an opened forest against its own training file with the fit\'s own out-of-bag scores and doubtful rows', () => {
     const forest = { ...iris.report.forest, training: { ...iris.report.forest.training, fingerprint: iris.load.fingerprint } };
-    const prediction = await iris.session.scorer.predict(iris.session.encoded, 150);
-    const base = { forest, prediction, truth: iris.session.truth, dataset: { label: 'iris.csv', uri: 'file:///iris.csv' }, rowsRead: 150, sampled: false, modelLabel: 'm.json', warnings: [] };
-    const same = openedSummary({ ...base, fingerprint: iris.load.fingerprint });
-    assert.ok(isFitSummary(same));
-    assert.equal(same.heldOut, null);
-    assert.ok(same.warnings.some((w) => /in-sample/.test(w)));
-    const other = openedSummary({ ...base, fingerprint: 'another file' });
-    assert.equal(other.heldOut?.from, 'test');
+    const table = iris.load.table;
+    const training = trainingRowsIn(forest, table, iris.load.fingerprint);
+    assert.ok('trainRows' in training, 'the training rows are recovered from the seed');
+    if (!('trainRows' in training)) return;
+    assert.deepEqual(Array.from(training.trainRows), Array.from(iris.report.trainRows));
+    assert.deepEqual(training.inBag, iris.report.rows.inBag, 'the same bootstrap draws as the fit');
+    const membership = membershipOf(training.trainRows, table.rowCount, training.inBag);
+    const prediction = predictEncoded(forest, iris.session.encoded, table.rowCount, membership);
+    const base = { forest, table, prediction, truth: iris.session.truth, file: 'iris.csv', rowsRead: 150, sampled: false };
+    const same = summarizeOpened({ ...base, fingerprint: iris.load.fingerprint, training });
+    assert.equal(same.oob?.accuracy, iris.report.oob.kind === 'classification' ? iris.report.oob.accuracy : NaN, 'bit for bit the fit\'s out-of-bag accuracy');
+    assert.equal(same.oob?.logLoss, iris.report.oob.kind === 'classification' ? iris.report.oob.logLoss : NaN);
+    assert.equal(same.suspectCount, iris.report.suspects.length);
+    assert.deepEqual(
+      same.suspects.map((r) => r.row),
+      iris.report.suspects.map((d) => iris.report.trainRows[d.index] + 1),
+    );
+    assert.ok(isFitSummary(panelSummary(same, { fit: 'f', uri: 'file:///iris.csv' })));
+    // Read another way (here: a forest that says it held rows out), the training rows cannot be told apart: no in-sample scores.
+    const shifted = { ...forest, training: { ...forest.training, heldOut: 10 } };
+    const unknown = trainingRowsIn(shifted, table, iris.load.fingerprint);
+    assert.ok('unknown' in unknown);
+    const blind = summarizeOpened({ ...base, forest: shifted, prediction: predictEncoded(shifted, iris.session.encoded, 150), fingerprint: iris.load.fingerprint, training: unknown });
+    assert.equal(blind.oob, null);
+    assert.equal(blind.test, undefined);
+    assert.equal(blind.suspectCount, null);
+    assert.ok(blind.warnings.some((w) => /in-sample/.test(w)));
+    const other = summarizeOpened({ ...base, prediction: predictEncoded(forest, iris.session.encoded, 150), fingerprint: 'another file', training: trainingRowsIn(forest, table, 'another file') });
+    assert.equal(other.testFrom, 'file');
     assert.equal(other.oob, null);
     assert.deepEqual(other.curve, []);
-    assert.ok(other.heldOut?.scores.kind === 'classification' && other.heldOut.scores.accuracy > 0.9);
+    assert.ok(other.test?.accuracy !== undefined && other.test.accuracy > 0.9);
   });
 
   it('names the forest in the status bar and logs parameters, notes and timings', () => {

@@ -65,7 +65,7 @@ describe('features-per-split sweep (host side)', function () {
     assert.equal(s.current, 2);
     // The refit at the default count is the forest the fit grew: the same out-of-bag error.
     assert.equal(s.points.find((q) => q.featuresPerSplit === 2)!.oobError, report.curve[report.curve.length - 1]);
-    assert.ok(isHostToPanel({ type: 'sweep', state: 'done', progress: null, text: '', result: s }));
+    assert.ok(isHostToPanel({ fit: 'f', type: 'sweep', state: 'done', progress: null, text: '', result: s }));
   });
 
   it('stops when cancelled part-way', async () => {

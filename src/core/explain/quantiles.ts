@@ -140,7 +140,7 @@ export function quantileIndexFromTrainingTable(forest: Forest, table: Table): Qu
   if (!column) throw new TrainingMismatchError(`The training data has no column "${schema.target.name}", the forest's target.`);
   if (column.kind !== 'numeric') throw new TrainingMismatchError(`The column "${schema.target.name}" is not numeric here, so this is not the data the forest was fitted on.`);
   const rows = trainingRowsIn(forest, table, null);
-  if ('unknown' in rows) throw new TrainingMismatchError(`This is not the forest's training data: ${rows.unknown}.`);
+  if ('unknown' in rows) throw new TrainingMismatchError(`${rows.unknown[0].toUpperCase()}${rows.unknown.slice(1)}.`);
   const n = rows.trainRows.length;
   const y = targetOf(encodeTarget(column, 'regression'), rows.trainRows);
   const p = schema.features.length;

@@ -123,7 +123,7 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
     permutationRows: DEFAULT_PERMUTATION_ROWS,
   };
 
-  const head: ModelHead = { schema, params, training: { rows: n, fingerprint: options.fingerprint ?? '', heldOut: holdout?.length ?? 0, dropped: [...(options.dropped ?? [])] } };
+  const head: ModelHead = { schema, params, training: { rows: n, fingerprint: options.fingerprint ?? '', dropped: [...(options.dropped ?? [])], heldOut: holdout?.length ?? 0 } };
   const keepTrees = options.keepTrees ?? true;
   if (!keepTrees && (holdout || options.test)) throw new RangeError('Scoring a holdout or test set needs the trees kept.');
   const fold = new OobFold(task, n, K, params.trees, trainY, infos.length, options.keepInBag);

@@ -9,6 +9,9 @@ import { splitRows } from './fit';
 import type { Forest } from './forest';
 import { encodeTarget } from './target';
 
+/** The end of every sentence about what an imported forest cannot show: one wording for hover, panel and summary. */
+export const UNAVAILABLE_FOR_IMPORT = 'unavailable for an imported forest: its file carries no training sample';
+
 export interface TrainingRows {
   /** Table rows the forest trained on, in training order. */
   readonly trainRows: Int32Array;
@@ -25,7 +28,7 @@ export interface TrainingRows {
  */
 export function trainingRowsIn(forest: Forest, table: Table, fingerprint: string | null): TrainingRows | { readonly unknown: string } {
   const { training, schema, params } = forest;
-  if (training.rows === 0) return { unknown: 'the forest was imported without its training sample' };
+  if (training.rows === 0) return { unknown: `out-of-bag figures are ${UNAVAILABLE_FOR_IMPORT}` };
   // null: the caller vouches that the table is the training data (a test, or a table already checked).
   if (fingerprint !== null && (training.fingerprint === '' || training.fingerprint !== fingerprint)) {
     return { unknown: 'this file is not the one the forest was trained on' };
@@ -41,7 +44,7 @@ export function trainingRowsIn(forest: Forest, table: Table, fingerprint: string
   // A file read differently (a sample of it, say) has other rows with a target, and its holdout would be drawn wrong.
   const expected = training.heldOut === undefined ? undefined : training.rows + training.heldOut;
   if (withTarget.length < training.rows || (expected !== undefined && withTarget.length !== expected)) {
-    return { unknown: `the forest trained on ${training.rows} rows but this reading of the file has ${withTarget.length} with a target` };
+    return { unknown: `the forest was fitted on ${training.rows} rows; this reading of the data has ${withTarget.length < training.rows ? 'only ' : ''}${withTarget.length} with a target` };
   }
   const { train, holdout } = splitRows(withTarget, withTarget.length - training.rows, params.seed);
   return { trainRows: train, holdoutRows: holdout, inBag: inBagCounts(params, forest.trees.length, train.length) };

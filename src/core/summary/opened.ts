@@ -91,7 +91,7 @@ export function summarizeOpened(i: OpenedSummaryInput): FitSummary {
     trees: forest.trees.length,
     settings: { trees: forest.trees.length, seed: forest.params.seed },
     oob,
-    oobUnavailable: oob ? undefined : 'unknown' in i.training ? `No out-of-bag score: ${i.training.unknown}.` : 'No out-of-bag score.',
+    oobUnavailable: oob ? undefined : 'unknown' in i.training ? `No out-of-bag score: ${i.training.unknown}.` : 'No out-of-bag score: the scoring did not keep the out-of-bag votes.',
     test,
     testFrom,
     importance: {

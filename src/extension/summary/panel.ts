@@ -36,9 +36,10 @@ export function panelSummary(s: CoreFitSummary, extras: PanelExtras): PanelSumma
     })),
     warnings: [...s.notes, ...s.warnings, ...s.cautions.map((c) => c.message)],
     fitSeconds: finiteOrNull(s.fitSeconds),
-    permutationOn: imp.permutationOn ?? undefined,
-    oobUnavailable: s.oob ? undefined : s.oobUnavailable,
     suspectCount: s.suspectCount,
+    // Absent rather than undefined, so the summary reads back from JSON (the reload store) as it was.
+    ...(imp.permutationOn ? { permutationOn: imp.permutationOn } : {}),
+    ...(!s.oob && s.oobUnavailable ? { oobUnavailable: s.oobUnavailable } : {}),
   };
 }
 

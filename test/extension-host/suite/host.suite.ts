@@ -8,7 +8,7 @@ import { loadCsv } from '../../../src/core/csv/load';
 import { fitForest } from '../../../src/core/forest/fit';
 import { Scorer } from '../../../src/core/forest/scorer';
 import { ForestSession } from '../../../src/extension/session/session';
-import { buildSummary } from '../../../src/extension/summary/summary';
+import { summaryFor } from '../../extension/helpers';
 import { readFileSync } from 'node:fs';
 import { inBagCounts } from '../../../src/core/forest/bootstrap';
 
@@ -36,13 +36,13 @@ describe('Copse in the extension host', () => {
   it('hovers a data row of the fitted CSV with its votes, and not the header', async () => {
     const load = await loadCsv(csv);
     const report = await fitForest(load.table, { target: 'species', params: { trees: 20, seed: 1 }, workers: 1 });
-    const summary = buildSummary({ forest: report.forest, report, dataset: { label: 'iris.csv', uri: vscode.Uri.file(csv).toString() }, rowsRead: 150, sampled: false, warnings: [] });
+    const summary = summaryFor(report, { table: load.table, rowsRead: 150 }, 'iris.csv');
     const session = await ForestSession.create({
       forest: report.forest,
       source: { path: csv, label: 'iris.csv', delimiter: load.delimiter, fingerprint: load.fingerprint, rowsRead: 150, header: load.header },
       table: load.table,
       text: () => readFileSync(csv, 'utf8'),
-      oob: { trainRows: report.trainRows, inBag: inBagCounts(report.forest.params, report.forest.trees.length, report.trainRows.length), margin: report.rows.margin },
+      oob: { trainRows: report.trainRows, inBag: inBagCounts(report.forest.params, report.forest.trees.length, report.trainRows.length) },
       summary,
       scorer: new Scorer(report.forest),
     });
