@@ -72,7 +72,7 @@ export function recoverDraws(forest: Forest, table: Table, x: Float64Array, tabl
       for (let v = 0; v < tree.nodeCount; v++) {
         // Covers are float32: allow their rounding, nothing more.
         if (tree.left[v] < 0 && Math.abs(sum[v] - tree.cover[v]) > 1e-6 * Math.max(1, tree.cover[v])) {
-          return `its rows do not reproduce the trees (tree ${t + 1} has ${tree.cover[v]} rows in leaf ${v}, the rows recovered give ${sum[v]}), so the fit read other rows of it: a sample, or other missing-value or column-type options.`;
+          return `its rows do not reproduce the trees (tree ${t + 1}, leaf ${v}: a cover of ${tree.cover[v]} in the forest, ${sum[v]} from these rows), so the fit read other rows of it: a sample, or other missing-value or column-type options.`;
         }
       }
     }
