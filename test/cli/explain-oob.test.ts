@@ -166,12 +166,26 @@ describe('copse explain over out-of-bag trees', function () {
     assert.equal(elsewhere.rows[0].trees, 'all');
     assert.deepEqual(elsewhere.warnings, []);
 
-    // Fitted on a sample of the file: the model does not record it, and the check against the trees refuses.
+    // Fitted on a sample of the file: the model records its rows and that none were held out, so the file's
+    // extra rows tell that it was read differently.
     const sampled = path.join(dir, 'sampled.json');
     json('fit', data, '--target', 'label', '--exclude', 'value', '--sample-rows', '120', '--trees', '10', '--seed', '4', '--no-importance', '--save', sampled, '--json');
     const out = json('explain', sampled, data, '--rows', '3,4', '--json');
     assert.deepEqual(out.rows.map((r: any) => r.trees), ['all', 'all']);
-    assert.match(out.warnings.join(' '), /is the file the forest was fitted on, but which trees drew each row cannot be told for certain: its rows do not reproduce the trees/);
+    const reason = /is the file the forest was fitted on, but which trees drew each row cannot be told for certain: the forest trained on 120 rows but this reading of the file has 156 with a target\./;
+    assert.match(out.warnings.join(' '), reason);
+
+    // A model file from before the holdout's size was kept cannot tell a sample from a holdout by counting;
+    // the check of the recovered draws against the trees' covers refuses it.
+    const head = JSON.parse(readFileSync(sampled, 'utf8').split('\n')[0]);
+    assert.equal(head.training.heldOut, 0, 'the fit records what it held out');
+    delete head.training.heldOut;
+    const older = path.join(dir, 'older.json');
+    const [, ...trees] = readFileSync(sampled, 'utf8').split('\n');
+    writeFileSync(older, [JSON.stringify(head), ...trees].join('\n'));
+    const refused = json('explain', older, data, '--rows', '3,4', '--json');
+    assert.deepEqual(refused.rows.map((r: any) => r.trees), ['all', 'all']);
+    assert.match(refused.warnings.join(' '), /cannot be told for certain: its rows do not reproduce the trees \(tree 1, leaf \d+: /);
     const text = copse('explain', sampled, data, '--rows', '3');
     assert.match(text.stderr, /^Warning: .*Every row is explained over all trees\.$/m);
   });

@@ -4,7 +4,7 @@ import { predictEncoded } from '../../core/forest/predict';
 import { argmaxAt } from '../../core/metrics/scores';
 import { withCoverFrom } from '../../core/forest/cover';
 import type { Forest } from '../../core/forest/forest';
-import { recoverDraws } from '../../core/forest/training-rows';
+import { checkedDraws } from '../../core/forest/checked-draws';
 import { knowsTraining } from '../../core/model/open';
 import { flag, parse, text, UsageError, wholeNumber, type Options } from '../args';
 import { MODEL_HELP, MODEL_OPTIONS, openForData } from '../model';
@@ -74,7 +74,7 @@ export async function runExplain(argv: string[]): Promise<void> {
   // Per row: its out-of-bag trees; null for a row of the training file no tree drew; absent for all trees.
   let ownTrees: Array<Int32Array | null> | undefined;
   if (!flag(args, 'all-trees') && knowsTraining(forest) && forest.training.fingerprint !== '' && loaded.fingerprint === forest.training.fingerprint) {
-    const draws = recoverDraws(forest, table, encoded, tableRows);
+    const draws = checkedDraws(forest, table, encoded, loaded.fingerprint, tableRows);
     if (typeof draws === 'string') notes.push(`${dataPath} is the file the forest was fitted on, but which trees drew each row cannot be told for certain: ${draws} Every row is explained over all trees.`);
     else ownTrees = draws.outOfBag;
   }

@@ -5,8 +5,9 @@ import seedrandom from 'seedrandom';
 import { outOfBagTrees } from '../../src/core/forest/bootstrap';
 import { fitForest } from '../../src/core/forest/fit';
 import { encodeTable } from '../../src/core/forest/predict';
-import { recoverDraws } from '../../src/core/forest/training-rows';
+import { checkedDraws } from '../../src/core/forest/checked-draws';
 import type { Table } from '../../src/core/data/table';
+import type { Forest } from '../../src/core/forest/forest';
 import { tableFrom } from './helpers/table';
 
 /** Two numeric features and a category; a three-class label and a value, both missing on every 17th row. */
@@ -30,6 +31,13 @@ function rows(n: number, seed: string): Table {
     value.push(i % 17 === 3 ? null : s);
   }
   return tableFrom({ a, b, tint, label, value });
+}
+
+/** The forest as a model file written before the holdout's size was recorded reads. */
+function withoutHeldOut(forest: Forest): Forest {
+  const training = { ...forest.training };
+  delete (training as { heldOut?: number }).heldOut;
+  return { ...forest, training };
 }
 
 function pick(table: Table, keep: (i: number) => boolean): Table {
@@ -57,7 +65,7 @@ describe('recovering a forest’s draws from its training table', function () {
     });
     const { forest, trainRows, holdoutRows, rows: results } = report;
     const all = Array.from({ length: table.rowCount }, (_, i) => i);
-    const got = recoverDraws(forest, table, encodeTable(forest.schema, table), all);
+    const got = checkedDraws(forest, table, encodeTable(forest.schema, table), null, all);
     assert.ok(typeof got !== 'string', String(got));
     assert.deepEqual(got.trainRows, trainRows);
     assert.equal(got.checkedTrees, 15);
@@ -71,6 +79,9 @@ describe('recovering a forest’s draws from its training table', function () {
       assert.deepEqual(got.outOfBag[r], outOfBagTrees(results.inBag!, 15, trainRows.length, at));
     }
     assert.ok(holdoutRows!.length > 50 && got.outOfBag.filter((t) => t === null).length === table.rowCount - trainRows.length);
+    // A model file written before the holdout's size was kept: the split is inferred, and the covers confirm it.
+    const older = checkedDraws(withoutHeldOut(forest), table, encodeTable(forest.schema, table), null, all);
+    assert.deepEqual(older, got);
   });
 
   it('refuses a table the forest was fitted on a part of, another target, or too few rows', async () => {
@@ -80,14 +91,17 @@ describe('recovering a forest’s draws from its training table', function () {
     const report = await fitForest(half, { target: 'value', exclude: ['label'], params: { trees: 8, seed: 3 }, workers: 1, permutationImportance: false, keepInBag: true });
     const { forest } = report;
     const x = encodeTable(forest.schema, table);
-    assert.match(String(recoverDraws(forest, table, x, [0])), /do not reproduce the trees \(tree 1, /);
+    // The model records that nothing was held out, so the extra rows give it away at once...
+    assert.match(String(checkedDraws(forest, table, x, null, [0])), /trained on 113 rows but this reading of the file has 226 with a target\.$/);
+    // ...and a model file too old to say is caught by its trees.
+    assert.match(String(checkedDraws(withoutHeldOut(forest), table, x, null, [0])), /do not reproduce the trees \(tree 1, leaf \d+: /);
     const tooFew = pick(table, (i) => i < 60);
-    assert.match(String(recoverDraws(forest, tooFew, encodeTable(forest.schema, tooFew), [0])), /fitted on \d+ rows, and the file has only \d+ with a target/);
-    const noTarget = pick(table, () => true);
-    const renamed = { ...noTarget, columns: noTarget.columns.map((c) => (c.name === 'value' ? { ...c, name: 'worth' } : c)) };
-    assert.match(String(recoverDraws(forest, renamed, x, [0])), /no column "value"/);
+    assert.match(String(checkedDraws(forest, tooFew, encodeTable(forest.schema, tooFew), null, [0])), /trained on 113 rows but this reading of the file has 56 with a target/);
+    const renamed = { ...table, columns: table.columns.map((c) => (c.name === 'value' ? { ...c, name: 'worth' } : c)) };
+    assert.match(String(checkedDraws(forest, renamed, x, null, [0])), /no column "value"/);
+    assert.match(String(checkedDraws(forest, table, x, 'f'.repeat(64), [0])), /not the one the forest was trained on/);
     // The table it was fitted on is recovered exactly.
-    const own = recoverDraws(forest, half, encodeTable(forest.schema, half), [0, 1]);
+    const own = checkedDraws(forest, half, encodeTable(forest.schema, half), null, [0, 1]);
     assert.ok(typeof own !== 'string', String(own));
     const n = report.trainRows.length;
     assert.deepEqual(own.outOfBag, [0, 1].map((i) => outOfBagTrees(report.rows.inBag!, 8, n, i)));
