@@ -4,13 +4,30 @@
 // was given once, and the answers for all trees and for out-of-bag trees are kept apart.
 import * as assert from 'node:assert/strict';
 import * as path from 'node:path';
+import { loadCsv } from '../../src/core/csv/load';
+import type { LoadResult } from '../../src/core/csv/types';
 import { ContributionExplainer } from '../../src/core/explain/contributions';
 import { outOfBagTrees } from '../../src/core/forest/bootstrap';
+import { fitForest, type FitReport } from '../../src/core/forest/fit';
 import { encodeTable, leafOf, levelCounts } from '../../src/core/forest/predict';
 import { Explanations, outputsOf } from '../../src/extension/session/explanations';
-import type { ExplainerLike } from '../../src/extension/workers/explainClient';
+import { ExplainClient, type ExplainerLike } from '../../src/extension/workers/explainClient';
 import { ExplainState, type ExplainRequest, type ExplainSetup } from '../../src/extension/workers/explainJobs';
-import { fitFixture, FIXTURES, type Fitted } from './helpers';
+
+const FIXTURES = path.resolve(__dirname, '..', '..', '..', 'test', 'fixtures', 'open');
+
+/** A fit as the editor makes one: the draws kept, and the whole table encoded. */
+interface Fitted {
+  load: LoadResult;
+  report: FitReport;
+  encoded: Float64Array;
+}
+
+async function fitFile(file: string, target: string, params: { trees: number; seed: number }, holdout?: number): Promise<Fitted> {
+  const load = await loadCsv(path.join(FIXTURES, file));
+  const report = await fitForest(load.table, { target, params, workers: 2, holdout, keepInBag: true, permutationImportance: false });
+  return { load, report, encoded: encodeTable(report.forest.schema, load.table) };
+}
 
 const close = (a: number, b: number, tol = 1e-9) => Math.abs(a - b) <= tol * Math.max(1, Math.abs(a), Math.abs(b));
 
@@ -31,7 +48,7 @@ function inProcess(setup: ExplainSetup): { explainer: ExplainerLike; requests: E
 function setupOf(f: Fitted, inBag?: Uint8Array): ExplainSetup {
   const { forest } = f.report;
   const p = forest.schema.features.length;
-  const all = encodeTable(forest.schema, f.load.table);
+  const all = f.encoded;
   const rows = f.report.trainRows;
   const trainX = new Float64Array(rows.length * p);
   rows.forEach((r, i) => trainX.set(all.subarray(r * p, r * p + p), i * p));
@@ -42,9 +59,8 @@ describe('out-of-bag explanations on the explanation thread (iris, classificatio
   this.timeout(120_000);
   let f: Fitted;
   before(async () => {
-    f = await fitFixture(path.join(FIXTURES, 'iris.csv'), 'species', { trees: 30, seed: 5 }, { holdout: 0.2 });
+    f = await fitFile('iris.csv', 'species', { trees: 30, seed: 5 }, 0.2);
   });
-  after(async () => f?.session.dispose());
 
   it('explains each training row over the trees that never drew it, adding up to its out-of-bag probabilities', () => {
     const { forest, rows } = f.report;
@@ -98,7 +114,7 @@ describe('out-of-bag explanations on the explanation thread (iris, classificatio
   it('keeps a row’s out-of-bag answer apart from its all-trees one, and asks the thread once for each', async () => {
     const { forest, rows, trainRows, holdoutRows } = f.report;
     const { explainer, requests } = inProcess(setupOf(f, rows.inBag));
-    const e = new Explanations(forest, explainer, f.session.encoded, f.load.table.rowCount, trainRows, 1);
+    const e = new Explanations(forest, explainer, f.encoded, f.load.table.rowCount, trainRows, 1);
     const position = 12;
     const r = trainRows[position];
     const oob = await e.rowContributions(r, 'now', undefined, 'out-of-bag');
@@ -132,16 +148,19 @@ describe('out-of-bag explanations on the explanation thread (iris, classificatio
   });
 });
 
-describe('out-of-bag explanations through the session’s thread (diabetes, regression)', function () {
+describe('out-of-bag explanations on a real explanation thread (diabetes, regression)', function () {
   this.timeout(120_000);
   let f: Fitted;
+  let e: Explanations;
   before(async () => {
-    f = await fitFixture(path.join(FIXTURES, 'diabetes.csv'), 'progression', { trees: 20, seed: 2 });
+    f = await fitFile('diabetes.csv', 'progression', { trees: 20, seed: 2 });
+    // As the editor starts it after a regression fit: the report rides along for intervals, the counts with it.
+    const setup = { ...setupOf(f), forest: undefined, quantiles: { from: 'fit' as const, report: f.report, table: f.load.table } };
+    e = new Explanations(f.report.forest, new ExplainClient(setup), f.encoded, f.load.table.rowCount, f.report.trainRows, 2);
   });
-  after(async () => f?.session.dispose());
+  after(async () => e?.dispose());
 
   it('takes the fit’s own bootstrap counts when the setup has none, and adds up to the out-of-bag value', async () => {
-    const e = f.session.explanations!;
     const { rows, trainRows } = f.report;
     let checked = 0;
     for (const position of [0, 41, 200, 441]) {
