@@ -13,6 +13,8 @@ export interface ChosenRows {
   readonly tableRows: number[];
   /** Their encoded features, row-major. */
   readonly x: Float64Array;
+  /** Every row of the file, encoded the same way. */
+  readonly encoded: Float64Array;
   readonly loaded: LoadResult;
 }
 
@@ -40,5 +42,5 @@ export async function chooseRows(forest: Forest, dataPath: string, wanted: numbe
   const tableRows = wanted.map((r) => index.get(r)!);
   const x = new Float64Array(wanted.length * p);
   tableRows.forEach((t, j) => x.set(all.subarray(t * p, (t + 1) * p), j * p));
-  return { wanted, tableRows, x, loaded };
+  return { wanted, tableRows, x, encoded: all, loaded };
 }

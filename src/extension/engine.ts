@@ -16,7 +16,7 @@ export type { FitOptions, FitReport, RowResults } from '../core/forest/fit';
 export type { Scores, ClassificationScores, RegressionScores } from '../core/metrics/scores';
 export { classificationScores, regressionScores } from '../core/metrics/scores';
 export { fitForest, inferTask } from '../core/forest/fit';
-export { inBagCounts } from '../core/forest/bootstrap';
+export { inBagCounts, outOfBagTrees } from '../core/forest/bootstrap';
 export type { Prediction } from '../core/forest/predict';
 export { encodeTable, SchemaMismatchError } from '../core/forest/predict';
 export { Scorer } from '../core/forest/scorer';

@@ -3,7 +3,8 @@ import { ContributionExplainer } from '../../core/explain/contributions';
 import { predictEncoded } from '../../core/forest/predict';
 import { argmaxAt } from '../../core/metrics/scores';
 import { withCoverFrom } from '../../core/forest/cover';
-import { encodeTable } from '../../core/forest/predict';
+import type { Forest } from '../../core/forest/forest';
+import { checkedDraws } from '../../core/forest/checked-draws';
 import { knowsTraining } from '../../core/model/open';
 import { flag, parse, text, UsageError, wholeNumber, type Options } from '../args';
 import { MODEL_HELP, MODEL_OPTIONS, openForData } from '../model';
@@ -15,16 +16,29 @@ Shows how much each feature moved a saved forest's prediction on chosen rows of 
 forest's average prediction. The contributions are exact Shapley values of the trees (Lundberg et al. 2020)
 and add up to the prediction. Rows are counted from 1: the first row after the header is row 1.
 
+When DATA.csv is the file the forest was fitted on, each training row is explained over the trees that
+did not train on it (its out-of-bag trees), since the others have seen its answer: the prediction shown
+is then the out-of-bag one. Rows the fit held out are explained over all trees, none of which saw them.
+
 Options:
   --rows LIST     comma-separated data row numbers (required)
+  --all-trees     explain every row over all trees, as for new data, even in the training file
   --class LABEL   classification: explain the probability of this class (default: the predicted class)
   --top N         show the N largest contributions per row (default 10; all with --json)
-  --json          print one JSON object: per row its prediction, the average prediction ("base")
-                  and every feature's contribution (per class for classification)
+  --json          print one JSON object: per row its prediction, the average prediction ("base"),
+                  every feature's contribution (per class for classification), and which trees
+                  were used ("trees": "out-of-bag" or "all", and "treeCount")
 ${MODEL_HELP}  --debug         show stack traces on errors
 `;
 
-const OPTIONS: Options = { rows: { type: 'string' }, class: { type: 'string' }, top: { type: 'string' }, json: { type: 'boolean' }, ...MODEL_OPTIONS };
+const OPTIONS: Options = {
+  rows: { type: 'string' },
+  class: { type: 'string' },
+  top: { type: 'string' },
+  json: { type: 'boolean' },
+  'all-trees': { type: 'boolean' },
+  ...MODEL_OPTIONS,
+};
 
 interface ExplainedRow {
   row: number;
@@ -34,6 +48,9 @@ interface ExplainedRow {
   base: number | Record<string, number>;
   contributions: Record<string, number> | Record<string, Record<string, number>>;
   values: Record<string, string>;
+  /** 'out-of-bag': only trees that never drew the row (every tree, for a row the fit did not train on). */
+  trees: 'out-of-bag' | 'all';
+  treeCount: number;
 }
 
 export async function runExplain(argv: string[]): Promise<void> {
@@ -52,22 +69,42 @@ export async function runExplain(argv: string[]): Promise<void> {
     if (target.task !== 'classification') throw new UsageError('--class applies to classification forests; this one is a regression.', 'explain');
     if (!classes.includes(chosen)) throw new UsageError(`--class: the forest has no class "${chosen}"; its classes are ${classes.map((c) => `"${c}"`).join(', ')}.`, 'explain');
   }
-  const { loaded, tableRows, x } = await chooseRows(forest, dataPath, wanted, 'explain');
+  const { loaded, tableRows, x, encoded } = await chooseRows(forest, dataPath, wanted, 'explain');
   const table = loaded.table;
+  // Per row: its out-of-bag trees; null for a row of the training file no tree drew; absent for all trees.
+  let ownTrees: Array<Int32Array | null> | undefined;
+  if (!flag(args, 'all-trees') && knowsTraining(forest) && forest.training.fingerprint !== '' && loaded.fingerprint === forest.training.fingerprint) {
+    const draws = checkedDraws(forest, table, encoded, loaded.fingerprint, tableRows);
+    if (typeof draws === 'string') notes.push(`${dataPath} is the file the forest was fitted on, but which trees drew each row cannot be told for certain: ${draws} Every row is explained over all trees.`);
+    else ownTrees = draws.outOfBag;
+  }
   if (!knowsTraining(forest)) {
     // Explanations weigh a split's sides by the rows that reached them; an import has no training counts.
-    forest = withCoverFrom(forest, encodeTable(forest.schema, table, dataPath, loaded.header), table.rowCount);
+    forest = withCoverFrom(forest, encoded, table.rowCount);
     notes.push(`The model carries no training row counts, so each split's sides are weighed by the ${table.rowCount} rows of ${dataPath}.`);
   }
   const names = forest.schema.features.map((f) => f.name);
   const p = names.length;
-  const pred = predictEncoded(forest, x, wanted.length);
+  const whole = predictEncoded(forest, x, wanted.length);
   const explainer = new ContributionExplainer(forest);
   const K = explainer.outputs;
+  const T = forest.trees.length;
   const columns = forest.schema.features.map((f) => findColumn(table, f.name)!);
 
   const rows = wanted.map((r, j): ExplainedRow => {
-    const phi = explainer.explainRow(x, j * p);
+    const own = ownTrees?.[j];
+    let trees = own ?? undefined;
+    if (trees && trees.length === 0) {
+      notes.push(`Every one of the ${T} trees drew row ${r}, so it is explained over all trees.`);
+      trees = undefined;
+    }
+    // A row of the training file that the fit did not train on (held out, or without a target): no tree drew it.
+    const used = { trees: trees !== undefined || own === null ? ('out-of-bag' as const) : ('all' as const), treeCount: trees?.length ?? T };
+    const phi = explainer.explainRow(x, j * p, undefined, trees);
+    const base = trees ? explainer.baseOver(trees) : explainer.base;
+    // The prediction of the same trees, by the scoring walk, so it is what base plus the contributions explain.
+    const pred = trees ? predictEncoded(subForest(forest, trees), x.subarray(j * p, (j + 1) * p), 1) : whole;
+    const at = trees ? 0 : j;
     const tableRow = tableRows[j];
     const values = Object.fromEntries(names.map((n, f) => [n, cellText(columns[f], tableRow)]));
     const line = table.lineOfRow[tableRow];
@@ -76,14 +113,15 @@ export async function runExplain(argv: string[]): Promise<void> {
       return {
         row: r,
         line,
-        prediction: classes[argmaxAt(pred.proba!, j * K, K)],
-        probabilities: Object.fromEntries(classes.map((c, k) => [c, pred.proba![j * K + k]])),
-        base: Object.fromEntries(classes.map((c, k) => [c, explainer.base[k]])),
+        prediction: classes[argmaxAt(pred.proba!, at * K, K)],
+        probabilities: Object.fromEntries(classes.map((c, k) => [c, pred.proba![at * K + k]])),
+        base: Object.fromEntries(classes.map((c, k) => [c, base[k]])),
         contributions: Object.fromEntries(classes.map((c, k) => [c, perClass(k)])),
         values,
+        ...used,
       };
     }
-    return { row: r, line, prediction: pred.predicted[j], base: explainer.base[0], contributions: Object.fromEntries(names.map((n, f) => [n, phi[f]])), values };
+    return { row: r, line, prediction: pred.predicted[at], base: base[0], contributions: Object.fromEntries(names.map((n, f) => [n, phi[f]])), values, ...used };
   });
 
   if (flag(args, 'json')) {
@@ -91,7 +129,12 @@ export async function runExplain(argv: string[]): Promise<void> {
     return;
   }
   for (const w of [...notes, ...loaded.warnings]) process.stderr.write(`Warning: ${w}\n`);
-  process.stdout.write(rows.map((row) => readable(row, chosen, top)).join('\n'));
+  process.stdout.write(rows.map((row) => readable(row, chosen, top, T)).join('\n'));
+}
+
+/** The forest with only the listed trees, for scoring a row with its out-of-bag trees. */
+function subForest(forest: Forest, trees: ArrayLike<number>): Forest {
+  return { ...forest, trees: Array.from(trees, (t) => forest.trees[t]) };
 }
 
 /** Signed, with one number of decimals per row, so the column lines up and the largest shows four digits. */
@@ -101,7 +144,12 @@ function signer(values: number[]): (v: number) => string {
   return (v) => (v >= 0 ? '+' : '') + v.toFixed(decimals);
 }
 
-function readable(row: ExplainedRow, chosen: string | undefined, top: number): string {
+function readable(row: ExplainedRow, chosen: string | undefined, top: number, forestTrees: number): string {
+  let over = '';
+  if (row.trees === 'out-of-bag') {
+    over = row.treeCount === forestTrees ? `, over all ${row.treeCount} trees, none of which trained on this row` : `, over the ${row.treeCount} trees that did not train on this row`;
+  }
+  const who = `Row ${row.row} (line ${row.line})${over}`;
   let head: string;
   let base: number;
   let output: number;
@@ -111,12 +159,12 @@ function readable(row: ExplainedRow, chosen: string | undefined, top: number): s
     base = (row.base as Record<string, number>)[cls];
     output = row.probabilities[cls];
     phi = (row.contributions as Record<string, Record<string, number>>)[cls];
-    head = `Row ${row.row} (line ${row.line}): predicted "${row.prediction}"; probability of "${cls}" ${output.toFixed(3)}, against ${base.toFixed(3)} on average`;
+    head = `${who}: predicted "${row.prediction}"; probability of "${cls}" ${output.toFixed(3)}, against ${base.toFixed(3)} on average`;
   } else {
     base = row.base as number;
     output = row.prediction as number;
     phi = row.contributions as Record<string, number>;
-    head = `Row ${row.row} (line ${row.line}): predicted ${output.toPrecision(6)}, against ${base.toPrecision(6)} on average`;
+    head = `${who}: predicted ${output.toPrecision(6)}, against ${base.toPrecision(6)} on average`;
   }
   const signed = signer([...Object.values(phi), output - base]);
   const order = Object.keys(phi).sort((a, b) => Math.abs(phi[b]) - Math.abs(phi[a]) || (a < b ? -1 : 1));

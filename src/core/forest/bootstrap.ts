@@ -40,3 +40,14 @@ export function inBagCounts(params: { seed: number; sampleFraction: number; repl
   }
   return inBag;
 }
+
+/** The trees that never drew row i (ascending), from tree-major in-bag counts over n rows (inBag[t * n + i]). */
+export function outOfBagTrees(inBag: ArrayLike<number>, trees: number, n: number, i: number): Int32Array {
+  if (!(Number.isInteger(i) && i >= 0 && i < n)) throw new RangeError(`There is no training row ${i}; there are ${n}.`);
+  if (inBag.length !== trees * n) throw new RangeError(`In-bag counts for ${trees} trees and ${n} rows need ${trees * n} entries; got ${inBag.length}.`);
+  let count = 0;
+  for (let t = 0; t < trees; t++) if (inBag[t * n + i] === 0) count++;
+  const out = new Int32Array(count);
+  for (let t = 0, at = 0; t < trees; t++) if (inBag[t * n + i] === 0) out[at++] = t;
+  return out;
+}

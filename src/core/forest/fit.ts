@@ -198,7 +198,7 @@ function sharedTarget(y: Float64Array, classes?: number): TargetData {
 }
 
 /** Balanced class weights n / (K * n_k), as is common practice. */
-function rowWeights(target: TargetData, mode: ForestParams['classWeight']): Float64Array {
+export function rowWeights(target: TargetData, mode: ForestParams['classWeight']): Float64Array {
   const n = target.y.length;
   const w = new Float64Array(new SharedArrayBuffer(Math.max(8, n * 8)), 0, n).fill(1);
   if (mode === 'balanced' && target.kind === 'classes') {

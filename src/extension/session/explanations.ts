@@ -7,12 +7,24 @@
 // (contributions: hundreds of milliseconds a row for a deep regression forest) is done for the rows someone
 // looks at, and for a bounded random sample in the background for the global view.
 
-import type { Dependence, GlobalContributions, PredictionInterval, RowContributions } from '../../protocol/messages';
-import type { FeatureInfo, Forest, PartialDependence } from '../engine';
+import type { GlobalContributions, PredictionInterval } from '../../protocol/messages';
+import type { Forest, PartialDependence } from '../engine';
 import { meanAbsoluteContributions, outputCount, shuffle, stream } from '../engine';
-import { formatNumber } from '../engine';
 import type { ExplainerLike, Urgency } from '../workers/explainClient';
-import type { ExplainResults } from '../workers/explainJobs';
+import type { ExplainResults, RequestOf } from '../workers/explainJobs';
+import type { RowExplanation } from './explanationText';
+import { Recent } from './recent';
+
+// The shaping helpers lived here first; callers still import them from this module.
+export {
+  defaultDependenceOutput,
+  dependenceMessage,
+  featureValueText,
+  largestContributions,
+  outputsOf,
+  rowContributionsMessage,
+  type RowExplanation,
+} from './explanationText';
 
 /** Rows in the background sample for the global view (a random sample, so its first k rows are one too). */
 export const GLOBAL_SAMPLE_ROWS = 100;
@@ -26,44 +38,17 @@ export const DEPENDENCE_ROWS = 200;
 const INTERVAL_CHUNK = 500;
 const ROW_CACHE = 256;
 
+/** One row's answer (rows = 1): see ContributionsResult in workers/explainJobs.ts. */
 export type RowContribution = ExplainResults['contributions'];
 
-/** The signed contributions of one row to one output, ready to show. */
-export interface RowExplanation {
-  /** Class code explained, or null for a regression value. */
-  readonly output: number | null;
-  readonly base: number;
-  readonly prediction: number;
-  /** One per feature, in the forest's order. */
-  readonly values: Float64Array;
-}
+/**
+ * Which trees explain a row of the fitted table. 'all': the forest's prediction. 'out-of-bag': only the trees
+ * that never drew the row, the honest account of a training row, which most trees memorised; for a row the
+ * forest was not trained on (held out, or without a target) that is every tree.
+ */
+export type TreeChoice = 'all' | 'out-of-bag';
 
 export type IntervalAnswer = PredictionInterval | { readonly unavailable: string };
-
-/** A map that forgets the least recently used entry beyond a size. */
-class Recent<V> {
-  private readonly map = new Map<number, V>();
-  constructor(private readonly limit: number) {}
-
-  get(key: number): V | undefined {
-    const v = this.map.get(key);
-    if (v !== undefined) {
-      this.map.delete(key);
-      this.map.set(key, v);
-    }
-    return v;
-  }
-
-  set(key: number, v: V): void {
-    this.map.delete(key);
-    this.map.set(key, v);
-    if (this.map.size > this.limit) this.map.delete(this.map.keys().next().value!);
-  }
-
-  delete(key: number): void {
-    this.map.delete(key);
-  }
-}
 
 /**
  * A row's contributions, asked for by one or more callers. A caller may give a signal: when every caller
@@ -92,10 +77,13 @@ export class Explanations {
   private readonly otherIntervals = new WeakMap<object, Recent<Promise<IntervalAnswer>>>();
   private intervals: IntervalTable | undefined;
   private readonly dependenceByFeature = new Map<number, Promise<PartialDependence>>();
-  /** The fitted table's scope in the row caches. */
+  /** The fitted table's scopes in the row caches: over all trees, and over each row's out-of-bag trees. */
   private readonly table = {};
+  private readonly tableOutOfBag = {};
+  /** Per table row: its position among the training rows, -1 for a row the forest was not trained on. */
+  private readonly trainPos: Int32Array;
   /** The one row waiting to be prefetched, and whether a prefetch is on the thread now. */
-  private prefetchWanted: number | undefined;
+  private prefetchWanted: { readonly r: number; readonly trees: TreeChoice } | undefined;
   private prefetching = false;
   private readonly closed = new AbortController();
 
@@ -111,6 +99,8 @@ export class Explanations {
   ) {
     this.p = forest.schema.features.length;
     this.outputs = outputCount(forest.schema.target);
+    this.trainPos = new Int32Array(rowCount).fill(-1);
+    trainRows.forEach((r, i) => (this.trainPos[r] = i));
   }
 
   get regression(): boolean {
@@ -120,40 +110,58 @@ export class Explanations {
   // ---------------------------------------------------------------------------------------------
   // Contributions
 
-  /** All outputs' contributions for row r of the fitted table; computed once. */
-  rowContributions(r: number, urgency: Urgency, signal?: AbortSignal): Promise<RowContribution> {
-    return this.contributions(this.table, r, this.encoded, urgency, signal);
+  /**
+   * All outputs' contributions for row r of the fitted table over the chosen trees; computed once per row and
+   * choice (the two are cached apart). The answer's outOfBag[0] and trees[0] say which trees were used: an
+   * out-of-bag request falls back to all trees, with a note, when the thread was not given the bootstrap
+   * counts or every tree drew the row.
+   */
+  rowContributions(r: number, urgency: Urgency, signal?: AbortSignal, trees: TreeChoice = 'all'): Promise<RowContribution> {
+    const { p } = this;
+    const row = () => this.encoded.slice(r * p, r * p + p);
+    if (trees === 'all') return this.cached(this.table, r, () => ({ kind: 'contributions', x: row(), rows: 1 }), urgency, signal);
+    const position = this.trainPos[r];
+    if (position >= 0) {
+      return this.cached(this.tableOutOfBag, r, () => ({ kind: 'contributions', x: row(), rows: 1, outOfBag: Int32Array.of(position) }), urgency, signal);
+    }
+    // No tree drew a row outside the training rows, so all trees are its out-of-bag trees: one computation.
+    return this.rowContributions(r, urgency, signal, 'all').then((c) => ({ ...c, outOfBag: Uint8Array.of(1) }));
   }
 
   /**
    * Works out a row's contributions before anyone asks (the cursor just settled on it). One prefetch at a
    * time, and only the latest row waits: moving through a file never stacks up stale work.
    */
-  prefetch(r: number): void {
-    this.prefetchWanted = r;
+  prefetch(r: number, trees: TreeChoice = 'all'): void {
+    this.prefetchWanted = { r, trees };
     if (this.prefetching) return;
     this.prefetching = true;
     void (async () => {
       while (this.prefetchWanted !== undefined && !this.closed.signal.aborted) {
         const next = this.prefetchWanted;
         this.prefetchWanted = undefined;
-        await this.rowContributions(next, 'soon').catch(() => undefined);
+        await this.rowContributions(next.r, 'soon', undefined, next.trees).catch(() => undefined);
       }
       this.prefetching = false;
     })();
   }
 
-  /** All outputs' contributions for row r of `scope`, another scored file whose encoded rows are x. */
+  /** All outputs' contributions (over all trees) for row r of `scope`, another scored file whose encoded rows are x. */
   contributions(scope: object, r: number, x: Float64Array, urgency: Urgency, signal?: AbortSignal): Promise<RowContribution> {
+    const { p } = this;
+    return this.cached(scope, r, () => ({ kind: 'contributions', x: x.slice(r * p, r * p + p), rows: 1 }), urgency, signal);
+  }
+
+  /** Row r's answer in `scope`'s cache, asking the thread (`request`) when there is none. */
+  private cached(scope: object, r: number, request: () => RequestOf<'contributions'>, urgency: Urgency, signal?: AbortSignal): Promise<RowContribution> {
     let cache = this.rows.get(scope);
     if (!cache) this.rows.set(scope, (cache = new Recent(ROW_CACHE)));
     const rows = cache;
     let entry = rows.get(r);
     if (entry) this.explainer.raise?.(entry.promise, urgency);
     else {
-      const { p } = this;
       const withdraw = new AbortController();
-      const promise = this.explainer.run({ kind: 'contributions', x: x.slice(r * p, r * p + p), rows: 1 }, urgency, withdraw.signal);
+      const promise = this.explainer.run(request(), urgency, withdraw.signal);
       const made: Pending = { promise, withdraw, interest: 0 };
       entry = made;
       rows.set(r, made);
@@ -171,7 +179,10 @@ export class Explanations {
     return e.promise;
   }
 
-  /** The contributions to the output shown for a row: the predicted class, or the value. */
+  /**
+   * The contributions to the output shown for a row: the given class (the forest's prediction; for an
+   * out-of-bag answer, the caller may rather pass the class its trees predict, argmax of outputsOf), or the value.
+   */
   explanationOf(c: RowContribution, predictedClass: number | null): RowExplanation {
     const K = c.outputs;
     const k = this.regression || predictedClass === null ? 0 : predictedClass;
@@ -181,7 +192,8 @@ export class Explanations {
       values[j] = c.values[j * K + k];
       sum += values[j];
     }
-    return { output: this.regression ? null : k, base: c.base[k], prediction: sum, values };
+    const note = c.note === undefined ? {} : { note: c.note };
+    return { output: this.regression ? null : k, base: c.base[k], prediction: sum, values, trees: c.trees[0], outOfBag: c.outOfBag[0] === 1, ...note };
   }
 
   /**
@@ -319,82 +331,6 @@ export class Explanations {
     this.closed.abort();
     await this.explainer.dispose();
   }
-}
-
-// -------------------------------------------------------------------------------------------------
-// Shaping answers for the panel and the hover (pure)
-
-/** A feature's encoded value as a person reads it. */
-export function featureValueText(f: FeatureInfo, v: number): string {
-  if (Number.isNaN(v)) return '(missing)';
-  if (f.kind === 'numeric') return formatNumber(v);
-  return f.levels?.[v] ?? String(v);
-}
-
-export function rowContributionsMessage(forest: Forest, x: ArrayLike<number>, offset: number, dataRow: number, e: RowExplanation): RowContributions {
-  return {
-    row: dataRow,
-    output: e.output,
-    base: e.base,
-    prediction: e.prediction,
-    features: forest.schema.features.map((f, j) => ({ feature: f.name, value: featureValueText(f, x[offset + j]), contribution: e.values[j] })),
-  };
-}
-
-/** The n contributions largest in size, largest first (ties: forest order), and what the rest add up to. */
-export function largestContributions(names: readonly string[], values: ArrayLike<number>, n: number): { top: Array<{ feature: string; contribution: number }>; rest: number; others: number } {
-  const order = Array.from({ length: values.length }, (_, j) => j).sort((a, b) => Math.abs(values[b]) - Math.abs(values[a]) || a - b);
-  const top = order.slice(0, n).map((j) => ({ feature: names[j], contribution: values[j] }));
-  let rest = 0;
-  for (const j of order.slice(n)) rest += values[j];
-  return { top, rest, others: Math.max(0, order.length - n) };
-}
-
-/**
- * The class a dependence view shows when none was asked for: the one whose average curve moves most, since
- * a flat curve says little. Regression has one output.
- */
-export function defaultDependenceOutput(pd: PartialDependence): number {
-  const G = pd.grid.values.length;
-  const K = pd.outputs;
-  let best = 0;
-  let bestRange = -1;
-  for (let k = 0; k < K; k++) {
-    let lo = Infinity;
-    let hi = -Infinity;
-    for (let g = 0; g < G; g++) {
-      const v = pd.average[g * K + k];
-      lo = Math.min(lo, v);
-      hi = Math.max(hi, v);
-    }
-    if (hi - lo > bestRange + 1e-12) {
-      best = k;
-      bestRange = hi - lo;
-    }
-  }
-  return best;
-}
-
-/** Partial dependence for one output as the protocol carries it; rows become data rows through `dataRowOf`. */
-export function dependenceMessage(pd: PartialDependence, output: number, classification: boolean, dataRowOf: (trainPosition: number) => number): Dependence {
-  const G = pd.grid.values.length;
-  const K = pd.outputs;
-  const k = Math.min(Math.max(0, output), K - 1);
-  const average = Array.from({ length: G }, (_, g) => pd.average[g * K + k]);
-  const ice = Array.from(pd.iceRows, (_, s) => Array.from({ length: G }, (_, g) => pd.ice[(s * G + g) * K + k]));
-  return {
-    feature: pd.grid.name,
-    kind: pd.grid.kind,
-    grid: Array.from(pd.grid.values),
-    labels: pd.grid.kind === 'numeric' ? null : [...(pd.grid.labels ?? [])],
-    output: classification ? k : null,
-    average,
-    ice,
-    iceRows: Array.from(pd.iceRows, dataRowOf),
-    counts: Array.from(pd.distribution.counts),
-    boundaries: Array.from(pd.distribution.boundaries),
-    missing: pd.distribution.missing,
-  };
 }
 
 function isAbort(e: unknown): boolean {

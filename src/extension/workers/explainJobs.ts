@@ -8,6 +8,7 @@
 import type { FitReport, Forest, PartialDependence, QuantileIndex, Table } from '../engine';
 import {
   ContributionExplainer,
+  outOfBagTrees,
   partialDependence,
   partialDependence2D,
   predictInterval,
@@ -32,10 +33,26 @@ export interface ExplainSetup {
   readonly trainX: Float64Array;
   readonly trainCount: number;
   readonly quantiles: QuantileSource | null;
+  /**
+   * Tree-major bootstrap counts over the trainCount training rows, in trainX's order: inBag[t * trainCount + i],
+   * 0 when tree t never drew training row i. What out-of-bag contributions are drawn from; sent once, here.
+   * Absent: taken from quantiles.report when it kept them (FitOptions.keepInBag), else out-of-bag requests are
+   * answered over all trees and say why. A Uint8Array over a SharedArrayBuffer reaches the thread uncopied.
+   */
+  readonly inBag?: Uint8Array;
 }
 
 export type ExplainRequest =
-  | { readonly kind: 'contributions'; readonly x: Float64Array; readonly rows: number }
+  | {
+      readonly kind: 'contributions';
+      readonly x: Float64Array;
+      readonly rows: number;
+      /**
+       * Per row: the training position (index into trainX and inBag's rows) whose out-of-bag trees explain
+       * row i, for a training row explained by the trees that never drew it; -1 for all trees. Absent: all.
+       */
+      readonly outOfBag?: Int32Array;
+    }
   | {
       readonly kind: 'dependence';
       readonly feature: number;
@@ -56,13 +73,32 @@ export type ExplainRequest =
   | { readonly kind: 'intervals'; readonly x: Float64Array; readonly rows: number; readonly level: number };
 
 export interface ExplainResults {
-  /** values[(i * features + j) * outputs + k]; base[k] + sum over j = the forest's output k for row i. */
-  contributions: { base: Float64Array; values: Float64Array; features: number; outputs: number };
+  contributions: ContributionsResult;
   dependence: PartialDependence;
   /** values[(j * nx + i) * outputs + k] over `rows` training rows. */
   dependence2D: { values: Float64Array; rows: number; outputs: number };
   /** unavailable: why this forest or these rows have no intervals, as the end of a sentence. */
   intervals: { lower: Float64Array; upper: Float64Array } | { unavailable: string };
+}
+
+/**
+ * Each row is explained over a set of trees: all of them, or the trees that never drew it. base[i * outputs + k]
+ * plus the sum over j of values[(i * features + j) * outputs + k] is those trees' mean output k for row i: the
+ * forest's probability of class k or its value with all trees, the out-of-bag one with the out-of-bag trees.
+ */
+export interface ContributionsResult {
+  /** rows * outputs: the mean expected output, with no feature known, of the trees row i was explained over. */
+  base: Float64Array;
+  /** rows * features * outputs. */
+  values: Float64Array;
+  features: number;
+  outputs: number;
+  /** Per row: how many trees it was explained over. */
+  trees: Int32Array;
+  /** Per row: 1 when those were the trees that never drew it (its out-of-bag trees), 0 when all trees. */
+  outOfBag: Uint8Array;
+  /** Set when a row asked for out-of-bag got all trees instead: why, as the end of a sentence. */
+  note?: string;
 }
 
 export type ExplainKind = keyof ExplainResults;
@@ -77,6 +113,7 @@ export class ExplainState {
   readonly forest: Forest;
   private readonly trainX: Float64Array;
   private readonly trainCount: number;
+  private readonly inBag: Uint8Array | undefined;
   private explainer: ContributionExplainer | undefined;
   private index: QuantileIndex | string | undefined;
   private quantiles: QuantileSource | null;
@@ -88,6 +125,11 @@ export class ExplainState {
     this.trainX = setup.trainX;
     this.trainCount = setup.trainCount;
     this.quantiles = setup.quantiles;
+    this.inBag = setup.inBag ?? (setup.quantiles?.from === 'fit' ? setup.quantiles.report.rows.inBag : undefined);
+    const expected = forest.trees.length * setup.trainCount;
+    if (this.inBag && this.inBag.length !== expected) {
+      throw new RangeError(`The in-bag counts have ${this.inBag.length} entries; ${forest.trees.length} trees and ${setup.trainCount} training rows need ${expected}.`);
+    }
   }
 
   handle<K extends ExplainKind>(request: RequestOf<K>): ExplainResults[K];
@@ -96,8 +138,7 @@ export class ExplainState {
     switch (request.kind) {
       case 'contributions': {
         this.explainer ??= new ContributionExplainer(forest);
-        const c = this.explainer.explainRows(request.x, request.rows);
-        return { base: c.base, values: c.contributions, features: c.features, outputs: c.outputs };
+        return this.contributions(this.explainer, request);
       }
       case 'dependence':
         return partialDependence(forest, trainX, trainCount, request.feature, {
@@ -122,6 +163,37 @@ export class ExplainState {
         return { lower, upper };
       }
     }
+  }
+
+  private contributions(e: ContributionExplainer, request: RequestOf<'contributions'>): ContributionsResult {
+    const { features: p, outputs: K, trees: T } = e;
+    const { rows, x, outOfBag: positions } = request;
+    const result: ContributionsResult = {
+      base: new Float64Array(rows * K),
+      values: new Float64Array(rows * p * K),
+      features: p,
+      outputs: K,
+      trees: new Int32Array(rows),
+      outOfBag: new Uint8Array(rows),
+    };
+    for (let i = 0; i < rows; i++) {
+      const position = positions?.[i] ?? -1;
+      let trees: Int32Array | undefined;
+      if (position >= 0 && !this.inBag) result.note = 'which trees drew each training row is not known here, so all trees were used.';
+      else if (position >= 0) {
+        trees = outOfBagTrees(this.inBag!, T, this.trainCount, position);
+        if (trees.length === 0) {
+          result.note = `every one of the ${T} trees drew this row, so all trees were used.`;
+          trees = undefined;
+        }
+      }
+      e.explainRow(x, i * p, result.values.subarray(i * p * K, (i + 1) * p * K), trees);
+      if (trees) e.baseOver(trees, result.base.subarray(i * K, (i + 1) * K));
+      else result.base.set(e.base, i * K);
+      result.trees[i] = trees ? trees.length : T;
+      result.outOfBag[i] = trees ? 1 : 0;
+    }
+    return result;
   }
 
   /** Built on the first interval asked for; a reason instead when this forest cannot have intervals. */

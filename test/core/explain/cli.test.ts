@@ -30,7 +30,8 @@ describe('copse explain', function () {
   });
 
   it('--json gives per row the prediction, base and per-class contributions that add up to the probabilities', () => {
-    const r = copse('explain', irisModel, iris, '--rows', '1,77,150', '--json');
+    // --all-trees: the training file's rows are otherwise explained over their out-of-bag trees (test/cli/explain-oob.test.ts).
+    const r = copse('explain', irisModel, iris, '--rows', '1,77,150', '--json', '--all-trees');
     assert.equal(r.code, 0, r.stderr);
     const out = JSON.parse(r.stdout);
     assert.equal(out.task, 'classification');
@@ -51,7 +52,7 @@ describe('copse explain', function () {
   });
 
   it('--json for a regression gives one contribution per feature, adding up to the predicted value', () => {
-    const out = JSON.parse(copse('explain', diabetesModel, diabetes, '--rows', '3', '--json').stdout);
+    const out = JSON.parse(copse('explain', diabetesModel, diabetes, '--rows', '3', '--json', '--all-trees').stdout);
     const row = out.rows[0];
     assert.equal(typeof row.base, 'number');
     assert.equal(Object.keys(row.contributions).length, 10);
@@ -65,7 +66,8 @@ describe('copse explain', function () {
     const r = copse('explain', diabetesModel, diabetes, '--rows', '3', '--top', '4');
     assert.equal(r.code, 0, r.stderr);
     const lines = r.stdout.split('\n');
-    assert.match(lines[0], /^Row 3 \(line 4\): predicted [\d.]+, against [\d.]+ on average$/);
+    assert.match(lines[0], /^Row 3 \(line 4\), over the \d+ trees that did not train on this row: predicted [\d.]+, against [\d.]+ on average$/);
+    assert.match(copse('explain', diabetesModel, diabetes, '--rows', '3', '--all-trees').stdout, /^Row 3 \(line 4\): predicted [\d.]+, against [\d.]+ on average\n/);
     const values = lines.slice(2, 6).map((l) => Math.abs(Number(l.trim().split(/\s+/).pop())));
     assert.equal(values.length, 4);
     for (let i = 1; i < 4; i++) assert.ok(values[i] <= values[i - 1], r.stdout);
