@@ -13,11 +13,15 @@ export interface FeatureContribution {
 /** Exact per-feature contributions to one row's prediction: base + sum of contributions = prediction. */
 export interface RowContributions {
   row: number;
-  /** The class whose probability is explained (the predicted one), or null for a regression value. */
+  /** The class whose probability is explained (the one predicted by those trees), or null for a regression value. */
   output: number | null;
-  /** The forest's expected output when no feature is known. */
+  /** The explained trees' expected output when no feature is known. */
   base: number;
+  /** What the explained trees predict for the row: base plus the contributions. */
   prediction: number;
+  /** How many trees are explained, and whether none of them drew the row (a training row's out-of-bag trees). */
+  trees: number;
+  outOfBag: boolean;
   /** Every feature, in the forest's feature order. */
   features: FeatureContribution[];
 }

@@ -152,6 +152,8 @@ function isRowContributions(v: unknown): v is RowContributions {
     (v.output === null || (isInt(v.output) && (v.output as number) >= 0)) &&
     isNum(v.base) &&
     isNum(v.prediction) &&
+    isInt(v.trees) &&
+    typeof v.outOfBag === 'boolean' &&
     isArr(v.features, (f) => isObj(f) && isStr(f.feature) && isStr(f.value) && isNum(f.contribution))
   );
 }

@@ -172,7 +172,7 @@ describe('copse explain over out-of-bag trees', function () {
     json('fit', data, '--target', 'label', '--exclude', 'value', '--sample-rows', '120', '--trees', '10', '--seed', '4', '--no-importance', '--save', sampled, '--json');
     const out = json('explain', sampled, data, '--rows', '3,4', '--json');
     assert.deepEqual(out.rows.map((r: any) => r.trees), ['all', 'all']);
-    const reason = /is the file the forest was fitted on, but which trees drew each row cannot be told for certain: the forest trained on 120 rows but this reading of the file has 156 with a target\./;
+    const reason = /is the file the forest was fitted on, but which trees drew each row cannot be told for certain: the forest was fitted on 120 rows; this reading of the data has 156 with a target\./;
     assert.match(out.warnings.join(' '), reason);
 
     // A model file from before the holdout's size was kept cannot tell a sample from a holdout by counting;

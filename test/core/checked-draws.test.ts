@@ -92,11 +92,11 @@ describe('recovering a forest’s draws from its training table', function () {
     const { forest } = report;
     const x = encodeTable(forest.schema, table);
     // The model records that nothing was held out, so the extra rows give it away at once...
-    assert.match(String(checkedDraws(forest, table, x, null, [0])), /trained on 113 rows but this reading of the file has 226 with a target\.$/);
+    assert.match(String(checkedDraws(forest, table, x, null, [0])), /fitted on 113 rows; this reading of the data has 226 with a target\.$/);
     // ...and a model file too old to say is caught by its trees.
     assert.match(String(checkedDraws(withoutHeldOut(forest), table, x, null, [0])), /do not reproduce the trees \(tree 1, leaf \d+: /);
     const tooFew = pick(table, (i) => i < 60);
-    assert.match(String(checkedDraws(forest, tooFew, encodeTable(forest.schema, tooFew), null, [0])), /trained on 113 rows but this reading of the file has 56 with a target/);
+    assert.match(String(checkedDraws(forest, tooFew, encodeTable(forest.schema, tooFew), null, [0])), /fitted on 113 rows; this reading of the data has only 56 with a target/);
     const renamed = { ...table, columns: table.columns.map((c) => (c.name === 'value' ? { ...c, name: 'worth' } : c)) };
     assert.match(String(checkedDraws(forest, renamed, x, null, [0])), /no column "value"/);
     assert.match(String(checkedDraws(forest, table, x, 'f'.repeat(64), [0])), /not the one the forest was trained on/);

@@ -15,6 +15,8 @@ import { ForestSession } from '../../src/extension/session/session';
 import { dependenceMessage, Explanations, largestContributions } from '../../src/extension/session/explanations';
 import type { ExplainerLike } from '../../src/extension/workers/explainClient';
 import { ExplainClient } from '../../src/extension/workers/explainClient';
+import { intervalsReady } from '../../src/extension/session/rowText';
+import { membershipOf } from '../../src/core/forest/row-votes';
 import { fitFixture, FIXTURES, summaryFor, type Fitted } from './helpers';
 import { inBagCounts } from '../../src/core/forest/bootstrap';
 
@@ -33,9 +35,13 @@ describe('extension explanations (iris, classification)', function () {
     for (const dataRow of [1, 60, 120, 150]) {
       const c = await s.contributions(dataRow);
       const r = s.numbering.tableRow(dataRow)!;
-      const answer = s.store.answer(r).all;
+      // A training row is explained over the trees that never saw it: the answer its hover leads with.
+      const answer = s.store.answer(r).headline;
+      assert.equal(s.store.answer(r).lead, 'out-of-bag');
+      assert.equal(c.outOfBag, true);
+      assert.equal(c.trees, answer.tally.trees);
       assert.equal(c.row, dataRow);
-      assert.equal(c.output, answer.predicted, 'the predicted class is the one explained');
+      assert.equal(c.output, answer.predicted, 'the class those trees predict is the one explained');
       assert.deepEqual(c.features.map((x) => x.feature), s.forest.schema.features.map((x) => x.name));
       const sum = c.base + c.features.reduce((a, x) => a + x.contribution, 0);
       assert.ok(close(sum, answer.proba![answer.predicted], 1e-9), `row ${dataRow}: ${sum} vs ${answer.proba![answer.predicted]}`);
@@ -50,10 +56,11 @@ describe('extension explanations (iris, classification)', function () {
     const explainer = new ContributionExplainer(f.report.forest);
     const c = await s.contributions(77);
     const r = s.numbering.tableRow(77)!;
-    const direct = explainer.explainRow(s.encoded, r * p);
+    const oobTrees = s.store.outOfBagTrees(r)!;
+    const direct = explainer.explainRow(s.encoded, r * p, undefined, oobTrees);
     const K = explainer.outputs;
     c.features.forEach((x, j) => assert.ok(close(x.contribution, direct[j * K + c.output!]), x.feature));
-    assert.ok(close(c.base, explainer.base[c.output!]));
+    assert.ok(close(c.base, explainer.baseOver(oobTrees)[c.output!]));
     // Row 77 of iris.csv is its 78th line: the values shown are that line's.
     const cells = readFileSync(f.file, 'utf8').split('\n')[77].split(',');
     assert.deepEqual(c.features.map((x) => x.value), cells.slice(0, 4).map((v) => String(Number(v))));
@@ -121,7 +128,7 @@ describe('extension explanations (iris, classification)', function () {
     assert.equal(f.session.defaultDependenceFeature(), ranked[0].feature);
   });
 
-  it('gives hovers on another file the same contributions as the same row of the fitted file', async () => {
+  it('gives hovers on another file the all-trees contributions; the fitted file\'s own row, its out-of-bag ones', async () => {
     const text = readFileSync(f.file, 'utf8');
     const lines = text.split('\n');
     const other = [lines[0], lines[5], lines[90]].join('\n') + '\n';
@@ -129,7 +136,12 @@ describe('extension explanations (iris, classification)', function () {
     const file = await f.session.scoreOther(load.table, load.delimiter, 'other.csv', () => other);
     const mdOther = await f.session.hoverOtherContributions(file, 1);
     const mdSame = await f.session.hoverContributions(f.session.numbering.tableRow(90)!);
-    assert.equal(mdOther, mdSame);
+    assert.doesNotMatch(mdOther ?? '', /never saw this row/);
+    assert.match(mdSame ?? '', /according to the \d+ trees that never saw this row/);
+    // The same numbers once the fitted row is explained over all trees too.
+    const all = f.session.explanations!.explanationOf(await f.session.explanations!.rowContributions(f.session.numbering.tableRow(90)!, 'now', undefined, 'all'), null);
+    const fromOther = f.session.explanations!.explanationOf(await f.session.explanations!.contributions(file, 1, file.encoded, 'now'), null);
+    assert.deepEqual(Array.from(fromOther.values), Array.from(all.values));
   });
 });
 
@@ -146,7 +158,7 @@ describe('extension explanations (Friedman #1, regression)', function () {
     const s = f.session;
     const index = quantileIndexFromFit(f.report, f.load.table);
     const rows = [1, 2, 3, 400, 1000];
-    assert.equal(await s.intervalsReady(rows, 0.9), true);
+    assert.equal(await intervalsReady(s, rows, 0.9), true);
     const votes = s.rowVotes(rows, 0.9);
     for (const v of votes) {
       const r = s.numbering.tableRow(v.row)!;
@@ -347,10 +359,11 @@ describe('extension explanation shaping', () => {
       assert.equal(g.rows, 60);
       const direct = meanAbsoluteContributions(new ContributionExplainer(report.forest).explainRows(session.encoded, 60));
       g.features.forEach((x, j) => assert.ok(close(x.meanAbs, direct.overall[j]), x.feature));
-      // Local accuracy holds for every row, so the means describe the same model the hovers do.
-      const pred = predictEncoded(report.forest, session.encoded, 60);
+      // Local accuracy holds for every row: a training row's contributions add up to its out-of-bag value.
+      const membership = membershipOf(report.trainRows, 60, session.store.trainingIndex(4) >= 0 ? inBagCounts(report.forest.params, report.forest.trees.length, report.trainRows.length) : new Uint8Array(0));
+      const pred = predictEncoded(report.forest, session.encoded, 60, membership);
       const c = await session.contributions(5);
-      assert.ok(close(c.prediction, pred.value![4]));
+      assert.ok(close(c.prediction, pred.oob!.predicted[4]), `${c.prediction} vs ${pred.oob!.predicted[4]}`);
     } finally {
       await session.dispose();
     }

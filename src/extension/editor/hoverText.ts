@@ -147,6 +147,8 @@ export interface HoverContributions {
   /** Features not listed, and what their contributions add up to. */
   readonly others: number;
   readonly rest: number;
+  /** Which trees are explained, when not all of them ("the 35 trees that never saw this row"). */
+  readonly over?: string;
 }
 
 /** The hover's explanation part: the three (or so) features that moved this row's prediction most. */
@@ -155,7 +157,7 @@ export function contributionsMarkdown(c: HoverContributions): string {
   const list = c.top.map((t) => `${escapeMd(t.feature)} ${formatContribution(t.contribution)}`).join(' · ');
   const tail = c.others > 0 ? ` · ${c.others} other${c.others === 1 ? '' : 's'} ${formatContribution(c.rest)}` : '';
   return (
-    `**Largest contributions** to ${what} (from ${formatNumber(c.base)} on average to ${formatNumber(c.prediction)} here): ${list}${tail}\n\n` +
+    `**Largest contributions** to ${what}${c.over ? ` according to ${c.over}` : ''} (from ${formatNumber(c.base)} on average to ${formatNumber(c.prediction)} here): ${list}${tail}\n\n` +
     'Each is what knowing that feature moves this prediction by (exact Shapley values of the trees).'
   );
 }

@@ -20,6 +20,7 @@ import {
 import type { CopseContext } from '../context';
 import { isAbort, isUserError, userMessage } from '../errors';
 import type { ForestSession } from '../session/session';
+import { intervalsReady } from '../session/rowText';
 import { panelHtml } from './html';
 import { PANEL_VIEW_TYPE_ID } from './viewType';
 
@@ -172,7 +173,7 @@ export class PanelHost implements vscode.Disposable {
     const level = this.ctx.settings().explain.intervalLevel;
     this.send(s, { type: 'disagreement', rows: s.rowVotes(rows, level) });
     void this.guard(
-      s.intervalsReady(rows, level).then((changed) => {
+      intervalsReady(s, rows, level).then((changed) => {
         if (changed && this.ctx.session === s && (this.shown?.session !== s || this.shown.rows === rows)) {
           this.send(s, { type: 'disagreement', rows: s.rowVotes(rows, level) });
         }

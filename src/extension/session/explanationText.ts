@@ -39,6 +39,8 @@ export function rowContributionsMessage(forest: Forest, x: ArrayLike<number>, of
     output: e.output,
     base: e.base,
     prediction: e.prediction,
+    trees: e.trees,
+    outOfBag: e.outOfBag,
     features: forest.schema.features.map((f, j) => ({ feature: f.name, value: featureValueText(f, x[offset + j]), contribution: e.values[j] })),
   };
 }

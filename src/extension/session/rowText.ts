@@ -9,7 +9,7 @@ import { COVERS_FROM_FILE } from './importText';
 import { HOVER_CONTRIBUTIONS, type ForestSession } from './session';
 
 export function contributionsText(s: ForestSession, store: RowVotes, tableRow: number, c: RowContribution): string {
-  const predicted = store.answer(tableRow).all.predicted;
+  const predicted = store.answer(tableRow).headline.predicted;
   const e = s.explanations!.explanationOf(c, s.task === 'classification' ? predicted : null);
   const names = s.forest.schema.features.map((f) => f.name);
   const { top, rest, others } = largestContributions(names, e.values, HOVER_CONTRIBUTIONS);
@@ -21,6 +21,7 @@ export function contributionsText(s: ForestSession, store: RowVotes, tableRow: n
     top,
     rest,
     others,
+    over: e.outOfBag ? `the ${e.trees} trees that never saw this row` : undefined,
   });
   // An import's covers are this file's counts, so the reader must know what the weights are.
   return s.importedFrom === undefined ? text : `${text} The ${COVERS_FROM_FILE}.`;
@@ -66,4 +67,19 @@ export function rowVotesOf(store: RowVotes, r: number, dataRow: number): PanelRo
     votes,
     outOfBag: store.outOfBagTrees(r) ?? [],
   };
+}
+
+/** Whether rowVotes can already give every one of these rows its interval; computes the missing ones. */
+export async function intervalsReady(s: ForestSession, dataRows: readonly number[], level: number): Promise<boolean> {
+  const e = s.explanations;
+  if (!e || !e.regression) return false;
+  let changed = false;
+  for (const dataRow of dataRows) {
+    const r = s.numbering.tableRow(dataRow);
+    if (r === undefined || e.cachedInterval(r, level)) continue;
+    const a = await e.interval(r, level, 'now');
+    if ('unavailable' in a) return false;
+    changed = true;
+  }
+  return changed;
 }

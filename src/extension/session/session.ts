@@ -15,6 +15,7 @@ import {
   dependenceMessage,
   Explanations,
   rowContributionsMessage,
+  type TreeChoice,
 } from './explanations';
 import { LineIndex, type LineReader } from '../rows/lineMap';
 import { RowNumbering } from '../rows/numbering';
@@ -159,7 +160,7 @@ export class ForestSession {
           : q.from === 'table'
             ? { from: 'table', table: this.table }
             : q;
-    const explainer = init.explainer!({ forest: quantiles?.from === 'fit' ? undefined : this.forest, trainX, trainCount: this.trainRows.length, quantiles });
+    const explainer = init.explainer!({ forest: quantiles?.from === 'fit' ? undefined : this.forest, trainX, trainCount: this.trainRows.length, quantiles, inBag: init.oob?.inBag });
     const e = new Explanations(this.forest, explainer, this.encoded, this.table.rowCount, this.trainRows, this.seed);
     if (init.intervalLevel !== undefined) e.prepareIntervals(init.intervalLevel);
     return e;
@@ -216,7 +217,7 @@ export class ForestSession {
   async hoverContributions(tableRow: number, urgency: Urgency = 'now', signal?: AbortSignal): Promise<string | undefined> {
     const e = this.explanations;
     if (!e) return undefined;
-    return contributionsText(this, this.store, tableRow, await e.rowContributions(tableRow, urgency, signal));
+    return contributionsText(this, this.store, tableRow, await e.rowContributions(tableRow, urgency, signal, this.treesFor(tableRow)));
   }
 
   /** The hover's interval part for a table row (regression), or why there is none. */
@@ -240,7 +241,15 @@ export class ForestSession {
 
   /** Starts working out a row's contributions before anyone asks (the cursor just landed on it). */
   prefetchContributions(tableRow: number): void {
-    this.explanations?.prefetch(tableRow);
+    this.explanations?.prefetch(tableRow, this.treesFor(tableRow));
+  }
+
+  /**
+   * Which trees explain a row: for a training row, the ones that never saw it, so the explanation is of the
+   * answer the hover leads with (and of why those trees may disagree with the label); all trees otherwise.
+   */
+  treesFor(tableRow: number): TreeChoice {
+    return this.store.answer(tableRow).lead === 'out-of-bag' ? 'out-of-bag' : 'all';
   }
 
   /** The most doubtful training rows first (core's doubtful.ts), at most `limit`. */
@@ -280,28 +289,13 @@ export class ForestSession {
     return out;
   }
 
-  /** Whether rowVotes can already give every one of these rows its interval; computes the missing ones. */
-  async intervalsReady(dataRows: readonly number[], level: number): Promise<boolean> {
-    const e = this.explanations;
-    if (!e || !e.regression) return false;
-    let changed = false;
-    for (const dataRow of dataRows) {
-      const r = this.numbering.tableRow(dataRow);
-      if (r === undefined || e.cachedInterval(r, level)) continue;
-      const a = await e.interval(r, level, 'now');
-      if ('unavailable' in a) return false;
-      changed = true;
-    }
-    return changed;
-  }
-
   /** The full contribution chart of one data row, for the predicted class (or the value). */
   async contributions(dataRow: number, urgency: Urgency = 'now', signal?: AbortSignal): Promise<RowContributions> {
     const e = this.requireExplanations();
     const r = this.numbering.tableRow(dataRow);
     if (r === undefined) throw new RangeError(`Row ${dataRow} is not among the rows the forest was shown against.`);
-    const c = await e.rowContributions(r, urgency, signal);
-    const ex = e.explanationOf(c, this.task === 'classification' ? this.store.answer(r).all.predicted : null);
+    const c = await e.rowContributions(r, urgency, signal, this.treesFor(r));
+    const ex = e.explanationOf(c, this.task === 'classification' ? this.store.answer(r).headline.predicted : null);
     return rowContributionsMessage(this.forest, this.encoded, r * this.p, dataRow, ex);
   }
 
