@@ -73,7 +73,8 @@ export function isFitSummary(v: unknown): v is FitSummary {
     isStr(v.fit) &&
     (v.suspectCount === null || isInt(v.suspectCount)) &&
     (v.permutationOn === undefined || v.permutationOn === 'out-of-bag' || v.permutationOn === 'file') &&
-    (v.oobUnavailable === undefined || isStr(v.oobUnavailable))
+    (v.oobUnavailable === undefined || isStr(v.oobUnavailable)) &&
+    (v.permutationNote === undefined || isStr(v.permutationNote))
   );
 }
 

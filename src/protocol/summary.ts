@@ -89,6 +89,8 @@ export interface FitSummary {
   importance: FeatureImportance[];
   warnings: string[];
   fitSeconds: number | null;
+  /** Why permutation importance was not measured, as the end of a sentence ("not measured: …"); absent when it was. */
+  permutationNote?: string;
   /** How many training rows the forest doubts in all (the list sent is capped); null when it cannot tell. */
   suspectCount: number | null;
   /** Which rows permutation importance was measured on: out-of-bag rows (a fit; the default) or the file shown. */

@@ -127,7 +127,7 @@ export class ImportanceView {
     this.drawGlobal(shown, labels, tooltipTitle, theme);
 
     clear(this.note);
-    if (!hasPerm) append(this.note, 'Permutation importance was not computed for this fit. ');
+    if (!hasPerm) append(this.note, `Permutation importance ${s.permutationNote ?? 'was not measured for this forest.'} `);
     if (order.length > shown.length) append(this.note, `${order.length - shown.length} less important features not shown. `);
     append(this.note, 'A negative drop means shuffling the feature did not hurt: treat it as no evidence of use.');
   }

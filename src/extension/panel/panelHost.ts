@@ -7,20 +7,17 @@ import {
   PROTOCOL_VERSION,
   isHostToPanel,
   isPanelToHost,
-  type Dependence,
-  type GlobalContributions,
   type HostMessage,
   type HostToPanel,
   type PanelToHost,
   type ReferenceChoice,
-  type RegionMap,
-  type RowContributions,
   type SweepSummary,
 } from '../../protocol/messages';
 import type { CopseContext } from '../context';
 import { isAbort, isUserError, userMessage } from '../errors';
 import type { ForestSession } from '../session/session';
 import { intervalsReady } from '../session/rowText';
+import { ExplainSender, type Shown } from './explainSender';
 import { panelHtml } from './html';
 import { PANEL_VIEW_TYPE_ID } from './viewType';
 
@@ -39,8 +36,6 @@ export interface PanelActions {
   refitFeatures(featuresPerSplit: number): Promise<void>;
 }
 
-/** How long an explanation may take before the panel says it is being worked out (no flicker when cached). */
-const WORKING_NOTE_MS = 150;
 
 export class PanelHost implements vscode.Disposable {
   private panel: vscode.WebviewPanel | undefined;
@@ -49,11 +44,6 @@ export class PanelHost implements vscode.Disposable {
   private readonly panelDisposables: vscode.Disposable[] = [];
   /** Bumped per map request so a slow map never overwrites a newer one. */
   private mapTicket = 0;
-  /** The same for the contribution chart and the dependence view. */
-  private explainTicket = 0;
-  /** Withdraws the chart's previous row when a newer one is asked for before it reached the thread. */
-  private explainWithdraw: AbortController | undefined;
-  private dependenceTicket = 0;
   /** While the last fit is being brought back after a reload, the panel says so rather than "no forest". */
   private restoring = false;
   /** The map the panel showed before a reload, until the first forest it fits is shown. */
@@ -63,25 +53,20 @@ export class PanelHost implements vscode.Disposable {
    * hidden (we do not retain it), and comes back empty-handed but for its own saved state; this lets the
    * host re-send the same picture at once instead of scoring it again.
    */
-  private shown: {
-    session: ForestSession;
-    choice?: { x: string; y: string; reference: ReferenceChoice };
-    map?: RegionMap;
-    matrix?: RegionMap[];
-    rows?: number[];
-    /** The row whose contributions are charted: the first selected, or the one last asked for. */
-    explained?: number;
-    contributions?: RowContributions;
-    dependence?: Dependence;
-    global?: GlobalContributions;
-    /** The background run of the global view; stopped when the session changes. */
-    globalRun?: AbortController;
-  } | undefined;
+  private shown: Shown | undefined;
+  private readonly explain: ExplainSender;
 
   constructor(
     private readonly ctx: CopseContext,
     private readonly actions: PanelActions,
   ) {
+    this.explain = new ExplainSender({
+      ctx,
+      send: (session, m) => this.send(session, m),
+      status: (state, text) => this.status(state, text),
+      guard: (work) => this.guard(work),
+      shownFor: (session) => this.shownFor(session),
+    });
     ctx.track(ctx.onDidChangeSession((s) => void this.sessionChanged(s)));
     ctx.track(
       vscode.window.registerWebviewPanelSerializer(PANEL_VIEW_TYPE, {
@@ -165,7 +150,7 @@ export class PanelHost implements vscode.Disposable {
     if (this.shown?.session === s) this.shown.rows = rows;
     this.postRows(s, rows);
     this.send(s, { type: 'highlight', rows });
-    if (rows.length > 0) void this.guard(this.sendContributions(rows[0]));
+    if (rows.length > 0) void this.guard(this.explain.contributions(rows[0]));
   }
 
   /** Votes at once; again with intervals once the rows' are computed, if the selection has not moved on. */
@@ -246,10 +231,10 @@ export class PanelHost implements vscode.Disposable {
           await this.actions.refit(msg.leaveOut, msg.trees);
           break;
         case 'explainRow':
-          await this.sendContributions(msg.row);
+          await this.explain.contributions(msg.row);
           break;
         case 'chooseDependence':
-          await this.sendDependence(msg.feature, msg.output);
+          await this.explain.dependence(msg.feature, msg.output);
           break;
         case 'runSweep':
           await this.actions.sweep();
@@ -265,6 +250,12 @@ export class PanelHost implements vscode.Disposable {
       if (!isUserError(e)) this.ctx.log.error(e instanceof Error ? (e.stack ?? e.message) : String(e));
       this.status('error', userMessage(e));
     }
+  }
+
+  /** What the panel shows for this session, started afresh when the session changed. */
+  private shownFor(session: ForestSession): Shown {
+    if (this.shown?.session !== session) this.shown = { session };
+    return this.shown;
   }
 
   /** Runs a panel task whose failure should become a status line, not an unhandled rejection. */
@@ -351,83 +342,14 @@ export class PanelHost implements vscode.Disposable {
     if (shown.contributions && shown.contributions.row === shown.explained) {
       this.send(session, { type: 'contributions', row: shown.explained, state: 'ready', contributions: shown.contributions, text: '' });
     } else if (shown.explained !== undefined) {
-      void this.guard(this.sendContributions(shown.explained));
+      void this.guard(this.explain.contributions(shown.explained));
     }
-    this.sendGlobal(session);
+    this.explain.global(session);
     if (shown.dependence) this.send(session, { type: 'dependence', dependence: shown.dependence });
     else {
       const feature = session.defaultDependenceFeature();
-      if (feature) await this.sendDependence(feature, null);
+      if (feature) await this.explain.dependence(feature, null);
     }
-  }
-
-  /** The contribution chart of one data row; a newer request wins over a slower older one. */
-  private async sendContributions(row: number): Promise<void> {
-    const session = this.ctx.session;
-    if (!session) return;
-    if (this.shown?.session !== session) this.shown = { session };
-    const shown = this.shown;
-    shown.explained = row;
-    const ticket = ++this.explainTicket;
-    if (!session.explanations) {
-      this.send(session, { type: 'contributions', row, state: 'unavailable', contributions: null, text: 'Explanations are not available for this forest.' });
-      return;
-    }
-    const note = setTimeout(() => {
-      if (ticket === this.explainTicket) this.send(session, { type: 'contributions', row, state: 'working', contributions: null, text: `Working out row ${row}’s contributions…` });
-    }, WORKING_NOTE_MS);
-    this.explainWithdraw?.abort();
-    const withdraw = (this.explainWithdraw = new AbortController());
-    try {
-      const started = performance.now();
-      const c = await session.contributions(row, 'now', withdraw.signal);
-      if (ticket !== this.explainTicket || session !== this.ctx.session) return;
-      this.ctx.log.debug(`Contributions of row ${row} in ${Math.round(performance.now() - started)} ms.`);
-      shown.contributions = c;
-      this.send(session, { type: 'contributions', row, state: 'ready', contributions: c, text: '' });
-    } catch (e) {
-      if (ticket === this.explainTicket && !isAbort(e)) {
-        this.send(session, { type: 'contributions', row, state: 'unavailable', contributions: null, text: userMessage(e) });
-      }
-      if (!isUserError(e)) throw e;
-    } finally {
-      clearTimeout(note);
-    }
-  }
-
-  /** Starts the global view's background sample once per session, and re-sends what it has so far. */
-  private sendGlobal(session: ForestSession): void {
-    const shown = this.shown!;
-    if (shown.global) this.send(session, { type: 'globalContributions', global: shown.global, text: '' });
-    if (shown.globalRun) return;
-    if (!shown.global) this.send(session, { type: 'globalContributions', global: null, text: 'Working out contributions over a sample of rows…' });
-    const run = (shown.globalRun = new AbortController());
-    const started = performance.now();
-    void this.guard(
-      session
-        .globalContributions((g) => {
-          if (session !== this.ctx.session) return;
-          shown.global = g;
-          this.send(session, { type: 'globalContributions', global: g, text: '' });
-        }, run.signal)
-        .then((g) => this.ctx.log.info(`Global view: contributions of ${g.rows} rows in ${Math.round(performance.now() - started)} ms.`)),
-    );
-  }
-
-  private async sendDependence(feature: string, output: number | null): Promise<void> {
-    const session = this.ctx.session;
-    if (!session?.explanations) return;
-    if (this.shown?.session !== session) this.shown = { session };
-    const shown = this.shown;
-    const ticket = ++this.dependenceTicket;
-    this.status('working', `Working out the dependence on ${feature}…`, null);
-    const started = performance.now();
-    const d = await session.dependence(feature, output);
-    if (ticket !== this.dependenceTicket || session !== this.ctx.session) return;
-    this.ctx.log.info(`Dependence on ${feature}: ${d.grid.length} points, ${d.ice.length} curves in ${Math.round(performance.now() - started)} ms.`);
-    shown.dependence = d;
-    this.send(session, { type: 'dependence', dependence: d });
-    this.status('idle', '');
   }
 
   private async sendMap(x: string, y: string, reference: ReferenceChoice): Promise<void> {

@@ -40,6 +40,7 @@ export function panelSummary(s: CoreFitSummary, extras: PanelExtras): PanelSumma
     // Absent rather than undefined, so the summary reads back from JSON (the reload store) as it was.
     ...(imp.permutationOn ? { permutationOn: imp.permutationOn } : {}),
     ...(!s.oob && s.oobUnavailable ? { oobUnavailable: s.oobUnavailable } : {}),
+    ...(imp.permutationMissing ? { permutationNote: imp.permutationMissing } : {}),
   };
 }
 

@@ -13,6 +13,9 @@ export interface CliConfusion {
 
 export interface CliFit {
   task: 'classification' | 'regression';
+  features: string[];
+  classes: string[];
+  suspectCount: number | null;
   trees: number;
   settings: { trees: number; seed: number };
   oob: { accuracy?: number; r2?: number; confusion?: CliConfusion } | null;
