@@ -27,7 +27,7 @@ export class CurveView {
         labels: s.curve.map((_, t) => String(t + 1)),
         datasets: [
           {
-            label: classification ? 'OOB error (1 − accuracy)' : 'OOB mean squared error',
+            label: classification ? 'Out-of-bag error (1 − accuracy)' : `Out-of-bag mean squared error (${s.target}²)`,
             data: s.curve,
             borderColor: css(theme.focus),
             backgroundColor: css(theme.focus),
@@ -48,7 +48,7 @@ export class CurveView {
         scales: {
           x: { title: { display: true, text: 'trees' }, ticks: { maxTicksLimit: 8, maxRotation: 0 } },
           y: {
-            title: { display: true, text: classification ? 'OOB error' : 'OOB MSE' },
+            title: { display: true, text: classification ? 'out-of-bag error' : `out-of-bag mean squared error (${s.target}²)` },
             beginAtZero: true,
             ticks: { callback: (v) => fmt(Number(v)) },
           },

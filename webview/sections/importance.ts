@@ -14,11 +14,14 @@ import { Chart } from '../charts';
 
 const MAX_FEATURES = 15;
 
-// A forest opened from a file has no out-of-bag rows; its drop is measured on the file it is shown against.
-const PERM_CAPTION = {
-  'out-of-bag': 'Drop in OOB score when shuffled (± spread)',
-  file: 'Rise in error on this file when shuffled (± spread)',
-} as const;
+// What permutation importance measured, with its unit: the rise in error when a feature is shuffled, on
+// out-of-bag rows after a fit, or on the file shown for a forest opened from a file.
+function permCaption(s: FitSummary, on: 'out-of-bag' | 'file'): string {
+  const rows = on === 'out-of-bag' ? 'out-of-bag' : 'on this file';
+  return s.task === 'classification'
+    ? `Drop in accuracy ${rows} when shuffled, in percentage points (± spread)`
+    : `Rise in mean squared error ${rows} when shuffled, in ${s.target}² (± spread)`;
+}
 
 export class ImportanceView {
   readonly root: HTMLElement;
@@ -42,7 +45,7 @@ export class ImportanceView {
     this.contribCaption = h('figcaption', {}, 'Mean |contribution| over sampled rows');
     this.contribNote = h('p', { class: 'muted contrib-status' });
     this.note = h('p', { class: 'muted' });
-    this.permCaption = h('figcaption', { testid: 'permutation-caption' }, PERM_CAPTION['out-of-bag']);
+    this.permCaption = h('figcaption', { testid: 'permutation-caption' }, '');
     this.root = h(
       'div',
       { class: 'importance', testid: 'importance' },
@@ -81,7 +84,7 @@ export class ImportanceView {
     this.last = { s, theme };
     applyTheme(theme);
     const hasPerm = s.importance.some((m) => m.permutation !== null);
-    this.permCaption.textContent = PERM_CAPTION[s.permutationOn ?? 'out-of-bag'];
+    this.permCaption.textContent = permCaption(s, s.permutationOn ?? 'out-of-bag');
     const order = [...s.importance].sort((a, b) => key(b, hasPerm) - key(a, hasPerm));
     const shown = order.slice(0, MAX_FEATURES);
     const labels = shown.map((m) => truncate(m.feature, 16));
