@@ -213,7 +213,7 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
       assert.strictEqual(hover.trees, TREES, text);
       assert.deepStrictEqual(sortKeys(hover.counts), sortKeys(expected.counts!), `row ${row}: hover ${JSON.stringify(hover.counts)}, CLI ${JSON.stringify(expected.counts)}`);
       // Every row here is a training row: the all-trees answer the CLI gives comes second, after the out-of-bag one.
-      assert.match(text, /Out-of-bag prediction outcome: \w+/);
+      assert.match(text, /Out-of-bag prediction of outcome: \w+/);
       assert.match(text, new RegExp(`All ${TREES} trees, including the \\d+ fitted on this row: ${expected.prediction}\\b`));
       if (row === 2) await wb!.screenshot('hover');
     }
@@ -303,7 +303,7 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
     await wb!.activateTab('loaf-rise.csv');
     const text = await wb!.hoverLine(2, { timeoutMs: 30_000 });
     assert.match(text, /Copse · row 1 /);
-    assert.match(text, /Out-of-bag prediction rise_mm: /);
+    assert.match(text, /Out-of-bag prediction of rise_mm: /);
     await wb!.activateTab('Copse');
     await wb!.screenshot('reloaded');
   });

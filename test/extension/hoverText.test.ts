@@ -53,7 +53,7 @@ describe('extension hover text', () => {
   it('leads a training row with what the trees that never saw it say, then all trees, labelled as such', () => {
     const md = hoverMarkdown(store.answer(0), { target: 'kind', classes: ['a', 'b', 'c'], dataRow: 7, showVotesLink: 'command:copse.showRowVotes?x' });
     assert.match(md, /row 7 \(training row; 2 of 5 trees never saw it\)/);
-    assert.match(md, /\*\*Out-of-bag prediction kind: a\*\* \(the 2 trees that never saw this row\)/);
+    assert.match(md, /\*\*Out-of-bag prediction of kind: a\*\* \(the 2 trees that never saw this row\)/);
     assert.match(md, /Probability: a 50\.0% · c 50\.0% · b 0\.0%/);
     assert.match(md, /Label: c \(differs\)/);
     assert.match(md, /All 5 trees, including the 3 fitted on this row: b 60\.0%/);

@@ -78,7 +78,7 @@ describe('extension session (iris, classification)', () => {
     assert.equal(f.session.rowAtLine(2, read), 0);
     const md = f.session.hover(0, (row) => `command:copse.showRowVotes?${row}`);
     assert.match(md, /row 1 \(training row; \d+ of 40 trees never saw it\)/);
-    assert.match(md, /Out-of-bag prediction species: setosa/);
+    assert.match(md, /Out-of-bag prediction of species: setosa/);
     assert.match(md, /command:copse\.showRowVotes\?1/);
   });
 

@@ -77,7 +77,7 @@ function whose(a: RowAnswer): string {
 function classification(a: RowAnswer, ctx: HoverContext, out: string[]): void {
   const label = (k: number): string => escapeMd(ctx.classes[k] ?? `class ${k}`);
   const h = a.headline;
-  out.push(`**${a.lead === 'out-of-bag' ? 'Out-of-bag prediction' : 'Predicted'} ${escapeMd(ctx.target)}: ${label(h.predicted)}** (${whose(a)})`);
+  out.push(`**${a.lead === 'out-of-bag' ? 'Out-of-bag prediction of' : 'Predicted'} ${escapeMd(ctx.target)}: ${label(h.predicted)}** (${whose(a)})`);
   const ranked = topShares(h);
   if (ranked.length) out.push('', 'Probability: ' + ranked.map((e) => `${label(e.k)} ${formatShare(e.p)}`).join(' · '));
   if (a.truth !== undefined) out.push('', `Label: ${label(a.truth)} ${a.truth === h.predicted ? '(agrees)' : '(differs)'}`);
@@ -123,7 +123,7 @@ function topShares(g: GroupAnswer): Array<{ p: number; k: number }> {
 
 function regression(a: RowAnswer, ctx: HoverContext, out: string[]): void {
   const h = a.headline;
-  out.push(`**${a.lead === 'out-of-bag' ? 'Out-of-bag prediction' : 'Predicted'} ${escapeMd(ctx.target)}: ${formatNumber(h.predicted)}** (${whose(a)})`);
+  out.push(`**${a.lead === 'out-of-bag' ? 'Out-of-bag prediction of' : 'Predicted'} ${escapeMd(ctx.target)}: ${formatNumber(h.predicted)}** (${whose(a)})`);
   if (a.truth !== undefined) out.push('', `Label: ${formatNumber(a.truth)} (${formatSigned(a.truth - h.predicted)} from the ${a.lead === 'out-of-bag' ? 'out-of-bag prediction' : 'prediction'})`);
   for (const [name, g] of [
     [a.lead === 'out-of-bag' ? `${h.tally.trees} out-of-bag trees` : '', a.oob],
