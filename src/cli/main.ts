@@ -1,38 +1,41 @@
 // The `copse` command line: the same engine as the editor panel, for scripts and CI.
-import { DataError } from '../core/csv/types';
-import { SchemaMismatchError } from '../core/forest/predict';
-import { OverwriteError } from '../core/forest/score-file';
-import { ModelError } from '../core/model/file';
-import { UsageError } from './args';
-import { EXPLAIN_HELP, runExplain } from './commands/explain';
-import { EXPORT_HELP, runExport } from './commands/export';
-import { FIT_HELP, runFit } from './commands/fit';
-import { PREDICT_HELP, runPredict } from './commands/predict';
-import { runVotes, VOTES_HELP } from './commands/votes';
+// Only the command asked for is loaded, so help and version answer without reading the engine.
+import { readFileSync } from 'node:fs';
+import * as path from 'node:path';
 
 const HELP = `Usage: copse COMMAND [options]
 
 Commands:
   fit      fit a random forest on a CSV file and report what it learned
   predict  score a CSV file with a saved forest
-  votes    show how every tree votes on chosen rows
+  votes    show how the trees vote on chosen rows
   explain  show each feature's contribution to chosen rows' predictions
   export   write a saved forest as an ONNX tree ensemble
 
-Run "copse COMMAND --help" for a command's options.
+Run "copse COMMAND --help" for a command's options, "copse --version" for the version.
 `;
 
-const COMMANDS: Record<string, { run: (argv: string[]) => Promise<void>; help: string }> = {
-  fit: { run: runFit, help: FIT_HELP },
-  predict: { run: runPredict, help: PREDICT_HELP },
-  votes: { run: runVotes, help: VOTES_HELP },
-  explain: { run: runExplain, help: EXPLAIN_HELP },
-  export: { run: runExport, help: EXPORT_HELP },
+type Run = (argv: string[]) => Promise<void>;
+
+// require() rather than import(): the compiled output is CommonJS, and a real import() would load it as ESM.
+const COMMANDS: Record<string, () => Run> = {
+  fit: () => (require('./commands/fit') as typeof import('./commands/fit')).runFit,
+  predict: () => (require('./commands/predict') as typeof import('./commands/predict')).runPredict,
+  votes: () => (require('./commands/votes') as typeof import('./commands/votes')).runVotes,
+  explain: () => (require('./commands/explain') as typeof import('./commands/explain')).runExplain,
+  export: () => (require('./commands/export') as typeof import('./commands/export')).runExport,
 };
 
-/** Errors that are about the user's input get one sentence; anything else is a bug and says so. */
-function isExpected(e: unknown): e is Error {
-  return e instanceof UsageError || e instanceof DataError || e instanceof ModelError || e instanceof SchemaMismatchError || e instanceof OverwriteError || e instanceof RangeError || (e instanceof Error && (e as NodeJS.ErrnoException).code !== undefined);
+/** The version in package.json, which sits three folders above this file in out/ and in the repository. */
+export function version(): string {
+  for (const up of ['../../..', '../..']) {
+    try {
+      return (JSON.parse(readFileSync(path.join(__dirname, up, 'package.json'), 'utf8')) as { version: string }).version;
+    } catch {
+      // try the next place
+    }
+  }
+  return 'unknown';
 }
 
 export async function main(argv: string[]): Promise<number> {
@@ -42,21 +45,23 @@ export async function main(argv: string[]): Promise<number> {
     process.stdout.write(HELP);
     return command ? 0 : 2;
   }
-  const entry = COMMANDS[command];
-  if (!entry) {
+  if (command === '--version' || command === '-V' || command === 'version') {
+    process.stdout.write(`${version()}\n`);
+    return 0;
+  }
+  const load = Object.hasOwn(COMMANDS, command) ? COMMANDS[command] : undefined;
+  if (!load) {
     process.stderr.write(`copse: unknown command "${command}". Commands: ${Object.keys(COMMANDS).join(', ')}.\n`);
     return 2;
   }
   try {
-    await entry.run(rest);
+    await load()(rest);
     return 0;
   } catch (e) {
+    const { describe } = require('./errors') as typeof import('./errors');
+    const said = describe(e, command);
     if (debug) process.stderr.write(`${(e as Error).stack ?? String(e)}\n`);
-    else if (isExpected(e)) {
-      process.stderr.write(`copse ${command}: ${e.message}\n`);
-      if (e instanceof UsageError) process.stderr.write(`Run "copse ${command} --help" for the options.\n`);
-    } else process.stderr.write(`copse ${command}: unexpected error: ${(e as Error).message ?? String(e)} (run with --debug for details)\n`);
-    return e instanceof UsageError ? 2 : 1;
+    else process.stderr.write(said.text);
+    return said.code;
   }
 }
-

@@ -4,13 +4,17 @@ import { readHeader } from '../core/csv/header';
 import type { Forest } from '../core/forest/forest';
 import { nameByPosition, openModelFile, targetColumn, type ModelOrigin } from '../core/model/open';
 import { list, flag, UsageError, type Options, type Parsed } from './args';
+import type { HelpEntry } from './help';
 
 export const MODEL_OPTIONS: Options = { 'by-position': { type: 'boolean' }, 'leave-out': { type: 'string' } };
 
-export const MODEL_HELP = `  --by-position        take DATA.csv's columns in order as the model's features: for an ONNX file whose
-                       features have no names (f0, f1, ...); the column named like the model's target is left out
-  --leave-out LIST     with --by-position: comma-separated columns of DATA.csv that are not features
-`;
+export const MODEL_ENTRIES: readonly HelpEntry[] = [
+  ['--by-position', "take DATA.csv's columns in order as the model's features: for an ONNX file whose\nfeatures have no names (f0, f1, ...); the column named like the model's target is left out"],
+  ['--leave-out LIST', 'with --by-position: comma-separated columns of DATA.csv that are not features'],
+];
+
+/** The same as text, for a help laid out by hand (descriptions in column 24). */
+export const MODEL_HELP = MODEL_ENTRIES.map(([f, d]) => `  ${f.padEnd(21)}${d.split('\n').join(`\n${' '.repeat(23)}`)}\n`).join('');
 
 export interface OpenedForData {
   readonly forest: Forest;

@@ -1,44 +1,52 @@
+import { MAX_CLASSES, ROWS_PER_CLASS, targetDoubt } from '../../core/checks/target';
 import { loadCsv } from '../../core/csv/load';
 import type { LoadOptions } from '../../core/csv/types';
-import type { ColumnKind } from '../../core/data/table';
+import { findColumn, type ColumnKind, type Table } from '../../core/data/table';
 import { fitForest } from '../../core/forest/fit';
-import { parseFeaturesPerSplit, type ForestParams } from '../../core/forest/params';
+import { inferTask } from '../../core/forest/target';
+import { parseFeaturesPerSplit, type FeaturesPerSplit, type ForestParams, type Task } from '../../core/forest/params';
 import { summarizeFit } from '../../core/summary/fit';
 import { ModelWriter } from '../../core/model/file';
-import { choice, flag, fraction, list, parse, text, UsageError, wholeNumber, type Options } from '../args';
+import { choice, flag, fraction, list, parse, text, UsageError, wholeNumber, type Options, type Parsed } from '../args';
+import { DEBUG_ENTRY, optionList, type HelpEntry } from '../help';
+import { checkOutput, writeFailure } from '../output';
 import { progressBar } from '../progress';
-import { fitReport } from '../report';
+import { fitReport, LISTED_ROWS } from '../report';
+
+const FIT_ENTRIES: readonly HelpEntry[] = [
+  ['--target COLUMN', 'the column to predict (required)'],
+  ['--task KIND', 'classification or regression (inferred from the target when absent)'],
+  ['--trees N', 'number of trees (default 100)'],
+  ['--features-per-split K', 'features tried at each split: sqrt, third, log2, all, a whole number,\nor a fraction of the features (default sqrt for classification, third for regression)'],
+  ['--max-depth N', 'deepest level a tree may grow to (default: no limit)'],
+  ['--min-split N', 'fewest rows a node needs to be split (default 2)'],
+  ['--min-leaf N', 'fewest rows in a leaf (default 1)'],
+  ['--criterion NAME', 'gini or entropy (classification), squared-error (regression)'],
+  ['--sample-fraction F', 'rows drawn per tree, as a fraction of the training rows (default 1)'],
+  ['--without-replacement', "draw each tree's rows without replacement instead of a bootstrap sample"],
+  ['--class-weight MODE', 'none or balanced (default none)'],
+  ['--seed N', 'seed for every random choice; the same seed gives the same forest (default 1)'],
+  ['--workers N', 'worker threads (default: one per core)'],
+  ['--holdout F', 'hold out this fraction of rows and score the forest on them'],
+  ['--test TEST.csv', 'score the forest on a separate file with the same columns'],
+  ['--exclude A,B', 'leave these columns out'],
+  ['--type COLUMN=KIND', 'read COLUMN as numeric, categorical or boolean (repeatable)'],
+  ['--missing TOKENS', 'comma-separated cell values that mean missing (default: empty,NA,N/A,NaN,null,?,-)'],
+  ['--sample-rows N', 'fit on a uniform random sample of N rows'],
+  ['--no-importance', 'skip permutation importance (faster on large files)'],
+  ['--many-classes', `fit a class target even when it has more than ${MAX_CLASSES} classes, or fewer than\n${ROWS_PER_CLASS} rows per class on average (refused otherwise: such a target is rarely meant)`],
+  ['--list N', `list N doubtful rows in the report instead of ${LISTED_ROWS} (all: every one)`],
+  ['--save MODEL.json', 'save the forest to this file (never the data or test file)'],
+  ['--json', 'print one JSON object instead of the report'],
+  DEBUG_ENTRY,
+];
 
 export const FIT_HELP = `Usage: copse fit DATA.csv --target COLUMN [options]
 
 Fits a random forest on a CSV file and reports out-of-bag scores, importance and doubtful rows.
 
 Options:
-  --target COLUMN            the column to predict (required)
-  --task KIND                classification or regression (inferred from the target when absent)
-  --trees N                  number of trees (default 100)
-  --features-per-split K     features tried at each split: sqrt, third, log2, all, a whole number,
-                             or a fraction of the features (default sqrt for classification, third for regression)
-  --max-depth N              deepest level a tree may grow to (default: no limit)
-  --min-split N              fewest rows a node needs to be split (default 2)
-  --min-leaf N               fewest rows in a leaf (default 1)
-  --criterion NAME           gini or entropy (classification), squared-error (regression)
-  --sample-fraction F        rows drawn per tree, as a fraction of the training rows (default 1)
-  --without-replacement      draw each tree's rows without replacement instead of a bootstrap sample
-  --class-weight MODE        none or balanced (default none)
-  --seed N                   seed for every random choice; the same seed gives the same forest (default 1)
-  --workers N                worker threads (default: one per core)
-  --holdout F                hold out this fraction of rows and score the forest on them
-  --test TEST.csv            score the forest on a separate file with the same columns
-  --exclude A,B              leave these columns out
-  --type COLUMN=KIND         read COLUMN as numeric, categorical or boolean (repeatable)
-  --missing TOKENS           comma-separated cell values that mean missing (default: empty,NA,N/A,NaN,null,?,-)
-  --sample-rows N            fit on a uniform random sample of N rows
-  --no-importance            skip permutation importance (faster on large files)
-  --save MODEL.json          save the forest to this file
-  --json                     print one JSON object instead of the report
-  --debug                    show stack traces on errors
-`;
+${optionList(FIT_ENTRIES)}`;
 
 const OPTIONS: Options = {
   target: { type: 'string' },
@@ -63,6 +71,8 @@ const OPTIONS: Options = {
   'no-importance': { type: 'boolean' },
   save: { type: 'string' },
   json: { type: 'boolean' },
+  'many-classes': { type: 'boolean' },
+  list: { type: 'string' },
 };
 
 function columnTypes(specs: string[]): Record<string, ColumnKind> {
@@ -82,7 +92,7 @@ export async function runFit(argv: string[]): Promise<void> {
   const args = parse('fit', argv, OPTIONS, 1);
   if (flag(args, 'help')) return void process.stdout.write(FIT_HELP);
   const target = text(args, 'target');
-  if (!target) throw new UsageError('copse fit needs --target COLUMN: the column to predict.', 'fit');
+  if (!target) throw new UsageError('needs --target COLUMN, the column to predict.', 'fit');
   const holdout = fraction(args, 'holdout');
   const testPath = text(args, 'test');
   if (holdout !== undefined && testPath) throw new UsageError('Give either --holdout or --test, not both.', 'fit');
@@ -124,9 +134,22 @@ export async function runFit(argv: string[]): Promise<void> {
     sampleSeed: params.seed,
   };
   const json = flag(args, 'json');
+  const listed = listCount(args);
+  const dataPath = args.positionals[0];
+  const savePath = text(args, 'save');
+  // Checked before a minute of fitting, not after: a typo in the path, or the data file itself, which would be lost.
+  if (savePath) {
+    await checkOutput(savePath, '--save', [
+      { file: dataPath, what: 'the data file' },
+      ...(testPath ? [{ file: testPath, what: 'the --test file' }] : []),
+    ]);
+  }
+  const exclude = list(args, 'exclude');
 
   const t0 = performance.now();
-  const loaded = await loadCsv(args.positionals[0], loadOptions);
+  const loaded = await loadCsv(dataPath, loadOptions);
+  checkTarget(loaded.table, target, task, flag(args, 'many-classes'));
+  if (params.featuresPerSplit !== undefined) checkFeaturesPerSplit(params.featuresPerSplit, loaded.table, target, exclude);
   let test;
   if (testPath) {
     // The test file is read with the training file's column types, so a column cannot change type between them.
@@ -137,14 +160,13 @@ export async function runFit(argv: string[]): Promise<void> {
   }
   const loadSeconds = (performance.now() - t0) / 1000;
   const bar = json ? undefined : progressBar('Growing trees');
-  const savePath = text(args, 'save');
   // Trees go to the model file as they are grown; they are kept in memory only to score a holdout or test set.
   let writer: ModelWriter | undefined;
   const report = await fitForest(loaded.table, {
     target,
     task,
     params,
-    exclude: list(args, 'exclude'),
+    exclude,
     workers: wholeNumber(args, 'workers', 1),
     holdout,
     test,
@@ -161,15 +183,48 @@ export async function runFit(argv: string[]): Promise<void> {
       : undefined,
   }).catch((e) => {
     writer?.abandon();
-    throw e;
+    throw savePath ? writeFailure(e, savePath) : e;
   });
   bar?.end();
-  await writer?.finish();
-  const summary = summarizeFit(report, loaded.table, { notes: loaded.notes, warnings: loaded.warnings });
+  await writer?.finish().catch((e) => {
+    throw writeFailure(e, savePath!);
+  });
+  const suspectLimit = Math.max(SUSPECTS_IN_JSON, listed ?? 0);
+  const summary = summarizeFit(report, loaded.table, { file: dataPath, rowsRead: loaded.rowsRead, sampled: loadOptions.sampleRows !== undefined, notes: loaded.notes, warnings: loaded.warnings, suspectLimit });
   const seconds = { load: loadSeconds, fit: report.seconds.fit };
   if (json) {
     process.stdout.write(JSON.stringify({ ...summary, seconds, model: savePath ?? null }, null, 2) + '\n');
   } else {
-    process.stdout.write(fitReport(summary, seconds, savePath));
+    process.stdout.write(fitReport(summary, seconds, savePath, { list: listed }));
+  }
+}
+
+/** Doubtful rows the JSON lists unless --list asks for more (all are counted). */
+const SUSPECTS_IN_JSON = 50;
+
+/** --list N or --list all; undefined when absent. */
+function listCount(args: Parsed): number | undefined {
+  if (text(args, 'list') === 'all') return Number.MAX_SAFE_INTEGER;
+  return wholeNumber(args, 'list', 1);
+}
+
+/** Refuses a target no one can mean (see core/checks/target.ts), unless --many-classes insists on many classes. */
+function checkTarget(table: Table, target: string, task: Task | undefined, manyClasses: boolean): void {
+  const column = findColumn(table, target);
+  if (!column) return; // the loader has already said the file lacks it
+  const doubt = targetDoubt(column, task ?? inferTask(column));
+  if (!doubt || (doubt.kind === 'many-classes' && manyClasses)) return;
+  if (doubt.kind === 'identifier') throw new UsageError(`${doubt.message}, so there is nothing to learn; choose another --target.`, 'fit');
+  const regression = column.kind === 'numeric' ? ', use --task regression for a numeric target' : '';
+  throw new UsageError(`${doubt.message}; choose another --target${regression}, or add --many-classes if you mean it.`, 'fit');
+}
+
+/** A whole number of features per split above the feature count would be cut down silently; say so instead. */
+function checkFeaturesPerSplit(spec: FeaturesPerSplit, table: Table, target: string, exclude: readonly string[]): void {
+  if (typeof spec !== 'number' || !Number.isInteger(spec)) return;
+  const left = new Set(exclude);
+  const features = table.columns.filter((c) => c.name !== target && !left.has(c.name)).length;
+  if (spec > features) {
+    throw new UsageError(`--features-per-split ${spec} is more than the ${features} feature${features === 1 ? '' : 's'} there are; give at most ${features}, or all.`, 'fit');
   }
 }
