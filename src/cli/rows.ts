@@ -25,13 +25,16 @@ export function wantedRows(args: Parsed, command: string): number[] {
     if (!Number.isInteger(n) || n < 1) throw new UsageError(`--rows takes data row numbers counted from 1; got "${r}".`, command);
     return n;
   });
-  if (wanted.length === 0) throw new UsageError(`copse ${command} needs --rows, such as --rows 1,7,12.`, command);
+  if (wanted.length === 0) throw new UsageError('needs --rows, such as --rows 1,7,12.', command);
   return wanted;
 }
 
-/** Loads the file for the forest and picks out the wanted rows, naming any the file does not have. */
-export async function chooseRows(forest: Forest, dataPath: string, wanted: number[], command: string): Promise<ChosenRows> {
-  const loaded = await loadForScoring(dataPath, forest.schema);
+/**
+ * Loads the file for the forest (unless the caller already has) and picks out the wanted rows, naming any the
+ * file does not have.
+ */
+export async function chooseRows(forest: Forest, dataPath: string, wanted: number[], command: string, already?: LoadResult): Promise<ChosenRows> {
+  const loaded = already ?? (await loadForScoring(dataPath, forest.schema));
   const table = loaded.table;
   const index = new Map<number, number>();
   for (let i = 0; i < table.rowCount; i++) index.set(dataRowOf(table, i), i);

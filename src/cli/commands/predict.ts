@@ -1,25 +1,37 @@
 import { csvLine } from '../../core/csv/write';
 import { predictInterval, quantileIndexFromTrainingFile } from '../../core/explain/quantiles';
+import type { Forest } from '../../core/forest/forest';
 import { predictInWorkers } from '../../core/forest/parallel-predict';
-import { encodeTable } from '../../core/forest/predict';
-import { loadForScoring, predictionColumns, writePredictions, type IntervalCells } from '../../core/forest/score-file';
-import { dataRowOf } from '../../core/summary/fit';
+import { encodeTable, predictEncoded, type Prediction } from '../../core/forest/predict';
+import { predictionColumns, writePredictions, type AddedColumns, type IntervalCells } from '../../core/forest/score-file';
+import { classificationScores, regressionScores } from '../../core/metrics/scores';
+import { dataRowOf, scoresSummary } from '../../core/summary/fit';
+import type { ScoresSummary } from '../../core/summary/types';
 import { knowsTraining } from '../../core/model/open';
 import { flag, fraction, parse, text, UsageError, type Options } from '../args';
-import { MODEL_HELP, MODEL_OPTIONS, openForData } from '../model';
+import { DEBUG_ENTRY, optionList } from '../help';
+import { MODEL_ENTRIES, MODEL_OPTIONS, openForData } from '../model';
+import { checkOutput, writeFailure } from '../output';
+import { value } from '../report';
+import { loadScoringData, truthOf, type TrainingView } from '../training';
 
 export const PREDICT_HELP = `Usage: copse predict MODEL DATA.csv [--out OUT.csv] [--json]
 
 Scores every row of DATA.csv with a saved forest: a Copse model file (.json) or an ONNX tree ensemble (.onnx).
 
+When DATA.csv is the file the forest was fitted on, columns starting oob_ give each training row the answer of
+the trees that never drew it (out-of-bag), and row_role says which rows were training or held out. Read those:
+the all-trees columns look better than the forest is on rows the trees were fitted on.
+
 Options:
-  --out OUT.csv        write the input columns plus the prediction, each class's probability (or the value)
-                       and the share of trees that agree (or the spread of the trees' values); never the input file
-  --interval LEVEL     regression: add a prediction interval at this level, such as 0.9 (quantile regression
-                       forest, Meinshausen 2006); needs --training
-  --training TRAIN.csv the file the forest was fitted on (checked against the model's fingerprint)
-  --json               print one JSON object: rows, columns, timings, and the predictions unless --out is given
-${MODEL_HELP}  --debug              show stack traces on errors
+${optionList([
+  ['--out OUT.csv', "write the input columns plus the prediction, each class's probability (or the value)\nand the share of trees that agree (or the spread of the trees' values); never the input file"],
+  ['--interval LEVEL', 'regression: add a prediction interval at this level, such as 0.9 (quantile regression\nforest, Meinshausen 2006); needs --training'],
+  ['--training TRAIN.csv', "the file the forest was fitted on (checked against the model's fingerprint)"],
+  ['--json', 'print one JSON object: rows, columns, timings, and the predictions unless --out is given'],
+  ...MODEL_ENTRIES,
+  DEBUG_ENTRY,
+])}
 Without --out or --json, the predictions are printed as CSV, one line per data row.
 `;
 
@@ -31,19 +43,23 @@ export async function runPredict(argv: string[]): Promise<void> {
   const [modelPath, dataPath] = args.positionals;
   const level = fraction(args, 'interval');
   const training = text(args, 'training');
+  const out = text(args, 'out');
   if (level !== undefined && !training) throw new UsageError('--interval needs --training TRAIN.csv, the file the forest was fitted on.', 'predict');
+  if (out) await checkOutput(out, '--out', [{ file: dataPath, what: 'the input file' }, ...(training ? [{ file: training, what: 'the --training file' }] : [])]);
   const { forest, notes } = await openForData(modelPath, dataPath, args, 'predict');
   if (level !== undefined && forest.schema.target.task !== 'regression') throw new UsageError('--interval is for regression forests; this one classifies.', 'predict');
   if (level !== undefined && !knowsTraining(forest)) {
     throw new UsageError('--interval needs the rows the forest was trained on and how each tree drew them; an imported forest does not carry them.', 'predict');
   }
   const t0 = performance.now();
-  const loaded = await loadForScoring(dataPath, forest.schema);
+  const data = await loadScoringData(forest, dataPath);
+  const { loaded } = data;
   const table = loaded.table;
   const warnings = [...notes, ...loaded.warnings];
   const x = encodeTable(forest.schema, table, dataPath, loaded.header);
   const t1 = performance.now();
-  const prediction = await predictInWorkers(forest, x, table.rowCount);
+  // On the training file one walk gives both answers (on this thread); elsewhere every core scores.
+  const prediction = data.training ? predictEncoded(forest, x, table.rowCount, data.training.membership) : await predictInWorkers(forest, x, table.rowCount);
   let interval: IntervalCells | undefined;
   if (level !== undefined) {
     const index = await quantileIndexFromTrainingFile(forest, training!);
@@ -51,24 +67,40 @@ export async function runPredict(argv: string[]): Promise<void> {
     interval = { level, lower, upper };
   }
   const t2 = performance.now();
-  const added = predictionColumns(forest, prediction, loaded.header, interval);
-  const out = text(args, 'out');
+  let added = predictionColumns(forest, prediction, loaded.header, interval);
+  let textColumns = forest.schema.target.task === 'classification' ? [0] : [];
+  let outOfBag: ScoresSummary | null = null;
+  if (data.training) {
+    const truth = truthOf(forest, data.target, table.rowCount)!;
+    outOfBag = outOfBagScores(forest, prediction, truth);
+    ({ added, textColumns } = withOutOfBag(forest, prediction, data.training, added, textColumns, loaded.header));
+    const all = added.names.filter((n) => !n.startsWith('oob_') && n !== 'row_role').join(', ');
+    warnings.push(
+      `${dataPath} is the file this forest was fitted on. The all-trees columns (${all}) look better than the forest is: most trees ` +
+        `were fitted on each training row and remember it. Read the oob_ columns instead, the answers of the trees that never drew the row` +
+        `${outOfBag ? ` (${headlineScore(outOfBag)})` : ''}.`,
+    );
+  } else if (data.trainingUnknown) {
+    warnings.push(`${dataPath} looks like the file this forest was fitted on, but out-of-bag answers are not available: ${data.trainingUnknown}.`);
+  }
   if (out) {
     const rowOf = new Map<number, number>();
     for (let i = 0; i < table.rowCount; i++) rowOf.set(dataRowOf(table, i), i);
-    await writePredictions(dataPath, out, loaded.delimiter, added, (k) => rowOf.get(k + 1) ?? -1);
+    await writePredictions(dataPath, out, loaded.delimiter, added, (k) => rowOf.get(k + 1) ?? -1).catch((e) => {
+      throw writeFailure(e, out);
+    });
   }
   if (flag(args, 'json')) {
-    const numeric = forest.schema.target.task === 'regression';
+    const texts = new Set(textColumns);
     const rows = out
       ? undefined
       : Array.from({ length: prediction.rows }, (_, i) => {
           const entry: Record<string, unknown> = { row: dataRowOf(table, i) };
-          added.cells(i).forEach((c, j) => (entry[added.names[j]] = j === 0 && !numeric ? c : Number(c)));
+          added.cells(i).forEach((c, j) => (entry[added.names[j]] = texts.has(j) ? c : c === '' ? null : Number(c)));
           return entry;
         });
     const seconds = { load: (t1 - t0) / 1000, predict: (t2 - t1) / 1000 };
-    process.stdout.write(JSON.stringify({ rows: prediction.rows, columns: added.names, output: out ?? null, warnings, seconds, predictions: rows }, null, 2) + '\n');
+    process.stdout.write(JSON.stringify({ rows: prediction.rows, columns: added.names, output: out ?? null, warnings, outOfBag, seconds, predictions: rows }, null, 2) + '\n');
     return;
   }
   for (const w of warnings) process.stderr.write(`Warning: ${w}\n`);
@@ -79,4 +111,46 @@ export async function runPredict(argv: string[]): Promise<void> {
   let csv = csvLine(['row', ...added.names]);
   for (let i = 0; i < prediction.rows; i++) csv += csvLine([String(dataRowOf(table, i)), ...added.cells(i)]);
   process.stdout.write(csv);
+}
+
+function headlineScore(s: ScoresSummary): string {
+  const what = s.accuracy !== undefined ? `accuracy ${(s.accuracy * 100).toFixed(1)}%` : `R² ${value(s.r2)}`;
+  return `out-of-bag ${what} over ${s.rows} rows`;
+}
+
+/** The out-of-bag score over the training rows, as the fit reported it: the same trees and the same rows. */
+function outOfBagScores(forest: Forest, p: Prediction, truth: Float64Array): ScoresSummary | null {
+  const oob = p.oob!;
+  const has = (i: number) => oob.trees[i] > 0 && !Number.isNaN(truth[i]);
+  const classes = forest.schema.target.classes;
+  if (classes) return scoresSummary(classificationScores(truth, oob.proba!, classes, has), classes);
+  return scoresSummary(regressionScores(truth, oob.predicted, has));
+}
+
+/** The columns predictionColumns adds, then the out-of-bag ones and each row's part in the fit. */
+function withOutOfBag(forest: Forest, p: Prediction, training: TrainingView, added: AddedColumns, textColumns: number[], header: readonly string[]): { added: AddedColumns; textColumns: number[] } {
+  const t = forest.schema.target;
+  const classes = t.classes;
+  const oob = p.oob!;
+  const wanted = [`oob_predicted_${t.name}`, ...(classes ?? []).map((c) => `oob_probability_${c}`), 'oob_trees', 'row_role'];
+  const taken = new Set([...header, ...added.names]);
+  const names = wanted.map((name) => {
+    let n = name;
+    for (let k = 2; taken.has(n); k++) n = `${name}_${k}`;
+    taken.add(n);
+    return n;
+  });
+  const K = classes?.length ?? 0;
+  const cells = (i: number): string[] => {
+    const role = training.membership.trainPos[i] >= 0 ? 'training' : training.holdout.has(i) ? 'holdout' : 'other';
+    if (oob.trees[i] === 0) return [...names.slice(0, -2).map(() => ''), '0', role];
+    const predicted = classes ? classes[oob.predicted[i]] : String(oob.predicted[i]);
+    const probabilities = Array.from({ length: K }, (_, k) => String(Number(oob.proba![i * K + k].toFixed(6))));
+    return [predicted, ...probabilities, String(oob.trees[i]), role];
+  };
+  const first = added.names.length;
+  return {
+    added: { names: [...added.names, ...names], cells: (i) => [...added.cells(i), ...cells(i)] },
+    textColumns: [...textColumns, ...(classes ? [first] : []), first + names.length - 1],
+  };
 }

@@ -1,30 +1,60 @@
-import { argmaxAt } from '../../core/metrics/scores';
+import { formatNumber } from '../../core/format';
+import type { Forest } from '../../core/forest/forest';
 import { predictEncoded } from '../../core/forest/predict';
+import { RowVotes, type GroupAnswer } from '../../core/forest/row-votes';
 import { flag, parse, type Options } from '../args';
-import { MODEL_HELP, MODEL_OPTIONS, openForData } from '../model';
+import { DEBUG_ENTRY, optionList } from '../help';
+import { MODEL_ENTRIES, MODEL_OPTIONS, openForData } from '../model';
 import { chooseRows, wantedRows } from '../rows';
+import { labelOf, loadScoringData, membershipOfRows, roleName, truthOf, type Role } from '../training';
 
 export const VOTES_HELP = `Usage: copse votes MODEL DATA.csv --rows 1,7,12 [--json]
 
-Shows how every tree of a saved forest (.json or .onnx) votes on chosen rows of DATA.csv.
+Shows how the trees of a saved forest (.json or .onnx) vote on chosen rows of DATA.csv.
 Rows are counted from 1: the first row after the header is row 1.
 
+When DATA.csv is the file the forest was fitted on, a row it trained on is answered first by the trees that
+never drew it (out-of-bag): the honest answer, since the other trees fitted that very row. The answer of all
+the trees comes second.
+
 Options:
-  --rows LIST   comma-separated data row numbers (required)
-  --json        print one JSON object
-${MODEL_HELP}  --debug       show stack traces on errors
-`;
+${optionList([
+  ['--rows LIST', 'comma-separated data row numbers (required)'],
+  ['--json', 'print one JSON object'],
+  ...MODEL_ENTRIES,
+  DEBUG_ENTRY,
+])}`;
 
 const OPTIONS: Options = { rows: { type: 'string' }, json: { type: 'boolean' }, ...MODEL_OPTIONS };
+
+/** One group of trees' answer, as the JSON gives it. */
+interface GroupJson {
+  prediction: string | number;
+  probabilities?: Record<string, number>;
+  counts?: Record<string, number>;
+  agreement?: number;
+  /** Regression: the standard deviation of the group's trees' values. */
+  spread?: number;
+  trees: number;
+}
 
 interface VoteRow {
   row: number;
   line: number;
+  role: Role;
+  label?: string | number;
+  /** Which group the top-level answer is: the out-of-bag trees for a training row, all trees otherwise. */
+  lead: 'out-of-bag' | 'all-trees';
   prediction: string | number;
   probabilities?: Record<string, number>;
   counts?: Record<string, number>;
   agreement?: number;
   spread?: number;
+  /** Training rows: Breiman's margin over the out-of-bag votes. */
+  margin?: number;
+  outOfBag?: GroupJson;
+  allTrees: GroupJson;
+  /** Every tree's own vote (class or value), in tree order. */
   trees: Array<string | number>;
 }
 
@@ -34,45 +64,85 @@ export async function runVotes(argv: string[]): Promise<void> {
   const wanted = wantedRows(args, 'votes');
   const [modelPath, dataPath] = args.positionals;
   const { forest, notes } = await openForData(modelPath, dataPath, args, 'votes');
-  const { loaded, tableRows, x } = await chooseRows(forest, dataPath, wanted, 'votes');
-  const table = loaded.table;
-  const pred = predictEncoded(forest, x, wanted.length);
-  const target = forest.schema.target;
-  const T = forest.trees.length;
-  const rows = wanted.map((r, j): VoteRow => {
-    const treeVotes = Array.from({ length: T }, (_, t) => pred.votes[t * wanted.length + j]);
-    const line = table.lineOfRow[tableRows[j]];
-    if (target.task === 'classification') {
-      const classes = target.classes!;
-      const counts: Record<string, number> = Object.create(null);
-      for (const c of classes) counts[c] = 0;
-      for (const v of treeVotes) counts[classes[v]]++;
-      const K = classes.length;
-      return {
-        row: r,
-        line,
-        prediction: classes[argmaxAt(pred.proba!, j * K, K)],
-        probabilities: Object.fromEntries(classes.map((c, k) => [c, pred.proba![j * K + k]])),
-        counts,
-        agreement: pred.agreement![j],
-        trees: treeVotes.map((v) => classes[v]),
-      };
-    }
-    return { row: r, line, prediction: pred.predicted[j], spread: pred.spread![j], trees: treeVotes };
+  const data = await loadScoringData(forest, dataPath);
+  const { tableRows, x } = await chooseRows(forest, dataPath, wanted, 'votes', data.loaded);
+  const table = data.loaded.table;
+  // Membership is known over the whole table (training rows are drawn from all rows with a target); the chosen
+  // rows look theirs up, and the one walk over the trees gives both the all-trees and the out-of-bag answers.
+  const membership = data.training ? membershipOfRows(data.training.membership, tableRows) : undefined;
+  const prediction = predictEncoded(forest, x, wanted.length, membership);
+  const allTruth = truthOf(forest, data.target, table.rowCount);
+  const truth = allTruth ? Float64Array.from(tableRows, (r) => allTruth[r]) : undefined;
+  const holdout = new Set(tableRows.flatMap((r, j) => (data.training?.holdout.has(r) ? [j] : [])));
+  const votes = new RowVotes(forest.schema.target.task, forest.schema.target.classes ?? [], prediction, truth, membership, holdout);
+  const rows = wanted.map((row, j): VoteRow => {
+    const a = votes.answer(j);
+    // The top-level keys repeat the leading group's answer, so a script reading them gets the honest one.
+    const { trees: _leadTrees, ...head } = group(forest, a.headline);
+    const trees = Array.from({ length: votes.trees }, (_, t) => votes.vote(t, j));
+    const classes = forest.schema.target.classes;
+    return {
+      row,
+      line: table.lineOfRow[tableRows[j]],
+      role: roleName(a.role),
+      label: labelOf(forest, data.target, tableRows[j]),
+      lead: a.lead,
+      ...head,
+      margin: a.margin,
+      outOfBag: a.oob ? group(forest, a.oob) : undefined,
+      allTrees: group(forest, a.all),
+      trees: classes ? trees.map((v) => classes[v]) : trees,
+    };
   });
+  const warnings = [...notes, ...(data.trainingUnknown ? [`Out-of-bag answers are not available: ${data.trainingUnknown}.`] : [])];
   if (flag(args, 'json')) {
-    process.stdout.write(JSON.stringify({ task: target.task, target: target.name, trees: T, warnings: notes, rows }, null, 2) + '\n');
+    const target = forest.schema.target;
+    process.stdout.write(JSON.stringify({ task: target.task, target: target.name, trees: votes.trees, warnings, rows }, null, 2) + '\n');
     return;
   }
-  for (const w of notes) process.stderr.write(`Warning: ${w}\n`);
-  let out = '';
-  for (const r of rows) {
-    if (r.counts && r.agreement !== undefined) {
-      const counts = Object.entries(r.counts).map(([c, n]) => `${c} ${n}`).join(', ');
-      out += `Row ${r.row} (line ${r.line}): predicted "${r.prediction}"; ${T} trees voted ${counts}; agreement ${(r.agreement * 100).toFixed(0)}%\n`;
-    } else {
-      out += `Row ${r.row} (line ${r.line}): predicted ${Number(r.prediction).toPrecision(6)}; spread across ${T} trees ${Number(r.spread).toPrecision(4)}\n`;
-    }
+  for (const w of warnings) process.stderr.write(`Warning: ${w}\n`);
+  process.stdout.write(rows.map((r) => rowText(r)).join(''));
+}
+
+function group(forest: Forest, g: GroupAnswer): GroupJson {
+  const classes = forest.schema.target.classes;
+  if (g.tally.kind === 'classification' && classes) {
+    const counts = g.tally.counts;
+    return {
+      prediction: classes[g.predicted],
+      probabilities: Object.fromEntries(classes.map((c, k) => [c, g.proba![k]])),
+      counts: Object.fromEntries(classes.map((c, k) => [c, counts[k]])),
+      agreement: g.agreement,
+      trees: g.tally.trees,
+    };
   }
-  process.stdout.write(out);
+  const tally = g.tally as Extract<GroupAnswer['tally'], { kind: 'regression' }>;
+  return { prediction: g.predicted, spread: tally.sd, trees: tally.trees };
+}
+
+const shown = (v: string | number) => (typeof v === 'number' ? formatNumber(v) : `"${v}"`);
+
+function groupText(g: GroupJson): string {
+  if (g.counts && g.probabilities) {
+    const p = g.probabilities[g.prediction as string];
+    const counts = Object.entries(g.counts).map(([c, n]) => `${c} ${n}`).join(', ');
+    return `${shown(g.prediction)} (probability ${p.toFixed(2)}); votes ${counts}; agreement ${((g.agreement ?? NaN) * 100).toFixed(0)}%`;
+  }
+  return `${shown(g.prediction)} (spread across the trees ${formatNumber(g.spread ?? NaN)})`;
+}
+
+function rowText(r: VoteRow): string {
+  const role = r.role === 'training' ? ', a training row' : r.role === 'holdout' ? ', held out of training' : '';
+  const label = r.label === undefined ? '' : `, labelled ${shown(r.label)}`;
+  let out = `Row ${r.row} (line ${r.line})${role}${label}:\n`;
+  const all = r.allTrees;
+  if (r.outOfBag) {
+    const fitted = all.trees - r.outOfBag.trees;
+    out += `  out-of-bag, the ${r.outOfBag.trees} trees that never drew this row: ${groupText(r.outOfBag)}\n`;
+    out += `  all ${all.trees} trees, including the ${fitted} fitted on this row: ${groupText(all)}\n`;
+  } else {
+    if (r.role === 'training') out += `  every tree drew this row, so no tree gives an out-of-bag answer\n`;
+    out += `  all ${all.trees} trees: ${groupText(all)}\n`;
+  }
+  return out;
 }
