@@ -23,7 +23,7 @@ export function parse(command: string, argv: string[], options: Options, positio
     throw new UsageError((e as Error).message.replace(/\. To specify a positional.*$/s, '.'), command);
   }
   if (!parsed.values.help && parsed.positionals.length !== positionals) {
-    throw new UsageError(`needs ${positionals} file argument${positionals === 1 ? '' : 's'}, got ${parsed.positionals.length}.`, command);
+    throw new UsageError(`takes ${positionals} file argument${positionals === 1 ? '' : 's'}, got ${parsed.positionals.length}.`, command);
   }
   return parsed;
 }

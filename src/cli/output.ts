@@ -3,6 +3,7 @@
 // path the user gave, never the temporary file it was being written through.
 import { constants, promises as fs } from 'node:fs';
 import * as path from 'node:path';
+import { OverwriteError } from '../core/forest/score-file';
 
 export class OutputError extends Error {
   /** true: found before any work, a wrong command line (exit 2); false: the write itself failed (exit 1). */
@@ -16,6 +17,8 @@ export class OutputError extends Error {
 export interface Guarded {
   readonly file: string;
   readonly what: string;
+  /** The whole refusal, when the default wording will not do. */
+  readonly refusal?: string;
 }
 
 async function real(file: string): Promise<string> {
@@ -23,14 +26,15 @@ async function real(file: string): Promise<string> {
 }
 
 /**
- * Throws an OutputError when `out` cannot be written: its folder is missing or read-only, it is a folder, or it
- * is one of the inputs (writing it would destroy the data being read). `flag` names the option in the message.
+ * Throws an OutputError when `out` cannot be written (its folder is missing or read-only, or it is a folder), and
+ * an OverwriteError when it is one of the inputs, which writing it would destroy. `flag` names the option.
  */
 export async function checkOutput(out: string, flag: string, inputs: readonly Guarded[] = []): Promise<void> {
   const target = await real(out);
   for (const input of inputs) {
     if ((await real(input.file)) === target) {
-      throw new OutputError(`Refusing to write ${out}: it is ${input.what}, which would be lost; choose another ${flag} file.`);
+      // Exit 1 like every refusal to write over an input (core's OverwriteError).
+      throw new OverwriteError(input.refusal ?? `Refusing to write ${out}: it is ${input.what}, which would be lost; choose another ${flag} file.`);
     }
   }
   const stat = await fs.stat(out).catch(() => undefined);

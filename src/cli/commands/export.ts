@@ -1,10 +1,9 @@
-import { promises as fs } from 'node:fs';
-import * as path from 'node:path';
-import { OverwriteError } from '../../core/forest/score-file';
 import { loadModel } from '../../core/model/file';
 import { saveOnnxFile } from '../../core/onnx/save';
 import { INPUT_NAME } from '../../core/onnx/metadata';
 import { flag, parse, UsageError, type Options } from '../args';
+import { DEBUG_ENTRY, optionList } from '../help';
+import { checkOutput, writeFailure } from '../output';
 
 export const EXPORT_HELP = `Usage: copse export MODEL.json OUT.onnx [--json]
 
@@ -18,9 +17,7 @@ name) and "probabilities" [rows, classes]; regression gives "value" [rows, 1]. T
 (copse.schema) lists the features, their levels and the classes.
 
 Options:
-  --json    print one JSON object: output path, operator, trees, nodes, bytes
-  --debug   show stack traces on errors
-`;
+${optionList([['--json', 'print one JSON object: output path, operator, trees, nodes, bytes'], DEBUG_ENTRY])}`;
 
 const OPTIONS: Options = { json: { type: 'boolean' } };
 
@@ -28,11 +25,14 @@ export async function runExport(argv: string[]): Promise<void> {
   const args = parse('export', argv, OPTIONS, 2);
   if (flag(args, 'help')) return void process.stdout.write(EXPORT_HELP);
   const [modelPath, outPath] = args.positionals;
-  const [a, b] = await Promise.all([fs.realpath(modelPath).catch(() => path.resolve(modelPath)), fs.realpath(outPath).catch(() => path.resolve(outPath))]);
-  if (a === b) throw new OverwriteError(`Refusing to write the ONNX file over the model ${modelPath}; choose another output file.`);
   if (/\.onnx$/i.test(modelPath)) throw new UsageError(`${modelPath} looks like an ONNX file already; copse export reads a Copse model (MODEL.json) and writes ONNX.`, 'export');
+  await checkOutput(outPath, 'output', [
+    { file: modelPath, what: 'the model', refusal: `Refusing to write the ONNX file over the model ${modelPath}; choose another output file.` },
+  ]);
   const forest = await loadModel(modelPath);
-  const size = await saveOnnxFile(outPath, forest);
+  const size = await saveOnnxFile(outPath, forest).catch((e) => {
+    throw writeFailure(e, outPath);
+  });
   const classification = forest.schema.target.task === 'classification';
   const summary = {
     output: outPath,

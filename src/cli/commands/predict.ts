@@ -45,7 +45,12 @@ export async function runPredict(argv: string[]): Promise<void> {
   const training = text(args, 'training');
   const out = text(args, 'out');
   if (level !== undefined && !training) throw new UsageError('--interval needs --training TRAIN.csv, the file the forest was fitted on.', 'predict');
-  if (out) await checkOutput(out, '--out', [{ file: dataPath, what: 'the input file' }, ...(training ? [{ file: training, what: 'the --training file' }] : [])]);
+  if (out) {
+    await checkOutput(out, '--out', [
+      { file: dataPath, what: 'the input file', refusal: `Refusing to write predictions over the input file ${dataPath}; choose another --out.` },
+      ...(training ? [{ file: training, what: 'the --training file' }] : []),
+    ]);
+  }
   const { forest, notes } = await openForData(modelPath, dataPath, args, 'predict');
   if (level !== undefined && forest.schema.target.task !== 'regression') throw new UsageError('--interval is for regression forests; this one classifies.', 'predict');
   if (level !== undefined && !knowsTraining(forest)) {
