@@ -60,7 +60,12 @@ describe('copse command line', function () {
     assert.equal(r.code, 0, r.stderr);
     const lines = readFileSync(out, 'utf8').trim().split('\n');
     assert.equal(lines.length, 151);
-    assert.equal(lines[0], 'sepal_length,sepal_width,petal_length,petal_width,species,predicted_species,probability_setosa,probability_versicolor,probability_virginica,tree_agreement');
+    // iris.csv is the model's own training file, so the out-of-bag columns follow the all-trees ones.
+    assert.equal(
+      lines[0],
+      'sepal_length,sepal_width,petal_length,petal_width,species,predicted_species,probability_setosa,probability_versicolor,probability_virginica,tree_agreement,' +
+        'oob_predicted_species,oob_probability_setosa,oob_probability_versicolor,oob_probability_virginica,oob_trees,row_role',
+    );
     const first = lines[1].split(',');
     assert.equal(first[5], 'setosa');
     assert.ok(Math.abs(Number(first[6]) + Number(first[7]) + Number(first[8]) - 1) < 1e-4);
@@ -78,13 +83,22 @@ describe('copse command line', function () {
     assert.deepEqual(v.rows.map((x: { row: number }) => x.row), [1, 51, 150]);
     for (const row of v.rows) {
       assert.equal(row.trees.length, 60);
+      assert.equal(row.allTrees.trees, 60);
       const counts = row.trees.reduce((m: Record<string, number>, c: string) => ((m[c] = (m[c] ?? 0) + 1), m), {});
-      for (const [c, n] of Object.entries(row.counts)) assert.equal(counts[c] ?? 0, n);
-      assert.equal(row.agreement, row.counts[row.prediction] / 60);
+      for (const [c, n] of Object.entries(row.allTrees.counts)) assert.equal(counts[c] ?? 0, n);
+      // The top-level answer is the leading group's: its agreement is over that group's trees.
+      const lead = row.lead === 'out-of-bag' ? row.outOfBag : row.allTrees;
+      assert.equal(row.prediction, lead.prediction);
+      assert.equal(row.agreement, row.counts[row.prediction] / lead.trees);
     }
     assert.equal(v.rows[0].prediction, 'setosa');
     const p = JSON.parse(copse('predict', model, iris, '--json').stdout);
-    assert.equal(p.predictions[50].predicted_species, v.rows[1].prediction);
+    assert.equal(p.predictions[50].predicted_species, v.rows[1].allTrees.prediction);
+    for (const [j, row] of [1, 51, 150].entries()) {
+      const oob = p.predictions[row - 1];
+      assert.equal(oob.row_role, v.rows[j].role);
+      assert.equal(oob.oob_predicted_species ?? undefined, v.rows[j].outOfBag?.prediction);
+    }
   });
 
   it('predict adds a quantile-forest interval around each regression prediction (Meinshausen 2006)', () => {
@@ -96,11 +110,12 @@ describe('copse command line', function () {
     assert.equal(r.code, 0, r.stderr);
     const lines = readFileSync(out, 'utf8').trim().split('\n');
     const head = lines[0].split(',');
-    assert.deepEqual(head.slice(-4), ['predicted_progression', 'tree_spread', 'lower_90', 'upper_90']);
+    const at = head.indexOf('predicted_progression');
+    assert.deepEqual(head.slice(at, at + 4), ['predicted_progression', 'tree_spread', 'lower_90', 'upper_90']);
     let ordered = 0;
     for (const line of lines.slice(1)) {
       const c = line.split(',').map(Number);
-      const [pred, , lo, hi] = c.slice(-4);
+      const [pred, , lo, hi] = c.slice(at, at + 4);
       if (lo <= pred && pred <= hi) ordered++;
     }
     assert.equal(ordered, lines.length - 1, 'every interval holds its prediction');

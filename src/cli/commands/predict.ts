@@ -101,7 +101,7 @@ export async function runPredict(argv: string[]): Promise<void> {
       ? undefined
       : Array.from({ length: prediction.rows }, (_, i) => {
           const entry: Record<string, unknown> = { row: dataRowOf(table, i) };
-          added.cells(i).forEach((c, j) => (entry[added.names[j]] = texts.has(j) ? c : c === '' ? null : Number(c)));
+          added.cells(i).forEach((c, j) => (entry[added.names[j]] = c === '' ? null : texts.has(j) ? c : Number(c)));
           return entry;
         });
     const seconds = { load: (t1 - t0) / 1000, predict: (t2 - t1) / 1000 };

@@ -1,0 +1,147 @@
+// Scoring a forest's own training file: votes and predict lead with what the trees that never drew a row say,
+// and those answers are the very ones the fit scored itself with (same trees, same rows), so they must agree
+// with `copse fit --json` exactly, not approximately.
+import * as assert from 'node:assert/strict';
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import * as path from 'node:path';
+
+const root = path.join(__dirname, '..', '..', '..');
+const kites = path.join(root, 'demo/kite-flights.csv');
+const loaves = path.join(root, 'demo/loaf-rise.csv');
+// The rows scripts/make-demo-data.js recorded wrong on purpose, with the label it generated first.
+const planted = JSON.parse(readFileSync(path.join(root, 'demo/kite-flights.label-errors.json'), 'utf8')) as {
+  errors: Array<{ row: number; recorded: string; generated: string }>;
+};
+
+function copse(...args: string[]): { code: number; stdout: string; stderr: string } {
+  const r = spawnSync(process.execPath, [path.join(root, 'bin/copse.js'), ...args], { encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
+  return { code: r.status ?? -1, stdout: r.stdout, stderr: r.stderr };
+}
+
+function json(...args: string[]): Record<string, any> {
+  const r = copse(...args, '--json');
+  assert.equal(r.code, 0, r.stderr);
+  return JSON.parse(r.stdout);
+}
+
+/** The demo files have no quoted fields, so a split on commas reads them. */
+function readCsv(file: string): Array<Record<string, string>> {
+  const [head, ...lines] = readFileSync(file, 'utf8').trim().split('\n');
+  const names = head.split(',');
+  return lines.map((l) => Object.fromEntries(l.split(',').map((c, j) => [names[j], c])));
+}
+
+describe('copse on a forest\'s own training file', function () {
+  this.timeout(180000);
+  const dir = mkdtempSync(path.join(tmpdir(), 'copse-oob-'));
+  const model = path.join(dir, 'kites.json');
+  let fit: Record<string, any>;
+  const row35 = planted.errors.find((e) => e.row === 35)!;
+
+  before(() => {
+    fit = json('fit', kites, '--target', 'outcome', '--save', model, '--list', 'all');
+  });
+
+  it('votes leads row 35 with the out-of-bag vote for the class it was generated with, not its recorded label', () => {
+    assert.deepEqual([row35.recorded, row35.generated], ['crashed', 'soared']);
+    const v = json('votes', model, kites, '--rows', '35');
+    const r = v.rows[0];
+    assert.equal(r.role, 'training');
+    assert.equal(r.label, 'crashed');
+    assert.equal(r.lead, 'out-of-bag');
+    assert.equal(r.outOfBag.prediction, 'soared');
+    assert.equal(r.prediction, 'soared', 'the top-level answer is the out-of-bag one');
+    assert.ok(r.outOfBag.trees > 0 && r.outOfBag.trees < 100, `out-of-bag trees ${r.outOfBag.trees}`);
+    assert.equal(Object.values(r.outOfBag.counts as Record<string, number>).reduce((a, b) => a + b, 0), r.outOfBag.trees);
+    assert.equal(r.allTrees.trees, 100);
+    // Every out-of-bag tree is also among all trees, so no class can have more out-of-bag votes than votes.
+    for (const c of Object.keys(r.allTrees.counts)) assert.ok(r.outOfBag.counts[c] <= r.allTrees.counts[c]);
+    // The fit doubts the same row with the same margin: the same trees, the same draws.
+    const doubt = fit.suspects.find((s: { row: number }) => s.row === 35);
+    assert.ok(doubt, 'the fit lists row 35 among the rows it doubts');
+    assert.equal(doubt.oobPredicted, 'soared');
+    assert.equal(r.margin, doubt.margin);
+  });
+
+  it('votes prints the out-of-bag answer first, and the all-trees one as including trees fitted on the row', () => {
+    const r = copse('votes', model, kites, '--rows', '35');
+    assert.equal(r.code, 0, r.stderr);
+    const lines = r.stdout.trim().split('\n');
+    assert.match(lines[0], /^Row 35 \(line 36\), a training row, labelled "crashed":$/);
+    assert.match(lines[1], /^ {2}out-of-bag, the \d+ trees that never drew this row: "soared" \(probability 0\.\d\d\)/);
+    assert.match(lines[2], /^ {2}all 100 trees, including the \d+ fitted on this row: /);
+  });
+
+  it('predict adds out-of-bag columns whose accuracy over the file is the fit\'s out-of-bag accuracy, exactly', () => {
+    const out = path.join(dir, 'scored.csv');
+    const r = copse('predict', model, kites, '--out', out);
+    assert.equal(r.code, 0, r.stderr);
+    assert.match(r.stderr, /is the file this forest was fitted on.*oob_ columns/);
+    const rows = readCsv(out);
+    assert.equal(rows[34].outcome, 'crashed');
+    assert.equal(rows[34].oob_predicted_outcome, 'soared');
+    assert.equal(rows[34].row_role, 'training');
+    let scored = 0;
+    let right = 0;
+    for (const row of rows) {
+      if (Number(row.oob_trees) === 0) continue;
+      scored++;
+      if (row.oob_predicted_outcome === row.outcome) right++;
+    }
+    assert.equal(scored, fit.oob.rows);
+    assert.equal(right / scored, fit.oob.accuracy);
+    const p = json('predict', model, kites);
+    assert.equal(p.outOfBag.accuracy, fit.oob.accuracy);
+    assert.equal(p.outOfBag.logLoss, fit.oob.logLoss);
+    assert.deepEqual(p.outOfBag.confusion, fit.oob.confusion);
+  });
+
+  it('a regression forest\'s out-of-bag values on its training file score as the fit did', () => {
+    const reg = path.join(dir, 'loaves.json');
+    const f = json('fit', loaves, '--target', 'rise_mm', '--trees', '40', '--save', reg);
+    const p = json('predict', reg, loaves);
+    assert.equal(p.outOfBag.r2, f.oob.r2);
+    assert.equal(p.outOfBag.mae, f.oob.mae);
+    const s = f.suspects[0];
+    const v = json('votes', reg, loaves, '--rows', String(s.row));
+    assert.equal(v.rows[0].outOfBag.prediction, s.oobPredicted);
+    assert.equal(v.rows[0].label, s.label);
+  });
+
+  it('a held-out row is marked holdout and has no out-of-bag part; training rows still have one', () => {
+    const held = path.join(dir, 'held.json');
+    const f = json('fit', kites, '--target', 'outcome', '--trees', '30', '--seed', '5', '--holdout', '0.2', '--save', held);
+    const p = json('predict', held, kites);
+    const roles = p.predictions.map((r: { row_role: string }) => r.row_role);
+    assert.equal(roles.filter((x: string) => x === 'holdout').length, f.test.rows);
+    assert.equal(roles.filter((x: string) => x === 'training').length, f.rows);
+    assert.equal(p.outOfBag.accuracy, f.oob.accuracy);
+    const heldRow = p.predictions.find((r: { row_role: string }) => r.row_role === 'holdout');
+    assert.equal(heldRow.oob_predicted_outcome, null);
+    const trainRow = p.predictions.find((r: { row_role: string }) => r.row_role === 'training');
+    const v = json('votes', held, kites, '--rows', `${heldRow.row},${trainRow.row}`);
+    assert.equal(v.rows[0].role, 'holdout');
+    assert.equal(v.rows[0].lead, 'all-trees');
+    assert.equal(v.rows[0].outOfBag, undefined);
+    assert.equal(v.rows[0].prediction, v.rows[0].allTrees.prediction);
+    assert.equal(v.rows[1].role, 'training');
+    assert.ok(v.rows[1].outOfBag);
+    const text = copse('votes', held, kites, '--rows', String(heldRow.row)).stdout;
+    assert.match(text, /held out of training/);
+    assert.doesNotMatch(text, /out-of-bag/);
+  });
+
+  it('another file gets no out-of-bag part, even with the same rows in it', () => {
+    const some = path.join(dir, 'some-flights.csv');
+    writeFileSync(some, readFileSync(kites, 'utf8').split('\n').slice(0, 101).join('\n') + '\n');
+    const p = json('predict', model, some);
+    assert.ok(!p.columns.some((c: string) => c.startsWith('oob_')), p.columns.join(','));
+    assert.equal(p.outOfBag, null);
+    const v = json('votes', model, some, '--rows', '35');
+    assert.equal(v.rows[0].role, 'other');
+    assert.equal(v.rows[0].label, 'crashed');
+    assert.equal(v.rows[0].outOfBag, undefined);
+  });
+});
