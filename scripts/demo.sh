@@ -27,6 +27,25 @@ cd "$repo"
 
 say() { printf 'copse-demo: %s\n' "$*"; }
 fail() { printf 'copse-demo: ERROR: %s\n' "$*" >&2; exit 1; }
+seconds_since() { echo "$(( $(date +%s) - $1 )) s"; }
+
+# Runs a long step and says every 15 s that it is still going, so a quiet minute does not look like a hang.
+# Usage: with_heartbeat "what it is doing" command args...
+with_heartbeat() {
+  local what=$1 pid t0 n=0 status=0
+  shift
+  t0=$(date +%s)
+  "$@" &
+  pid=$!
+  while kill -0 "$pid" 2>/dev/null; do
+    sleep 1
+    n=$((n + 1))
+    if [ $((n % 15)) = 0 ] && kill -0 "$pid" 2>/dev/null; then say "  still $what ($(seconds_since "$t0"))"; fi
+  done
+  wait "$pid" || status=$?
+  [ "$status" = 0 ] && say "  done in $(seconds_since "$t0")"
+  return "$status"
+}
 
 no_build=${DEMO_NO_BUILD:-0}
 no_wait=${DEMO_NO_WAIT:-0}
@@ -104,8 +123,9 @@ vsix="$repo/copse-$version.vsix"
 if [ "$no_build" = 1 ]; then
   [ -f "$vsix" ] || fail "no $vsix; run without --no-build (or npm run package) first"
 else
-  say "building: npm run package"
-  npm run --silent package >/dev/null || fail "npm run package failed (run it by hand to see why)"
+  say "building the extension and packaging copse-$version.vsix (npm run package; about half a minute)"
+  package_quietly() { npm run --silent package >/dev/null; }
+  with_heartbeat "building" package_quietly || fail "npm run package failed (run it by hand to see why)"
 fi
 [ -f "$vsix" ] || fail "npm run package did not write $vsix"
 
@@ -123,9 +143,16 @@ fi
 [ "$editor" = code-server ] || fail "DEMO_EDITOR must be code or code-server, not $editor"
 
 # --- the bundled workbench -----------------------------------------------------
-bash "$repo/scripts/e2e/setup.sh" --no-browser
 cs_version=$(sed -n 's/^readonly CS_VERSION=//p' "$repo/scripts/e2e/setup.sh")
 entry="$cache_root/code-server-$cs_version/node_modules/code-server/out/node/entry.js"
+if [ -f "$entry" ]; then
+  say "checking the workbench (code-server $cs_version) in $cache_root"
+  bash "$repo/scripts/e2e/setup.sh" --no-browser
+else
+  say "installing the workbench, code-server $cs_version (VS Code 1.100 in a browser), into $cache_root:"
+  say "  npm fetches it, then builds its native modules; a few minutes, once (log: $cache_root/install-code-server-$cs_version.log)"
+  with_heartbeat "installing the workbench" bash "$repo/scripts/e2e/setup.sh" --no-browser
+fi
 [ -f "$entry" ] || fail "code-server is not at $entry after setup"
 
 if pid=$(running_pid); then
@@ -155,6 +182,7 @@ fi
 export XDG_CONFIG_HOME="$profile/xdg/config" XDG_DATA_HOME="$profile/xdg/data"
 unset ELECTRON_RUN_AS_NODE
 
+say "installing copse-$version.vsix into the demo profile $profile (about 10 s)"
 install_log=$(node "$entry" --user-data-dir "$profile/user-data" --extensions-dir "$profile/extensions" \
   --force --install-extension "$vsix" 2>&1) || true
 # code-server exits 0 even when an install fails; its message is the signal.
@@ -171,6 +199,8 @@ if [ "$port" = 0 ] || ! port_free "$port"; then
 fi
 
 : >"$log_file"
+say "starting the workbench on 127.0.0.1:$port (up to a minute; log: $log_file)"
+started_at=$(date +%s)
 launcher=()
 command -v setsid >/dev/null 2>&1 && launcher=(setsid)
 "${launcher[@]}" node "$entry" --auth none --bind-addr "127.0.0.1:$port" \
@@ -193,8 +223,9 @@ healthy() {
   node -e 'require("http").get({ host: "127.0.0.1", port: Number(process.argv[1]), path: "/healthz", timeout: 2000 },
     (r) => process.exit(r.statusCode === 200 ? 0 : 1)).on("error", () => process.exit(1));' "$port"
 }
-for _ in $(seq 300); do
+for n in $(seq 300); do
   healthy && break
+  if [ $((n % 75)) = 0 ]; then say "  still starting ($(seconds_since "$started_at"))"; fi
   kill -0 "$server" 2>/dev/null || { tail -n 30 "$log_file" >&2; rm -f "$pid_file"; fail "code-server exited before serving; log: $log_file"; }
   sleep 0.2
 done
