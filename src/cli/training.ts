@@ -2,13 +2,12 @@
 // the trees say about such a row looks better than the forest is; the trees that never drew the row give the
 // honest answer. Here the command line finds out whether DATA.csv is that file and, if so, which trees drew
 // which row (core recovers that from the forest's seed), so predict and votes can lead with the honest answer.
-import { readHeader } from '../core/csv/header';
-import { loadCsv } from '../core/csv/load';
 import type { LoadResult } from '../core/csv/types';
-import { cellText, findColumn, type Column, type ColumnKind } from '../core/data/table';
+import { cellText, findColumn, type Column } from '../core/data/table';
 import type { Forest } from '../core/forest/forest';
 import { trainingRowsIn } from '../core/forest/membership';
 import type { Membership } from '../core/forest/predict';
+import { loadForScoring } from '../core/forest/score-file';
 import { membershipOf, type RowRole } from '../core/forest/row-votes';
 import { codesFor } from '../core/forest/target';
 import { knowsTraining } from '../core/model/open';
@@ -31,21 +30,20 @@ export interface ScoringData {
 }
 
 /**
- * Loads DATA.csv with the model's column types forced, the target's too when the file has it (so the target is
- * never dropped or retyped by inference and the rows that have one are the fit's), and recovers the training
- * rows when the file is the one the forest was fitted on.
+ * Loads DATA.csv as core loads a file to score (the features' types forced, the target read as inference reads
+ * it, which on the training file is how the fit read it) and recovers the training rows when the file is the
+ * one the forest was fitted on.
  */
 export async function loadScoringData(forest: Forest, dataPath: string): Promise<ScoringData> {
   const { schema } = forest;
-  const columnTypes: Record<string, ColumnKind> = Object.create(null);
-  for (const f of schema.features) columnTypes[f.name] = f.kind;
-  const { header } = await readHeader(dataPath);
-  const hasTarget = header.includes(schema.target.name);
-  if (hasTarget) columnTypes[schema.target.name] = schema.target.task === 'regression' ? 'numeric' : 'categorical';
-  const loaded = await loadCsv(dataPath, { columnTypes });
-  const target = hasTarget ? findColumn(loaded.table, schema.target.name) : undefined;
+  const loaded = await loadForScoring(dataPath, schema);
+  const target = findColumn(loaded.table, schema.target.name);
   const same = knowsTraining(forest) && forest.training.fingerprint !== '' && forest.training.fingerprint === loaded.fingerprint;
-  if (!same || !target) return { loaded, target };
+  if (!same) return { loaded, target };
+  if (!target) {
+    const dropped = loaded.dropped.find((d) => d.name === schema.target.name);
+    return { loaded, trainingUnknown: `its column "${schema.target.name}" was left out${dropped ? ` (${dropped.reason})` : ''}` };
+  }
   const rows = trainingRowsIn(forest, loaded.table, loaded.fingerprint);
   if ('unknown' in rows) return { loaded, target, trainingUnknown: rows.unknown };
   return {
