@@ -133,6 +133,19 @@ describe('copse on a forest\'s own training file', function () {
     assert.doesNotMatch(text, /out-of-bag/);
   });
 
+  it('says so, and adds no out-of-bag part, when the training file cannot give back the fit\'s rows', () => {
+    // A fit on a sample of the file trained on rows the whole file cannot tell apart.
+    const sampled = path.join(dir, 'sampled.json');
+    json('fit', kites, '--target', 'outcome', '--trees', '10', '--sample-rows', '2000', '--save', sampled);
+    const p = json('predict', sampled, kites);
+    assert.ok(!p.columns.some((c: string) => c.startsWith('oob_')), p.columns.join(','));
+    assert.match(p.warnings.join(' '), /is the file this forest was fitted on, but which trees drew each row cannot be told for certain: .*2000/);
+    const v = copse('votes', sampled, kites, '--rows', '35');
+    assert.equal(v.code, 0, v.stderr);
+    assert.match(v.stderr, /cannot be told for certain/);
+    assert.doesNotMatch(v.stdout, /out-of-bag/);
+  });
+
   it('another file gets no out-of-bag part, even with the same rows in it', () => {
     const some = path.join(dir, 'some-flights.csv');
     writeFileSync(some, readFileSync(kites, 'utf8').split('\n').slice(0, 101).join('\n') + '\n');

@@ -3,7 +3,8 @@ import { predictInterval, quantileIndexFromTrainingFile } from '../../core/expla
 import type { Forest } from '../../core/forest/forest';
 import { predictInWorkers } from '../../core/forest/parallel-predict';
 import { encodeTable, predictEncoded, type Prediction } from '../../core/forest/predict';
-import { predictionColumns, writePredictions, type AddedColumns, type IntervalCells } from '../../core/forest/score-file';
+import { targetCodes } from '../../core/forest/target';
+import { loadForScoring, predictionColumns, writePredictions, type AddedColumns, type IntervalCells } from '../../core/forest/score-file';
 import { classificationScores, regressionScores } from '../../core/metrics/scores';
 import { dataRowOf, scoresSummary } from '../../core/summary/fit';
 import type { ScoresSummary } from '../../core/summary/types';
@@ -13,7 +14,7 @@ import { DEBUG_ENTRY, optionList } from '../help';
 import { MODEL_ENTRIES, MODEL_OPTIONS, openForData } from '../model';
 import { checkOutput, writeFailure } from '../output';
 import { value } from '../report';
-import { loadScoringData, truthOf, type TrainingView } from '../training';
+import { trainingOf, type TrainingView } from '../training';
 
 export const PREDICT_HELP = `Usage: copse predict MODEL DATA.csv [--out OUT.csv] [--json]
 
@@ -57,14 +58,14 @@ export async function runPredict(argv: string[]): Promise<void> {
     throw new UsageError('--interval needs the rows the forest was trained on and how each tree drew them; an imported forest does not carry them.', 'predict');
   }
   const t0 = performance.now();
-  const data = await loadScoringData(forest, dataPath);
-  const { loaded } = data;
+  const loaded = await loadForScoring(dataPath, forest.schema);
   const table = loaded.table;
   const warnings = [...notes, ...loaded.warnings];
   const x = encodeTable(forest.schema, table, dataPath, loaded.header);
+  const own = trainingOf(forest, loaded, x);
   const t1 = performance.now();
-  // On the training file one walk gives both answers (on this thread); elsewhere every core scores.
-  const prediction = data.training ? predictEncoded(forest, x, table.rowCount, data.training.membership) : await predictInWorkers(forest, x, table.rowCount);
+  // On its own training file one walk gives both answers (on this thread); elsewhere every core scores.
+  const prediction = own.view ? predictEncoded(forest, x, table.rowCount, own.view.membership) : await predictInWorkers(forest, x, table.rowCount);
   let interval: IntervalCells | undefined;
   if (level !== undefined) {
     const index = await quantileIndexFromTrainingFile(forest, training!);
@@ -75,18 +76,17 @@ export async function runPredict(argv: string[]): Promise<void> {
   let added = predictionColumns(forest, prediction, loaded.header, interval);
   let textColumns = forest.schema.target.task === 'classification' ? [0] : [];
   let outOfBag: ScoresSummary | null = null;
-  if (data.training) {
-    const truth = truthOf(forest, data.target, table.rowCount)!;
-    outOfBag = outOfBagScores(forest, prediction, truth);
-    ({ added, textColumns } = withOutOfBag(forest, prediction, data.training, added, textColumns, loaded.header));
+  if (own.view) {
+    outOfBag = outOfBagScores(forest, prediction, targetCodes(forest, table));
+    ({ added, textColumns } = withOutOfBag(forest, prediction, own.view, added, textColumns, loaded.header));
     const all = added.names.filter((n) => !n.startsWith('oob_') && n !== 'row_role').join(', ');
     warnings.push(
       `${dataPath} is the file this forest was fitted on. The all-trees columns (${all}) look better than the forest is: most trees ` +
         `were fitted on each training row and remember it. Read the oob_ columns instead, the answers of the trees that never drew the row` +
         `${outOfBag ? ` (${headlineScore(outOfBag)})` : ''}.`,
     );
-  } else if (data.trainingUnknown) {
-    warnings.push(`${dataPath} looks like the file this forest was fitted on, but out-of-bag answers are not available: ${data.trainingUnknown}.`);
+  } else if (own.unknown) {
+    warnings.push(`${dataPath} is the file this forest was fitted on, but which trees drew each row cannot be told for certain: ${own.unknown} No out-of-bag columns are added.`);
   }
   if (out) {
     const rowOf = new Map<number, number>();

@@ -1,12 +1,14 @@
 import { formatNumber } from '../../core/format';
 import type { Forest } from '../../core/forest/forest';
 import { predictEncoded } from '../../core/forest/predict';
+import { targetCodes } from '../../core/forest/target';
+import { findColumn } from '../../core/data/table';
 import { RowVotes, type GroupAnswer } from '../../core/forest/row-votes';
 import { flag, parse, type Options } from '../args';
 import { DEBUG_ENTRY, optionList } from '../help';
 import { MODEL_ENTRIES, MODEL_OPTIONS, openForData } from '../model';
 import { chooseRows, wantedRows } from '../rows';
-import { labelOf, loadScoringData, membershipOfRows, roleName, truthOf, type Role } from '../training';
+import { labelOf, membershipOfRows, roleName, trainingOf, type Role } from '../training';
 
 export const VOTES_HELP = `Usage: copse votes MODEL DATA.csv --rows 1,7,12 [--json]
 
@@ -64,16 +66,17 @@ export async function runVotes(argv: string[]): Promise<void> {
   const wanted = wantedRows(args, 'votes');
   const [modelPath, dataPath] = args.positionals;
   const { forest, notes } = await openForData(modelPath, dataPath, args, 'votes');
-  const data = await loadScoringData(forest, dataPath);
-  const { tableRows, x } = await chooseRows(forest, dataPath, wanted, 'votes', data.loaded);
-  const table = data.loaded.table;
-  // Membership is known over the whole table (training rows are drawn from all rows with a target); the chosen
-  // rows look theirs up, and the one walk over the trees gives both the all-trees and the out-of-bag answers.
-  const membership = data.training ? membershipOfRows(data.training.membership, tableRows) : undefined;
+  const { loaded, tableRows, x, encoded } = await chooseRows(forest, dataPath, wanted, 'votes');
+  const table = loaded.table;
+  const training = trainingOf(forest, loaded, encoded);
+  // Membership is known over the whole table; the chosen rows look theirs up, and one walk over the trees
+  // gives both the all-trees and the out-of-bag answers.
+  const membership = training.view ? membershipOfRows(training.view.membership, tableRows) : undefined;
   const prediction = predictEncoded(forest, x, wanted.length, membership);
-  const allTruth = truthOf(forest, data.target, table.rowCount);
-  const truth = allTruth ? Float64Array.from(tableRows, (r) => allTruth[r]) : undefined;
-  const holdout = new Set(tableRows.flatMap((r, j) => (data.training?.holdout.has(r) ? [j] : [])));
+  const targetColumn = findColumn(table, forest.schema.target.name);
+  const allTruth = targetCodes(forest, table);
+  const truth = Float64Array.from(tableRows, (r) => allTruth[r]);
+  const holdout = new Set(tableRows.flatMap((r, j) => (training.view?.holdout.has(r) ? [j] : [])));
   const votes = new RowVotes(forest.schema.target.task, forest.schema.target.classes ?? [], prediction, truth, membership, holdout);
   const rows = wanted.map((row, j): VoteRow => {
     const a = votes.answer(j);
@@ -85,7 +88,7 @@ export async function runVotes(argv: string[]): Promise<void> {
       row,
       line: table.lineOfRow[tableRows[j]],
       role: roleName(a.role),
-      label: labelOf(forest, data.target, tableRows[j]),
+      label: labelOf(forest, targetColumn, tableRows[j]),
       lead: a.lead,
       ...head,
       margin: a.margin,
@@ -94,7 +97,8 @@ export async function runVotes(argv: string[]): Promise<void> {
       trees: classes ? trees.map((v) => classes[v]) : trees,
     };
   });
-  const warnings = [...notes, ...(data.trainingUnknown ? [`Out-of-bag answers are not available: ${data.trainingUnknown}.`] : [])];
+  const warnings = [...notes, ...loaded.warnings];
+  if (training.unknown) warnings.push(`${dataPath} is the file the forest was fitted on, but which trees drew each row cannot be told for certain: ${training.unknown} Every row is answered by all trees.`);
   if (flag(args, 'json')) {
     const target = forest.schema.target;
     process.stdout.write(JSON.stringify({ task: target.task, target: target.name, trees: votes.trees, warnings, rows }, null, 2) + '\n');
