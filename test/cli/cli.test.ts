@@ -86,14 +86,14 @@ describe('copse command line', function () {
       assert.equal(row.allTrees.trees, 60);
       const counts = row.trees.reduce((m: Record<string, number>, c: string) => ((m[c] = (m[c] ?? 0) + 1), m), {});
       for (const [c, n] of Object.entries(row.allTrees.counts)) assert.equal(counts[c] ?? 0, n);
-      // The top-level answer is the leading group's: its agreement is over that group's trees.
-      const lead = row.lead === 'out-of-bag' ? row.outOfBag : row.allTrees;
-      assert.equal(row.prediction, lead.prediction);
-      assert.equal(row.agreement, row.counts[row.prediction] / lead.trees);
+      // The top-level keys are all the trees' answer, as before out-of-bag answers; each group's agreement is
+      // over its own trees.
+      assert.deepEqual([row.prediction, row.counts, row.agreement], [row.allTrees.prediction, row.allTrees.counts, row.allTrees.agreement]);
+      for (const g of [row.allTrees, row.outOfBag].filter(Boolean)) assert.equal(g.agreement, g.counts[g.prediction] / g.trees);
     }
     assert.equal(v.rows[0].prediction, 'setosa');
     const p = JSON.parse(copse('predict', model, iris, '--json').stdout);
-    assert.equal(p.predictions[50].predicted_species, v.rows[1].allTrees.prediction);
+    assert.equal(p.predictions[50].predicted_species, v.rows[1].prediction);
     for (const [j, row] of [1, 51, 150].entries()) {
       const oob = p.predictions[row - 1];
       assert.equal(oob.row_role, v.rows[j].role);

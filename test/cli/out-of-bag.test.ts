@@ -52,7 +52,8 @@ describe('copse on a forest\'s own training file', function () {
     assert.equal(r.label, 'crashed');
     assert.equal(r.lead, 'out-of-bag');
     assert.equal(r.outOfBag.prediction, 'soared');
-    assert.equal(r.prediction, 'soared', 'the top-level answer is the out-of-bag one');
+    // The top-level keys keep all the trees' answer; most of them drew row 35 and repeat its recorded label.
+    assert.equal(r.prediction, r.allTrees.prediction);
     assert.ok(r.outOfBag.trees > 0 && r.outOfBag.trees < 100, `out-of-bag trees ${r.outOfBag.trees}`);
     assert.equal(Object.values(r.outOfBag.counts as Record<string, number>).reduce((a, b) => a + b, 0), r.outOfBag.trees);
     assert.equal(r.allTrees.trees, 100);

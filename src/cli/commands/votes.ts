@@ -45,7 +45,7 @@ interface VoteRow {
   line: number;
   role: Role;
   label?: string | number;
-  /** Which group the top-level answer is: the out-of-bag trees for a training row, all trees otherwise. */
+  /** Which answer to read first: the out-of-bag trees' for a training row some tree left out, all trees' otherwise. */
   lead: 'out-of-bag' | 'all-trees';
   prediction: string | number;
   probabilities?: Record<string, number>;
@@ -80,8 +80,9 @@ export async function runVotes(argv: string[]): Promise<void> {
   const votes = new RowVotes(forest.schema.target.task, forest.schema.target.classes ?? [], prediction, truth, membership, holdout);
   const rows = wanted.map((row, j): VoteRow => {
     const a = votes.answer(j);
-    // The top-level keys repeat the leading group's answer, so a script reading them gets the honest one.
-    const { trees: _leadTrees, ...head } = group(forest, a.headline);
+    // The top-level keys keep their meaning for scripts written before out-of-bag answers: all the trees.
+    // `lead` says which group to read first, and `outOfBag` is that group for a training row.
+    const { trees: _allTrees, ...all } = group(forest, a.all);
     const trees = Array.from({ length: votes.trees }, (_, t) => votes.vote(t, j));
     const classes = forest.schema.target.classes;
     return {
@@ -90,7 +91,7 @@ export async function runVotes(argv: string[]): Promise<void> {
       role: roleName(a.role),
       label: labelOf(forest, targetColumn, tableRows[j]),
       lead: a.lead,
-      ...head,
+      ...all,
       margin: a.margin,
       outOfBag: a.oob ? group(forest, a.oob) : undefined,
       allTrees: group(forest, a.all),
