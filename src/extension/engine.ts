@@ -63,3 +63,4 @@ export { impurityFromTrees } from '../core/explain/impurity';
 export { cellsFromAverages, GridAccumulator, gridBatches, planAxis, rankFeatures, topPairs, type GridPlan } from '../core/explain/region-grid';
 export { targetCodes } from '../core/forest/target';
 export { UNAVAILABLE_FOR_IMPORT } from '../core/forest/membership';
+export { targetDoubt, type TargetDoubt } from '../core/checks/target';

@@ -5,7 +5,7 @@ import { promises as fs, readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import type { CopseContext, FitOrigin } from '../context';
-import { findColumn, fitForest, loadCsv, Scorer, summarizeFit, type FitReport, type LoadResult, type Schema } from '../engine';
+import { findColumn, fitForest, loadCsv, Scorer, summarizeFit, targetDoubt, type FitReport, type LoadResult, type Schema } from '../engine';
 import { isAbort, isUserError, userMessage } from '../errors';
 import { formatBytes, formatSeconds, formatShare } from '../engine';
 import type { PanelHost } from '../panel/panelHost';
@@ -158,6 +158,13 @@ export async function fitCommand(ctx: CopseContext, panel: PanelHost, uri?: vsco
     const column = findColumn(loaded.load.table, pick.profile.name);
     if (!column) throw new RangeError(`The column "${pick.profile.name}" could not be read as a target.`);
     const task = pick.task === 'regression' && column.kind !== 'numeric' ? 'classification' : pick.task;
+    // The command line refuses such a target unless told to; here the user is asked once.
+    const doubt = targetDoubt(column, task);
+    if (doubt) {
+      const go = 'Fit anyway';
+      const answer = await vscode.window.showWarningMessage(`${doubt.message}. A forest fitted on it is unlikely to mean anything.`, { modal: true }, go);
+      if (answer !== go) return;
+    }
     let choices = choicesFrom(settings.training, pick.profile.name, task);
     if (pick.adjust) {
       const features = loaded.load.table.columns.map((c) => c.name).filter((n) => n !== choices.target);
