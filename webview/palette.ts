@@ -1,33 +1,36 @@
-// Colours for classes and values. DOM-free so node tests can check the palette itself.
+// Colours for classes, for signed quantities and for values. DOM-free so node tests can check the palette itself.
 //
-// Class palette rationale (our own design). The colours were picked one at a time, each the
-// candidate (from an OKLCH grid within a lightness band) farthest from the ones already chosen,
-// measured in OKLab after simulating protanopia, deuteranopia and tritanopia as well as normal
-// vision. The earliest entries are therefore the most separable, which matters because most data
-// sets have two to four classes. Then they were rounded to hex and kept as they came out.
-// - Two sets, because one set cannot sit well on both a near-black and a white background: the
-//   dark-theme set lives in OKLab lightness 0.60-0.88 (it must glow against #1e1e1e-like editors),
-//   the light-theme set in 0.40-0.66, dark enough for 3:1 contrast on white (WCAG non-text contrast).
-// - Lightness alternates between neighbours (dark theme: blue, then a much lighter yellow, then a
-//   darker orange ...), so even when a red-green deficiency collapses two hues, they still differ in
-//   lightness; blue against yellow/orange survives all three common deficiencies.
-// - High-contrast themes reuse the set matching their background and get outlines instead of
-//   more colours, because the region map already uses the full range.
-// - Beyond eight classes colours repeat; the legend and tooltips then carry the meaning.
-// test/webview/palette.test.ts re-checks the separations.
+// Class palette (our own design, one set for every theme). The same class must look the same when a
+// user switches between a light and a dark theme, so the eight colours all sit in a band of mid
+// lightness: WCAG relative luminance 0.14-0.28, which gives each of them at least 3:1 contrast against
+// a white or near-white background and against a near-black one (WCAG 2.1 SC 1.4.11, non-text contrast).
+// Inside that band they came out of a search over sRGB (simulated annealing, then rounded to hex and
+// kept): the score was the smallest CIEDE2000 difference between any two of the first k colours, for
+// every k from 2 to 8, taken under normal vision and under simulated protanopia, deuteranopia and
+// tritanopia, so the earliest entries are the most separable (most data sets have two to four classes).
+// The first four were held to hue families (blue, ochre, rose, green) and every colour to a chroma of at
+// least 40, so no class reads as grey, the colour of "no vote"; the later ones were free within the band.
+// Lightness alternates (blue and rose lighter on dark, ochre and green darker), so where a colour-vision
+// deficiency merges two hues they still differ in lightness. test/webview/palette.test.ts re-measures
+// all of this; beyond eight classes colours repeat and the legend and tooltips carry the meaning.
+//
+// Signed quantities (a feature raising or lowering a prediction) get their own two colours, chosen after
+// the classes to sit far from all eight of them, so a bar that raises a prediction is never read as
+// "this class": a muted violet for raising and a burnt orange for lowering, far apart under all four visions.
 
 export type Rgb = readonly [number, number, number];
 export type ThemeTone = 'dark' | 'light';
 
-const DARK_CLASSES = ['#5a9be6', '#edd854', '#cf5604', '#51eefe', '#eb9384', '#a46b91', '#7968eb', '#57c6e6'];
-const LIGHT_CLASSES = ['#2f6fc0', '#861309', '#de6907', '#533a6e', '#9e5a65', '#009ccf', '#193fb4', '#bd788d'];
+export const CLASS_HEX: readonly string[] = ['#3b57ff', '#896506', '#ef5986', '#018362', '#b4349d', '#8c950e', '#e50057', '#1798d3'];
 
-export const CLASS_HEX: Readonly<Record<ThemeTone, readonly string[]>> = { dark: DARK_CLASSES, light: LIGHT_CLASSES };
+export const SIGN_HEX = { raises: '#8c87c8', lowers: '#e65505' } as const;
 
-export function classColour(tone: ThemeTone, k: number): Rgb {
-  const set = CLASS_HEX[tone];
-  if (!(k >= 0)) return tone === 'dark' ? [110, 110, 110] : [150, 150, 150];
-  return parseHex(set[k % set.length]);
+/** Drawn where no class applies (a code below zero); mid grey reads on both backgrounds. */
+const NO_CLASS: Rgb = [128, 128, 128];
+
+export function classColour(k: number): Rgb {
+  if (!(k >= 0)) return NO_CLASS;
+  return parseHex(CLASS_HEX[k % CLASS_HEX.length]);
 }
 
 /** a + (b - a) t, per channel, rounded as a canvas would store it. */

@@ -1,6 +1,6 @@
 // Canvas and chart.js cannot read CSS variables, so the theme is resolved to concrete colours here
 // and re-read whenever VS Code swaps the theme class on <body>.
-import { CLASS_HEX, classColour, css, luminance, parseColour, type Rgb, type ThemeTone } from './palette';
+import { classColour, css, luminance, parseColour, parseHex, SIGN_HEX, type Rgb, type ThemeTone } from './palette';
 
 export interface Theme {
   tone: ThemeTone;
@@ -11,7 +11,7 @@ export interface Theme {
   border: Rgb;
   focus: Rgb;
   error: Rgb;
-  /** Signed quantities (contributions): what pushes a prediction up, and what pulls it down. */
+  /** Signed quantities (contributions): what pushes a prediction up, and what pulls it down. Never class colours. */
   increase: Rgb;
   decrease: Rgb;
   font: string;
@@ -50,13 +50,13 @@ export function readTheme(): Theme {
   );
   const focus = resolve(v('--vscode-focusBorder'), tone === 'dark' ? [0, 120, 212] : [0, 95, 184]);
   const error = resolve(v('--vscode-errorForeground'), tone === 'dark' ? [241, 76, 76] : [200, 30, 30]);
-  // VS Code's own chart colours where the theme defines them; outside it, the blue and orange of our class
-  // palette, the pair that stays apart under the common colour-vision deficiencies (see palette.ts).
-  const increase = resolve(v('--vscode-charts-blue'), parseColour(CLASS_HEX[tone][0])!);
-  const decrease = resolve(v('--vscode-charts-orange'), parseColour(CLASS_HEX[tone][2])!);
+  // Our own pair rather than the theme's chart colours: a theme's blue could be a class's blue, and a
+  // contribution bar must never read as a class (see palette.ts).
+  const increase = parseHex(SIGN_HEX.raises);
+  const decrease = parseHex(SIGN_HEX.lowers);
   const font = v('--vscode-font-family').trim() || 'system-ui, sans-serif';
   const fontSize = parseFloat(v('--vscode-font-size')) || 13;
-  return { tone, highContrast, background, foreground, muted, border, focus, error, increase, decrease, font, fontSize, classColour: (k) => classColour(tone, k) };
+  return { tone, highContrast, background, foreground, muted, border, focus, error, increase, decrease, font, fontSize, classColour };
 }
 
 export function onThemeChange(fn: () => void): void {

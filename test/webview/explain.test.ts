@@ -1,7 +1,7 @@
 // The panel's explanation sections in headless Chromium: each draws from a hand-made host message, shows
 // names and values that contain markup as text, and posts the messages the host acts on.
 import * as assert from 'node:assert/strict';
-import { classColour, parseHex, type Rgb } from '../../webview/palette';
+import { parseHex, SIGN_HEX, type Rgb } from '../../webview/palette';
 import {
   classificationMessages,
   contributionsMessage,
@@ -53,9 +53,8 @@ const texts = (p: PanelPage, selector: string) => p.page.locator(selector).allTe
 describe('panel explanations (headless Chromium)', function () {
   this.timeout(180_000);
   let p: PanelPage;
-  // The harness themes set no --vscode-charts-* colours, so the theme falls back to the palette's pair.
-  const increase = classColour('dark', 0);
-  const decrease = classColour('dark', 2);
+  const increase = parseHex(SIGN_HEX.raises);
+  const decrease = parseHex(SIGN_HEX.lowers);
 
   before(async () => {
     p = await PanelPage.open('dark');
@@ -261,10 +260,9 @@ describe('panel explanations, regression', function () {
       text: '',
     });
     assert.match((await p.page.textContent('[data-testid=contributions-head]')) ?? '', /Row 25: the predicted price_k goes from 230 on average to 262 here\./);
-    // The light theme's fallbacks are the light palette's blue and orange.
     const light = parseHex(THEMES.light.vars['--vscode-editor-background']);
     assert.deepEqual(light, [255, 255, 255]);
-    const [up, down] = await colourCounts(p, '[data-testid=contributions] canvas', [classColour('light', 0), classColour('light', 2)]);
+    const [up, down] = await colourCounts(p, '[data-testid=contributions] canvas', [parseHex(SIGN_HEX.raises), parseHex(SIGN_HEX.lowers)]);
     assert.ok(up > 200 && down > 50, `${up} up, ${down} down`);
     assert.deepEqual(p.errors, []);
   });

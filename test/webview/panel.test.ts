@@ -4,7 +4,7 @@
 import * as assert from 'node:assert/strict';
 import * as fs from 'node:fs';
 import type { PanelToHost, RegionMap } from '../../src/protocol/messages';
-import { classColour, mix, parseHex, rampColour, regionColour, type Rgb, type ThemeTone } from '../../webview/palette';
+import { classColour, mix, parseHex, rampColour, regionColour, type Rgb } from '../../webview/palette';
 import {
   CLASSES,
   classificationMap,
@@ -57,11 +57,11 @@ function distance(a: Rgb, b: Rgb): number {
 }
 
 /** Which class colour, blended with the background by any amount, best explains a pixel. */
-function decodeClass(pixel: Rgb, background: Rgb, tone: ThemeTone, classes: number): { k: number; t: number } {
+function decodeClass(pixel: Rgb, background: Rgb, classes: number): { k: number; t: number } {
   let best = { k: -1, t: 0, err: Infinity };
   for (let k = 0; k < classes; k++) {
     for (let s = 0; s <= 100; s++) {
-      const err = distance(pixel, mix(background, classColour(tone, k), s / 100));
+      const err = distance(pixel, mix(background, classColour(k), s / 100));
       if (err < best.err) best = { k, t: s / 100, err };
     }
   }
@@ -111,11 +111,11 @@ describe('panel webview (headless Chromium)', function () {
     let exact = 0;
     points.forEach(([x, y], n) => {
       const truth = regionTruth(x, y);
-      const got = decodeClass(rgb[n], dark, 'dark', 3);
+      const got = decodeClass(rgb[n], dark, 3);
       assert.equal(got.k, truth.k, `class at (${x.toFixed(2)}, ${y.toFixed(2)}) read back as ${got.k}, pixel ${rgb[n].join(',')}`);
       if (truth.s === 1) {
         // Unanimous cells must be exactly the palette's full-strength region colour.
-        const want = regionColour(classColour('dark', truth.k), dark, 1, 3);
+        const want = regionColour(classColour(truth.k), dark, 1, 3);
         assert.ok(distance(rgb[n], want) <= 2, `pixel ${rgb[n].join(',')} vs ${want.join(',')}`);
         exact++;
       }
@@ -131,8 +131,8 @@ describe('panel webview (headless Chromium)', function () {
     ]);
     assert.equal(regionTruth(5.5, 0.3).s, 1);
     assert.ok(regionTruth(2.6, 0.3).s < 0.6);
-    const strong = decodeClass(rgb[0], dark, 'dark', 3);
-    const weak = decodeClass(rgb[1], dark, 'dark', 3);
+    const strong = decodeClass(rgb[0], dark, 3);
+    const weak = decodeClass(rgb[1], dark, 3);
     assert.equal(strong.k, 1);
     assert.equal(weak.k, 1);
     assert.ok(strong.t > weak.t + 0.3, `tint deep inside ${strong.t} should exceed tint near the edge ${weak.t}`);
@@ -181,7 +181,7 @@ describe('panel webview (headless Chromium)', function () {
       `[...document.querySelectorAll('${strip} .tree')].map((e) => [Number(e.dataset.tree), getComputedStyle(e).backgroundColor])`,
     )) as Array<[number, string]>;
     for (const [t, bg] of read) {
-      const [r, g, b] = classColour('dark', votes.votes[t]);
+      const [r, g, b] = classColour(votes.votes[t]);
       assert.equal(bg, `rgb(${r}, ${g}, ${b})`, `tree ${t}`);
     }
     // The split is visible: this row's trees vote for more than one class.
@@ -304,7 +304,7 @@ describe('panel webview (headless Chromium)', function () {
       [6.5, 2.3],
     ]);
     [0, 1, 2].forEach((k, n) => {
-      const want = regionColour(classColour('light', k), light, 1, CLASSES.length);
+      const want = regionColour(classColour(k), light, 1, CLASSES.length);
       assert.ok(distance(rgb[n], want) <= 2, `light theme class ${k}: ${rgb[n].join(',')} vs ${want.join(',')}`);
     });
     const bodyBg = await p.page.evaluate(`getComputedStyle(document.body).backgroundColor`);
@@ -326,7 +326,7 @@ describe('panel webview (headless Chromium)', function () {
     assert.deepEqual([ready.choice.x, ready.choice.y, ready.choice.reference.mode], [shown.x.feature, shown.y.feature, 'typical']);
     assert.equal((await p.page.textContent('[data-testid=oob-score]'))?.trim(), '93.3%');
     const { rgb } = await pixelsAt(p, [[1.5, 0.5]]);
-    assert.equal(decodeClass(rgb[0], dark, 'dark', 3).k, 0);
+    assert.equal(decodeClass(rgb[0], dark, 3).k, 0);
     assert.equal(await count(p, '[data-testid=suspects] tr[data-row]'), SUSPECTS.length);
     assert.equal(await count(p, '[data-testid=map-matrix] .map-tile'), 3);
     // Saved state is the compact summary: no tree votes, and points capped as sent.

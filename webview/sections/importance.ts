@@ -57,11 +57,12 @@ export class ImportanceView {
         h('figure', { testid: 'importance-contrib' }, this.contribCaption, this.boxes[2], this.contribNote),
       ),
       this.note,
+      // The reference below is written from memory (authors, year, journal, article number).
       h(
         'p',
         { class: 'muted', testid: 'importance-bias' },
         'Why the three can disagree: impurity decrease favours features with many distinct values or levels, because they offer more split points and so win splits by chance more often, even when they carry no signal ' +
-          '(Strobl, Boulesteix, Zeileis & Hothorn 2007, “Bias in random forest variable importance measures”, BMC Bioinformatics 8:25; cited from memory). ' +
+          '(Strobl, Boulesteix, Zeileis & Hothorn 2007, “Bias in random forest variable importance measures”, BMC Bioinformatics 8:25). ' +
           'Permutation drop asks what is lost when a feature’s values are shuffled on rows the trees did not see. Mean |contribution| measures, row by row and in the prediction’s own units, how far each feature moves this forest’s output; it follows the trees’ splits, so it is not free of that bias either.',
       ),
     );
@@ -149,7 +150,8 @@ export class ImportanceView {
     const values = shown.map((m) => by.get(m.feature) ?? null);
     replaceChart(this.contrib, {
       type: 'bar',
-      data: { labels, datasets: [{ data: values, backgroundColor: css(theme.increase, 0.8), barPercentage: 0.8 }] },
+      // Unsigned (a mean of sizes), so neither sign colour: those say "raises" and "lowers" elsewhere.
+      data: { labels, datasets: [{ data: values, backgroundColor: css(theme.foreground, 0.5), barPercentage: 0.8 }] },
       options: {
         indexAxis: 'y',
         responsive: true,

@@ -126,7 +126,7 @@ export class SweepView {
           {
             data: points,
             borderColor: css(theme.focus),
-            backgroundColor: isBest.map((b) => (b ? css(theme.increase) : css(theme.focus))),
+            backgroundColor: isBest.map((b) => (b ? css(theme.foreground) : css(theme.focus))),
             pointBorderColor: isCurrent.map((c) => (c ? css(theme.foreground) : css(theme.focus))),
             pointBorderWidth: isCurrent.map((c) => (c ? 2.5 : 1)),
             pointRadius: isBest.map((b) => (b ? 7 : 4)),
