@@ -1,31 +1,14 @@
 // The large decision-region map: pickers, the grid image, training points on a separate overlay
 // canvas (so the grid pixels stay readable for tests and the overlay can be hit-tested), axes and
 // a legend. Scoring happens in the host; this only draws what arrives.
-import {
-  axisSpan,
-  cellCentre,
-  type FitSummary,
-  type MapAxis,
-  type ReferenceChoice,
-  type RegionMap,
-} from '../../src/protocol/messages';
+import { axisSpan, type FitSummary, type ReferenceChoice, type RegionMap } from '../../src/protocol/messages';
 import { append, clear, custom, h } from '../dom';
-import { count, num, percent, truncate } from '../format';
-import { css, rampColour, regionColour } from '../palette';
+import { num, percent } from '../format';
 import type { Theme } from '../theme';
+import { axisText, drawAxes, MARGIN } from './axes';
 import { drawGrid, sizeCanvas } from './canvas';
-import { rangeShare, valueRange } from './paint';
-import { niceTicks, tickDigits } from './ticks';
-
-const MARGIN = { left: 56, right: 12, top: 8, bottom: 40 };
-const HIT_RADIUS = 6;
-
-interface Placed {
-  x: number;
-  y: number;
-  row: number;
-  target: number;
-}
+import { drawLegend, drawNote } from './legend';
+import { drawPoints, placePoints, pointNear, type Placed } from './points';
 
 type SelectEl = HTMLElement & { value: string };
 
@@ -233,181 +216,15 @@ export class RegionMapView {
     this.grid.dataset.grid = JSON.stringify({ nx: map.nx, ny: map.ny, xMin: xs.min, xMax: xs.max, yMin: ys.min, yMax: ys.max });
     this.grid.setAttribute('aria-label', `Decision regions of ${map.x.feature} against ${map.y.feature}`);
     drawGrid(this.grid, map, this.summary.classes.length, theme);
-    this.drawFrame(S, W, H);
-    this.placePoints();
+    drawAxes(this.frame, { x: this.xTitle, y: this.yTitle }, map, theme, S, W, H);
+    this.placed = placePoints(map, S);
     this.drawPoints();
-    this.drawLegend();
-    this.drawNote();
-  }
-
-  private drawFrame(S: number, W: number, H: number): void {
-    const map = this.map as RegionMap;
-    const theme = this.theme as Theme;
-    const dpr = sizeCanvas(this.frame, W, H);
-    const ctx = this.frame.getContext('2d');
-    if (!ctx) return;
-    ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
-    ctx.clearRect(0, 0, W, H);
-    ctx.strokeStyle = css(theme.border);
-    ctx.lineWidth = 1;
-    ctx.strokeRect(MARGIN.left - 0.5, MARGIN.top - 0.5, S + 1, S + 1);
-    ctx.fillStyle = css(theme.muted);
-    ctx.strokeStyle = css(theme.muted);
-    ctx.font = `${Math.max(10, theme.fontSize - 2)}px ${theme.font}`;
-    const xTicks = ticksFor(map.x, S);
-    ctx.textAlign = 'center';
-    ctx.textBaseline = 'top';
-    for (const t of xTicks) {
-      const px = MARGIN.left + t.at * S;
-      ctx.beginPath();
-      ctx.moveTo(px, MARGIN.top + S);
-      ctx.lineTo(px, MARGIN.top + S + 4);
-      ctx.stroke();
-      ctx.fillText(t.label, px, MARGIN.top + S + 6);
-    }
-    const yTicks = ticksFor(map.y, S);
-    ctx.textAlign = 'right';
-    ctx.textBaseline = 'middle';
-    for (const t of yTicks) {
-      const py = MARGIN.top + S - t.at * S;
-      ctx.beginPath();
-      ctx.moveTo(MARGIN.left - 4, py);
-      ctx.lineTo(MARGIN.left, py);
-      ctx.stroke();
-      ctx.fillText(truncate(t.label, 7), MARGIN.left - 6, py);
-    }
-    this.xTitle.textContent = map.x.feature;
-    this.xTitle.style.left = `${MARGIN.left}px`;
-    this.xTitle.style.width = `${S}px`;
-    this.xTitle.style.top = `${MARGIN.top + S + 22}px`;
-    this.yTitle.textContent = map.y.feature;
-    this.yTitle.style.width = `${S}px`;
-    this.yTitle.style.left = `${-S / 2 + 10}px`;
-    this.yTitle.style.top = `${MARGIN.top + S / 2}px`;
-  }
-
-  private placePoints(): void {
-    const map = this.map as RegionMap;
-    const pts = map.points;
-    this.placed = [];
-    if (!pts) return;
-    const S = this.size;
-    const xs = axisSpan(map.x);
-    const ys = axisSpan(map.y);
-    for (let k = 0; k < pts.x.length; k++) {
-      const row = pts.row[k];
-      // Level axes stack every row of a level on one spot; a fixed per-row jitter spreads them
-      // inside their cell without moving them on redraw.
-      const jx = map.x.kind === 'numeric' ? 0 : (jitter(row, 1) - 0.5) * 0.7;
-      const jy = map.y.kind === 'numeric' ? 0 : (jitter(row, 2) - 0.5) * 0.7;
-      const x = ((pts.x[k] + jx - xs.min) / (xs.max - xs.min)) * S;
-      const y = S - ((pts.y[k] + jy - ys.min) / (ys.max - ys.min)) * S;
-      this.placed.push({ x, y, row, target: pts.target[k] });
-    }
+    drawLegend(this.legend, map, this.summary, theme);
+    drawNote(this.note, map);
   }
 
   private drawPoints(): void {
-    const map = this.map;
-    const theme = this.theme;
-    if (!map || !theme) return;
-    const ctx = this.overlay.getContext('2d');
-    if (!ctx) return;
-    const dpr = this.overlay.width / this.size;
-    ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
-    ctx.clearRect(0, 0, this.size, this.size);
-    const range = valueRange(map);
-    const r = this.placed.length > 800 ? 2.2 : 3;
-    ctx.lineWidth = theme.highContrast ? 1.5 : 1;
-    ctx.strokeStyle = css(theme.highContrast ? theme.foreground : theme.background);
-    for (const p of this.placed) {
-      const c = range ? rampColour(rangeShare(p.target, range)) : theme.classColour(p.target);
-      ctx.fillStyle = css(c);
-      ctx.beginPath();
-      ctx.arc(p.x, p.y, r, 0, Math.PI * 2);
-      ctx.fill();
-      ctx.stroke();
-    }
-    if (this.highlighted.size > 0) {
-      ctx.strokeStyle = css(theme.foreground);
-      ctx.lineWidth = 2;
-      for (const p of this.placed) {
-        if (!this.highlighted.has(p.row)) continue;
-        ctx.beginPath();
-        ctx.arc(p.x, p.y, r + 3.5, 0, Math.PI * 2);
-        ctx.stroke();
-      }
-    }
-  }
-
-  private drawLegend(): void {
-    const map = this.map as RegionMap;
-    const theme = this.theme as Theme;
-    const summary = this.summary as FitSummary;
-    clear(this.legend);
-    if (map.cells.task === 'classification') {
-      const K = summary.classes.length;
-      const items = summary.classes.map((label, k) =>
-        h('span', { class: 'legend-item' }, swatch(css(theme.classColour(k))), h('span', {}, label)),
-      );
-      append(this.legend, h('div', { class: 'legend-classes' }, ...items));
-      // The shading key uses the first class colour; every class fades the same way.
-      const steps = [0, 0.25, 0.5, 0.75, 1].map((t) => {
-        const s = 1 / Math.max(2, K) + t * (1 - 1 / Math.max(2, K));
-        return swatch(css(regionColour(theme.classColour(0), theme.background, s, K)));
-      });
-      append(
-        this.legend,
-        h(
-          'div',
-          { class: 'legend-shade muted' },
-          h('span', {}, map.reference.mode === 'averaged' ? 'weak average' : 'split vote'),
-          ...steps,
-          h('span', {}, map.reference.mode === 'averaged' ? 'strong average' : 'all trees agree'),
-        ),
-      );
-    } else {
-      const range = valueRange(map);
-      if (!range) return;
-      const bar = h('canvas', { class: 'legend-ramp' });
-      sizeCanvas(bar, 160, 10);
-      const ctx = bar.getContext('2d');
-      if (ctx) {
-        for (let px = 0; px < bar.width; px++) {
-          ctx.fillStyle = css(rampColour(px / (bar.width - 1)));
-          ctx.fillRect(px, 0, 1, bar.height);
-        }
-      }
-      append(
-        this.legend,
-        h('div', { class: 'legend-shade muted' }, h('span', {}, num(range.min)), bar, h('span', {}, num(range.max)), h('span', {}, `predicted ${summary.target}`)),
-      );
-    }
-  }
-
-  private drawNote(): void {
-    const map = this.map as RegionMap;
-    clear(this.note);
-    const ref = map.reference;
-    let lead: string;
-    if (ref.mode === 'averaged') {
-      lead = `Each cell averages the forest's answer over ${count(ref.sampleRows)} rows whose other features stay as they were (two-way partial dependence).`;
-    } else if (ref.mode === 'row') {
-      lead = `Other features taken from row ${ref.row}: `;
-    } else {
-      lead = 'Other features held at their median or most frequent level: ';
-    }
-    append(this.note, lead);
-    if (ref.mode !== 'averaged') append(this.note, map.heldAt.map((h) => `${h.feature} = ${h.value}`).join(' · ') || 'none');
-    const pts = map.points;
-    if (pts) {
-      append(
-        this.note,
-        h('br'),
-        pts.x.length < pts.total
-          ? `Dots: ${count(pts.x.length)} of ${count(pts.total)} training rows, sampled. Click one to go to its row.`
-          : `Dots: all ${count(pts.total)} training rows. Click one to go to its row.`,
-      );
-    }
+    if (this.map && this.theme) drawPoints(this.overlay, this.size, this.map, this.placed, this.highlighted, this.theme);
   }
 
   // -------------------------------------------------------------------------------------------
@@ -419,16 +236,7 @@ export class RegionMapView {
 
   private pointAt(ev: MouseEvent): Placed | null {
     const { x, y } = this.localPos(ev);
-    let best: Placed | null = null;
-    let bestD = HIT_RADIUS * HIT_RADIUS;
-    for (const p of this.placed) {
-      const d = (p.x - x) ** 2 + (p.y - y) ** 2;
-      if (d <= bestD) {
-        bestD = d;
-        best = p;
-      }
-    }
-    return best;
+    return pointNear(this.placed, x, y);
   }
 
   private onHover(ev: MouseEvent): void {
@@ -462,36 +270,4 @@ export class RegionMapView {
     this.tip.style.left = `${Math.min(left, MARGIN.left + this.size - 120)}px`;
     this.tip.style.top = `${MARGIN.top + y + 12}px`;
   }
-}
-
-function swatch(colour: string): HTMLElement {
-  const s = h('span', { class: 'swatch' });
-  s.style.backgroundColor = colour;
-  return s;
-}
-
-function jitter(row: number, salt: number): number {
-  let x = (row * 2654435761 + salt * 40503) >>> 0;
-  x ^= x >>> 13;
-  x = Math.imul(x, 0x5bd1e995) >>> 0;
-  x ^= x >>> 15;
-  return (x >>> 0) / 4294967296;
-}
-
-function axisText(axis: MapAxis, n: number, i: number): string {
-  return axis.kind === 'numeric' ? num(cellCentre(axis, n, i)) : axis.levels[i];
-}
-
-function ticksFor(axis: MapAxis, S: number): Array<{ at: number; label: string }> {
-  const span = axisSpan(axis);
-  if (axis.kind !== 'numeric') {
-    const n = axis.levels.length;
-    const every = Math.max(1, Math.ceil((n * 48) / S));
-    const out: Array<{ at: number; label: string }> = [];
-    for (let k = 0; k < n; k += every) out.push({ at: (k - span.min) / (span.max - span.min), label: truncate(axis.levels[k], 10) });
-    return out;
-  }
-  const ticks = niceTicks(span.min, span.max, Math.max(2, Math.round(S / 70)));
-  const digits = tickDigits(ticks);
-  return ticks.map((v) => ({ at: (v - span.min) / (span.max - span.min), label: Math.abs(v) >= 1e5 ? v.toExponential(1) : v.toFixed(digits) }));
 }
