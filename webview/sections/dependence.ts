@@ -146,7 +146,7 @@ export class DependenceView {
     append(
       this.note,
       `Bold: the average over ${d.ice.length} sampled rows; thin: each of those rows with only ${d.feature} changed. ` +
-        `Bars along the bottom: where all ${count(total)} rows the forest is shown with lie (its training rows, for a forest fitted here).`,
+        `The bars along the bottom show how ${count(total)} rows spread along ${d.feature}: its training rows for a forest fitted here, or the rows of the file it is shown with for an opened one.`,
     );
     if (empty.length > 0) {
       append(this.note, ' ', h('strong', {}, 'No rows ' + empty.join(', ') + ':'), ' the curve there is the forest extrapolating.');
