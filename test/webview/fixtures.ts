@@ -294,6 +294,22 @@ export function contributionsMessage(row = 71): Extract<HostToPanel, { type: 'co
   };
 }
 
+/** A row of a wider table (14 features), so the panel folds all but the largest into one row. */
+export function contributionsWide(row = 33): Extract<HostToPanel, { type: 'contributions' }> {
+  const sizes = [0.21, -0.15, 0.12, -0.1, 0.08, 0.07, -0.06, 0.05, 0.03, -0.02, 0.015, 0.01, -0.005, 0.002];
+  // Listed out of order on purpose: the panel sorts by size.
+  const order = [3, 0, 13, 7, 1, 10, 5, 12, 2, 9, 4, 11, 6, 8];
+  const features = order.map((k) => ({ feature: `f${String(k + 1).padStart(2, '0')}`, value: String(10 + k), contribution: sizes[k] }));
+  const base = 0.4;
+  return {
+    type: 'contributions',
+    row,
+    state: 'ready',
+    contributions: { row, output: 0, base, prediction: base + sizes.reduce((a, b) => a + b, 0), features },
+    text: '',
+  };
+}
+
 export function globalMessage(rows: number, done: boolean): Extract<HostToPanel, { type: 'globalContributions' }> {
   return {
     type: 'globalContributions',

@@ -257,6 +257,14 @@ export class PanelPage {
     return file;
   }
 
+  /** One element only, for reviewing a section at full size. */
+  async screenshotOf(selector: string, name: string): Promise<string> {
+    fs.mkdirSync(ARTIFACTS, { recursive: true });
+    const file = path.join(ARTIFACTS, name);
+    await this.page.locator(selector).screenshot({ path: file });
+    return file;
+  }
+
   async close(): Promise<void> {
     await this.context.close();
     fs.rmSync(this.profile, { recursive: true, force: true });
