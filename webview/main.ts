@@ -47,7 +47,11 @@ const mapView = new RegionMapView({
   },
   reveal: (row) => post({ type: 'revealRow', row }),
 });
-const matrixView = new MapMatrixView((x, y) => post({ type: 'openMap', x, y }));
+const matrixView = new MapMatrixView((x, y) => {
+  post({ type: 'openMap', x, y });
+  // The large map is where the answer lands, so take the reader there.
+  mapView.root.closest('section')?.scrollIntoView({ block: 'start' });
+});
 const summaryView = new SummaryView((leaveOut, trees) => post({ type: 'refit', leaveOut, trees }));
 const curveView = new CurveView();
 const importanceView = new ImportanceView();

@@ -230,11 +230,28 @@ describe('panel webview (headless Chromium)', function () {
     assert.deepEqual((await p.posted()).filter((m) => m.type === 'revealRow'), []);
   });
 
-  it('asks the host to open a small map large when it is clicked', async () => {
-    assert.equal(await count(p, '[data-testid=map-matrix] .map-tile'), 3);
+  it('names both axes of every small map', async () => {
+    const tiles = '[data-testid=map-matrix] .map-tile';
+    assert.equal(await count(p, tiles), 3);
+    assert.deepEqual(await p.page.locator(`${tiles} .tile-axis.x`).allTextContents(), ['petal_len →', 'petal_len →', `${HOSTILE_FEATURE} →`]);
+    assert.deepEqual(await p.page.locator(`${tiles} .tile-axis.y`).allTextContents(), ['petal_wid →', 'colour →', 'petal_wid →']);
+    // The feature up runs along the left edge, reading upwards; the feature across sits under the map.
+    const tile = p.page.locator(tiles).nth(1);
+    const [y, canvas, x] = await Promise.all(['.tile-axis.y', 'canvas', '.tile-axis.x'].map((s) => tile.locator(s).boundingBox()));
+    assert.ok(y && canvas && x);
+    assert.ok(y.x + y.width <= canvas.x + 1 && y.height > y.width, 'y title is upright, left of the map');
+    assert.ok(x.y >= canvas.y + canvas.height - 1, 'x title is under the map');
+  });
+
+  it('asks the host to open a small map large when it is clicked, and scrolls to the large map', async () => {
+    // Start with the large map scrolled out of view above.
+    await p.page.evaluate(`window.scrollTo(0, document.querySelector('[data-testid=matrix-section]').getBoundingClientRect().top + window.scrollY - 40)`);
+    const top = () => p.page.evaluate(`document.querySelector('[data-testid=map-section]').getBoundingClientRect().top`) as Promise<number>;
+    assert.ok((await top()) < -100, `map section at ${await top()}`);
     await p.clearPosted();
     await p.page.locator('[data-testid=map-matrix] .map-tile').nth(1).click();
     assert.deepEqual(await p.waitForPosted((m) => m.type === 'openMap'), { type: 'openMap', x: 'petal_len', y: 'colour' });
+    assert.ok(Math.abs(await top()) < 2, `map section at ${await top()} after the click`);
   });
 
   it('posts the chosen features and reference when the pickers change', async () => {
@@ -296,7 +313,10 @@ describe('panel webview (headless Chromium)', function () {
   it('takes its colours from the theme and redraws when the theme changes', async () => {
     await p.screenshot('panel-dark.png');
     await p.page.mouse.move(0, 0);
+    const swatches = () => p.page.evaluate(`[...document.querySelectorAll('[data-testid=region-legend] .legend-item .swatch')].map((e) => getComputedStyle(e).backgroundColor)`);
+    const darkSwatches = await swatches();
     await p.setTheme('light');
+    assert.deepEqual(await swatches(), darkSwatches, 'a class keeps its colour when the theme changes');
     const light = parseHex(THEMES.light.vars['--vscode-editor-background']);
     const { rgb } = await pixelsAt(p, [
       [1.5, 0.5],

@@ -1,5 +1,6 @@
 // Small maps for pairs among the most important features: a quick scan for where the forest
-// draws interesting boundaries; clicking one asks the host for the full-size map of that pair.
+// draws interesting boundaries; clicking one asks the host for the full-size map of that pair
+// (and the panel scrolls to it).
 import type { FitSummary, RegionMap } from '../../src/protocol/messages';
 import { append, clear, h } from '../dom';
 import type { Theme } from '../theme';
@@ -44,16 +45,24 @@ export class MapMatrixView {
       const canvas = h('canvas', { attrs: { 'aria-hidden': 'true' } });
       sizeCanvas(canvas, TILE, TILE);
       drawGrid(canvas, map, summary.classes.length, theme);
+      // Each small map names its axes as the large one does: the feature across under it, the feature
+      // up along its left edge, reading upwards.
       const tile = h(
         'button',
         {
           class: 'map-tile',
           title: `Open ${map.x.feature} against ${map.y.feature} as the large map`,
-          attrs: { type: 'button', 'data-x': map.x.feature, 'data-y': map.y.feature },
+          attrs: {
+            type: 'button',
+            'data-x': map.x.feature,
+            'data-y': map.y.feature,
+            'aria-label': `${map.x.feature} across, ${map.y.feature} up: open as the large map`,
+          },
           on: { click: () => this.open(map.x.feature, map.y.feature) },
         },
+        h('span', { class: 'tile-axis y' }, `${map.y.feature} →`),
         canvas,
-        h('span', { class: 'tile-caption' }, h('span', {}, map.x.feature), h('span', { class: 'muted' }, ' across, '), h('span', {}, map.y.feature), h('span', { class: 'muted' }, ' up')),
+        h('span', { class: 'tile-axis x' }, `${map.x.feature} →`),
       );
       this.root.appendChild(tile);
     }
