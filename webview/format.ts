@@ -29,3 +29,13 @@ export function headline(kind: 'classification' | 'regression', value: number): 
 export function truncate(text: string, max: number): string {
   return text.length <= max ? text : `${text.slice(0, Math.max(1, max - 1))}…`;
 }
+
+/**
+ * What a capped list holds: "50 of 261 rows …" when the sender says how many there are, otherwise only
+ * what is known. The host sends every item up to the cap, so a shorter list is complete; a full one may not be.
+ */
+export function listed(shown: number, total: number | null, cap: number, what: string): string {
+  if (total !== null && total > shown) return `${count(shown)} of ${count(total)} ${what}.`;
+  if (total !== null || shown < cap) return `All ${count(shown)} ${what}.`;
+  return `The first ${count(shown)} ${what}; the list stops at ${count(cap)}, so there may be more.`;
+}

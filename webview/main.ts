@@ -86,6 +86,8 @@ function build(): void {
       { class: 'panel' },
       h('header', { class: 'top' }, title, status),
       h('p', { class: 'caution', testid: 'caution', attrs: { role: 'note' } }, CAUTION),
+      // Scores first: how well the forest does decides how much any map or explanation below is worth.
+      summarySection,
       h(
         'div',
         { class: 'columns' },
@@ -99,7 +101,6 @@ function build(): void {
         h(
           'div',
           { class: 'col' },
-          summarySection,
           h('section', { class: 'card', testid: 'warnings-section' }, warningsTitle, warnings),
           curveSection,
           section('sweep-section', 'Features tried per split', sweepView.root),
@@ -108,7 +109,7 @@ function build(): void {
       ),
       section('votes-section', 'Tree votes on the selected rows', votesView.root),
       section('contributions-section', 'What moved this row’s prediction', contributionsView.root),
-      section('suspects-section', 'Rows the forest doubts', h('p', { class: 'muted' }, 'Lowest out-of-bag margin first. Click a row to go to it.'), suspectsView.root),
+      section('suspects-section', 'Rows the forest doubts', suspectsView.root),
     ),
   );
 }

@@ -121,6 +121,24 @@ export function luminance(c: Rgb): number {
   return 0.2126 * srgbToLinear(c[0]) + 0.7152 * srgbToLinear(c[1]) + 0.0722 * srgbToLinear(c[2]);
 }
 
+/** WCAG 2 contrast ratio, 1 to 21. */
+export function contrastRatio(a: Rgb, b: Rgb): number {
+  const [hi, lo] = [luminance(a), luminance(b)].sort((x, y) => y - x);
+  return (hi + 0.05) / (lo + 0.05);
+}
+
+/**
+ * A tint of `ink` over `background` for counts: weakest at `share` 0, strongest at 1, never so strong
+ * that text in `ink` on it falls below 4.5:1 (WCAG 2.1 SC 1.4.3), whatever the theme's two colours are.
+ */
+export function countTint(background: Rgb, ink: Rgb, share: number): Rgb {
+  const weakest = 0.08;
+  let strongest = 0.6;
+  while (strongest > weakest && contrastRatio(ink, mix(background, ink, strongest)) < 4.5) strongest -= 0.01;
+  const s = Number.isFinite(share) ? Math.min(1, Math.max(0, share)) : 0;
+  return mix(background, ink, weakest + (strongest - weakest) * s);
+}
+
 export function parseHex(hex: string): Rgb {
   const m = /^#([0-9a-f]{2})([0-9a-f]{2})([0-9a-f]{2})/i.exec(hex);
   if (!m) throw new Error(`not a #rrggbb colour: ${hex}`);

@@ -132,7 +132,7 @@ export class ImportanceView {
 
     clear(this.note);
     if (!hasPerm) append(this.note, `Permutation importance ${s.permutationNote ?? 'was not measured for this forest.'} `);
-    if (order.length > shown.length) append(this.note, `${order.length - shown.length} less important features not shown. `);
+    if (order.length > shown.length) append(this.note, `${shown.length} of ${order.length} features shown, the most important first. `);
     append(this.note, 'A negative drop means shuffling the feature did not hurt: treat it as no evidence of use.');
   }
 

@@ -2,7 +2,7 @@
 import type { ClassificationScoreSummary, FitSummary, RegressionScoreSummary, ScoreSummary } from '../../src/protocol/messages';
 import { append, clear, custom, h } from '../dom';
 import { count, fixed, headline, num, percent } from '../format';
-import { css } from '../palette';
+import { countTint, css } from '../palette';
 import type { Theme } from '../theme';
 
 export class SummaryView {
@@ -33,8 +33,10 @@ export class SummaryView {
       return;
     }
     const taskText = s.task === 'classification' ? `classification into ${s.classes.length} classes` : 'regression';
-    append(
-      this.root,
+    // Three blocks that sit side by side on a wide panel and stack on a narrow one.
+    const scores = h(
+      'div',
+      { class: 'summary-block' },
       h(
         'dl',
         { class: 'facts' },
@@ -50,8 +52,7 @@ export class SummaryView {
       scoreTable(s),
     );
     const cm = s.task === 'classification' ? confusionBlock(s, theme) : residualBlock(s);
-    if (cm) append(this.root, cm);
-    append(this.root, this.featureBlock(s));
+    append(this.root, scores, cm, this.featureBlock(s));
   }
 
   private featureBlock(s: FitSummary): HTMLElement {
@@ -146,22 +147,25 @@ function confusionBlock(s: FitSummary, theme: Theme): HTMLElement | null {
     ...labels.map((l, k) => h('th', { attrs: { scope: 'col' } }, swatchFor(theme, k), l)),
     h('th', { class: 'muted' }, 'recall'),
   );
-  const rows = scores.confusion.map((row, t) => {
-    const total = row.reduce((a, b) => a + b, 0);
-    return h(
+  // One shade for every cell, stronger the more rows it holds, so the biggest numbers stand out first
+  // and a thin off-diagonal cell stays faint: the table reads as counts, not as judgements.
+  const most = Math.max(0, ...scores.confusion.flat());
+  const rows = scores.confusion.map((row, t) =>
+    h(
       'tr',
       {},
       h('th', { attrs: { scope: 'row' } }, swatchFor(theme, t), labels[t] ?? `class ${t}`),
       ...row.map((n, p) => {
         const td = h('td', { class: p === t ? 'diag' : '' }, count(n));
-        // Shade by share of the true class so a weak class shows up regardless of its size.
-        const share = total > 0 ? n / total : 0;
-        if (n > 0) td.style.backgroundColor = css(p === t ? theme.foreground : theme.error, 0.06 + 0.3 * share);
+        if (n > 0 && most > 0) {
+          td.style.backgroundColor = css(countTint(theme.background, theme.foreground, n / most));
+          td.style.color = css(theme.foreground);
+        }
         return td;
       }),
       h('td', { class: 'muted' }, percent(scores.perClass[t]?.recall ?? null, 0)),
-    );
-  });
+    ),
+  );
   const precision = h(
     'tr',
     {},
@@ -174,6 +178,7 @@ function confusionBlock(s: FitSummary, theme: Theme): HTMLElement | null {
     { class: 'confusion', testid: 'confusion' },
     h('h3', {}, `Confusion (${which})`),
     h('table', { class: 'confusion-table' }, h('thead', {}, head), h('tbody', {}, ...rows, precision)),
+    h('p', { class: 'muted note' }, 'Rows are the true class, columns the predicted one; the more rows a cell holds, the stronger its shade.'),
   );
 }
 

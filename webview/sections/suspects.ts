@@ -1,14 +1,16 @@
 // Training rows whose out-of-bag vote went most against their own label: often mislabelled rows,
 // data-entry slips, or genuinely ambiguous cases worth a look before trusting the fit.
-import type { FitSummary, SuspectRow } from '../../src/protocol/messages';
+import { LIMITS, type FitSummary, type SuspectRow } from '../../src/protocol/messages';
 import { append, clear, h } from '../dom';
-import { fixed, num } from '../format';
+import { fixed, listed, num } from '../format';
 import { css } from '../palette';
 import type { Theme } from '../theme';
 
 export class SuspectsView {
   readonly root: HTMLElement;
   private rows: SuspectRow[] = [];
+  /** How many rows the host found in all, when it says; the list itself stops at LIMITS.suspects. */
+  private total: number | null = null;
   private summary: FitSummary | null = null;
   private theme: Theme | null = null;
   private highlighted = new Set<number>();
@@ -22,8 +24,9 @@ export class SuspectsView {
     this.draw();
   }
 
-  setRows(rows: SuspectRow[]): void {
+  setRows(rows: SuspectRow[], total: number | null = null): void {
     this.rows = rows;
+    this.total = total;
     this.draw();
   }
 
@@ -67,6 +70,7 @@ export class SuspectsView {
     });
     append(
       this.root,
+      h('p', { class: 'muted', testid: 'suspects-count' }, listed(this.rows.length, this.total, LIMITS.suspects, 'rows whose out-of-bag vote went against their own label'), ' Lowest out-of-bag margin first; click a row to go to it.'),
       h(
         'table',
         { class: 'suspect-table' },
