@@ -1,15 +1,19 @@
-// How the individual trees voted on the rows the user selected in the editor. The strip keeps
-// tree order, so the same tree sits in the same column for every row and shared splits line up.
-import type { FitSummary, RowVotes } from '../../src/protocol/messages';
+// How the individual trees voted on the rows the user selected in the editor. For a classifier, a strip
+// in tree order, so the same tree sits in the same column for every row and shared splits line up; for
+// a regression, each tree's value as a dot on a numeric axis (tree-values.ts).
+import { LIMITS, type FitSummary, type RowVotes } from '../../src/protocol/messages';
 import { append, clear, custom, h } from '../dom';
-import { count, fixed, num, percent } from '../format';
-import { css, rampColour } from '../palette';
+import { count, fixed, listed, num, percent } from '../format';
+import { css } from '../palette';
 import type { Theme } from '../theme';
+import { treeValues, valueScale, type ValueScale } from './tree-values';
 
 export class VotesView {
   readonly root: HTMLElement;
   private readonly list: HTMLElement;
   private readonly group: HTMLElement & { checked: boolean };
+  private readonly controls: HTMLElement;
+  private readonly note: HTMLElement;
   private rows: RowVotes[] = [];
   private summary: FitSummary | null = null;
   private theme: Theme | null = null;
@@ -21,13 +25,9 @@ export class VotesView {
     this.group = custom('vscode-checkbox', { testid: 'group-votes', attrs: { label: 'Group trees by vote' } }) as HTMLElement & { checked: boolean };
     this.group.addEventListener('change', () => this.draw());
     this.list = h('div', { class: 'vote-list' });
-    this.root = h(
-      'div',
-      { class: 'votes', testid: 'disagreement' },
-      h('div', { class: 'controls' }, this.group),
-      this.list,
-      h('p', { class: 'muted' }, 'One cell per tree. A notch under a cell marks a tree that did not see this row while training: those votes make the out-of-bag answer.'),
-    );
+    this.controls = h('div', { class: 'controls' }, this.group);
+    this.note = h('p', { class: 'muted' });
+    this.root = h('div', { class: 'votes', testid: 'disagreement' }, this.controls, this.list, this.note);
   }
 
   setSummary(summary: FitSummary): void {
@@ -47,34 +47,35 @@ export class VotesView {
 
   private draw(): void {
     clear(this.list);
+    clear(this.note);
     const { summary, theme } = this;
     if (!summary || !theme) return;
+    const classification = summary.task === 'classification';
+    // Grouping reorders a colour strip; on a numeric axis the dots already sit in value order.
+    this.controls.classList.toggle('hidden', !classification);
     if (this.rows.length === 0) {
       append(this.list, h('p', { class: 'muted empty' }, 'Put the cursor on a data row in the CSV (or select several) to see how each tree voted.'));
       return;
     }
-    const classification = summary.task === 'classification';
-    let lo = Infinity;
-    let hi = -Infinity;
-    if (!classification) {
-      for (const r of this.rows) for (const v of r.votes) (lo = Math.min(lo, v)), (hi = Math.max(hi, v));
-      if (!(hi > lo)) hi = lo + 1;
-    }
-    const colourOf = (v: number) => (classification ? theme.classColour(v) : rampColour((v - lo) / (hi - lo)));
+    const scale = classification ? null : valueScale(this.rows);
     const say = (v: number | null) => (v === null ? '–' : classification ? (summary.classes[v] ?? `class ${v}`) : num(v));
-    for (const r of this.rows) append(this.list, this.rowBlock(r, classification, colourOf, say));
-    if (!classification) append(this.list, h('p', { class: 'muted' }, `Colour runs from the lowest vote shown, ${num(lo)} (dark), to the highest, ${num(hi)} (light).`));
+    for (const r of this.rows) append(this.list, this.rowBlock(r, scale, say));
+    // Only a full list can be cut short; the host does not say how many rows were selected.
+    append(
+      this.note,
+      this.rows.length >= LIMITS.selectedRows ? `${listed(this.rows.length, null, LIMITS.selectedRows, 'selected rows')} ` : '',
+      classification
+        ? 'One cell per tree. A notch under a cell marks a tree that did not see this row while training: those votes make the out-of-bag answer.'
+        : 'One dot per tree, at the value it predicts; dots stack where trees agree. Filled dots are trees that did not see the row while training; the dashed line is their mean, the out-of-bag answer, and the solid line is the row’s own label.',
+    );
   }
 
-  private rowBlock(
-    r: RowVotes,
-    classification: boolean,
-    colourOf: (v: number) => readonly [number, number, number],
-    say: (v: number | null) => string,
-  ): HTMLElement {
+  private rowBlock(r: RowVotes, scale: ValueScale | null, say: (v: number | null) => string): HTMLElement {
     const theme = this.theme as Theme;
     const summary = this.summary as FitSummary;
-    const oob = new Set(r.outOfBag);
+    const classification = scale === null;
+    // A classifier's out-of-bag trees vote; a regression's are averaged.
+    const oobName = classification ? 'out-of-bag vote' : 'out-of-bag mean';
     const missed = r.label !== null && r.oobVote !== null && classification && r.label !== r.oobVote;
     const head = h(
       'div',
@@ -82,15 +83,15 @@ export class VotesView {
       h('button', { class: 'row-link', attrs: { type: 'button' }, title: 'Show this row in the editor', on: { click: () => this.reveal(r.row) } }, `Row ${r.row}`),
       stat('label', swatchOr(classification, theme, r.label), say(r.label)),
       summary.oobUnavailable
-        ? stat('out-of-bag vote', h('span', { class: 'muted', title: summary.oobUnavailable }, 'unavailable'))
+        ? stat(oobName, h('span', { class: 'muted', title: summary.oobUnavailable }, 'unavailable'))
         : stat(
-            'out-of-bag vote',
+            oobName,
             swatchOr(classification, theme, r.oobVote),
             say(r.oobVote),
             missed ? h('span', { class: 'miss', title: 'The out-of-bag vote disagrees with the label' }, ' ✗ differs') : null,
           ),
       stat('agreement', percent(r.agreement, 1)),
-      classification ? stat('vote entropy', `${fixed(r.entropy, 2)} bits`) : stat('spread of votes', num(sd(r.votes))),
+      classification ? stat('vote entropy', `${fixed(r.entropy, 2)} bits`) : null,
       summary.oobUnavailable ? null : stat('out-of-bag trees', count(r.outOfBag.length)),
       r.interval ? stat(`${Number((r.interval.level * 100).toFixed(1))}% interval`, h('span', { testid: 'row-interval' }, `${num(r.interval.lower)} to ${num(r.interval.upper)}`)) : null,
       h('button', { class: 'row-link', testid: 'explain-row', attrs: { type: 'button' }, title: 'Chart how each feature moved this row’s prediction', on: { click: () => this.explain(r.row) } }, 'Explain'),
@@ -107,6 +108,15 @@ export class VotesView {
           }),
         )
       : null;
+    const strip = scale ? treeValues(r, scale, theme, summary.target, !summary.oobUnavailable) : this.classStrip(r, say);
+    const block = h('div', { class: missed ? 'vote-row missed' : 'vote-row' }, head, counts, strip);
+    block.dataset.row = String(r.row);
+    return block;
+  }
+
+  private classStrip(r: RowVotes, say: (v: number | null) => string): HTMLElement {
+    const theme = this.theme as Theme;
+    const oob = new Set(r.outOfBag);
     const order = r.votes.map((_, t) => t);
     if (this.group.checked) order.sort((a, b) => r.votes[a] - r.votes[b] || a - b);
     const strip = h('div', { class: 'vote-strip', testid: 'vote-strip', attrs: { 'data-trees': String(r.votes.length), role: 'img' } });
@@ -115,12 +125,10 @@ export class VotesView {
       const v = r.votes[t];
       const cell = h('span', { class: oob.has(t) ? 'tree oob' : 'tree', title: `tree ${t + 1}: ${say(v)}${oob.has(t) ? ' (out-of-bag)' : ''}` });
       cell.dataset.tree = String(t);
-      cell.style.backgroundColor = css(colourOf(v));
+      cell.style.backgroundColor = css(theme.classColour(v));
       strip.appendChild(cell);
     }
-    const block = h('div', { class: missed ? 'vote-row missed' : 'vote-row' }, head, counts, strip);
-    block.dataset.row = String(r.row);
-    return block;
+    return strip;
   }
 }
 
@@ -133,10 +141,4 @@ function swatchOr(classification: boolean, theme: Theme, k: number | null): HTML
   const s = h('span', { class: 'swatch' });
   s.style.backgroundColor = css(theme.classColour(k));
   return s;
-}
-
-function sd(xs: number[]): number {
-  if (xs.length < 2) return 0;
-  const m = xs.reduce((a, b) => a + b, 0) / xs.length;
-  return Math.sqrt(xs.reduce((a, b) => a + (b - m) ** 2, 0) / (xs.length - 1));
 }
