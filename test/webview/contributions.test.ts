@@ -41,7 +41,8 @@ describe('panel contributions (headless Chromium)', function () {
   it('lists a row’s contributions as a table: the class explained, base and prediction in one sentence, largest first, signed', async () => {
     await p.send(contributionsMessage());
     const head = (await p.page.textContent('[data-testid=contributions-head]')) ?? '';
-    assert.equal(head.replace(/\s+/g, ' ').trim(), 'Row 71: the forest’s average probability of versicolor is 0.333; this row’s values take it to 0.803.');
+    // Row 71 is a training row, so the host explains it over the trees that never saw it, and says so.
+    assert.equal(head.replace(/\s+/g, ' ').trim(), 'Row 71 (explained by the 20 trees that never saw it): their average probability of versicolor is 0.333; this row’s values take it to 0.803.');
     // A real table: column headers, and each feature's name as its row's header.
     const heads = await p.page.locator('[data-testid=contributions-table] thead th').evaluateAll((ths) => ths.map((th) => [th.getAttribute('scope'), (th.textContent ?? '').trim()]));
     assert.deepEqual(heads.slice(0, 3), [
@@ -83,6 +84,7 @@ describe('panel contributions (headless Chromium)', function () {
 
   it('folds all but the largest contributions into one “other features” row that opens in place', async () => {
     await p.send(contributionsWide());
+    assert.match((await p.page.textContent('[data-testid=contributions-head]')) ?? '', /^Row 33: the forest’s average probability of setosa is 0\.4; this row’s values take it to 0\.652\.$/);
     const rows = await contributionRows(p);
     // Largest by absolute size first, whatever order the host listed them in.
     assert.deepEqual(
@@ -148,6 +150,8 @@ describe('panel contributions, regression in the light theme', function () {
         output: null,
         base: 230,
         prediction: 262,
+        trees: 40,
+        outOfBag: false,
         features: [
           { feature: 'area_m2', value: '142', contribution: 40 },
           { feature: 'distance_km', value: '12.5', contribution: -10 },

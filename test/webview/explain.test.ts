@@ -4,6 +4,7 @@ import * as assert from 'node:assert/strict';
 import { parseHex, type Rgb } from '../../webview/palette';
 import {
   classificationMessages,
+  classificationSummary,
   contributionsMessage,
   dependenceLevels,
   dependenceNumeric,
@@ -188,7 +189,8 @@ describe('panel explanations (headless Chromium)', function () {
   });
 
   it('clears every explanation when a new fit’s summary arrives', async () => {
-    await p.send(classificationMessages()[0]);
+    // A new fit names itself with a new id; the host stamps everything after it with that id.
+    await p.send({ type: 'summary', summary: { ...classificationSummary(), fit: 'flowers-fit-2' } });
     assert.match((await p.page.textContent('[data-testid=contributions]')) ?? '', /Put the cursor on a data row/);
     assert.match((await p.page.textContent('[data-testid=dependence]')) ?? '', /appear once the host has worked them out/);
     assert.equal(await p.page.isVisible('[data-testid=sweep-verdict] strong'), false);

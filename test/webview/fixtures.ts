@@ -4,6 +4,7 @@
 import {
   cellCentre,
   type FitSummary,
+  type HostMessage,
   type HostToPanel,
   type NumericAxis,
   type RegionMap,
@@ -17,6 +18,11 @@ export const HOSTILE_CLASS = '<b>virginica</b>';
 export const HOSTILE_LEVEL = '<i>green</i>';
 export const CLASSES = ['setosa', 'versicolor', HOSTILE_CLASS];
 export const TREES = 60;
+
+/** A host message as the host sends it: named with its fit (a summary's own, otherwise the flower fit's). */
+export function stamp(m: HostMessage, fit: string | null = 'flowers-fit-1'): HostToPanel {
+  return { ...m, fit: m.type === 'summary' ? m.summary.fit : fit };
+}
 
 /** The rule the invented map follows: class by region, strength falling near the boundaries. */
 export function regionTruth(x: number, y: number): { k: number; s: number } {
@@ -39,6 +45,7 @@ export function classificationSummary(): FitSummary {
   const curve: Array<number | null> = [null, null];
   for (let t = 3; t <= TREES; t++) curve.push(0.066 + 0.25 * Math.exp(-t / 6));
   return {
+    fit: 'flowers-fit-1',
     dataset: { label: 'flowers <u>2024</u>.csv', uri: 'file:///work/demo/flowers.csv' },
     target: 'species',
     task: 'classification',
@@ -99,6 +106,7 @@ export function classificationSummary(): FitSummary {
     ],
     warnings: ['2 rows had no species and were left out (first at line 40).', 'Column <iframe src="x"> had 3 non-numeric cells; read as missing.'],
     fitSeconds: 0.42,
+    suspectCount: 3,
   };
 }
 
@@ -179,6 +187,8 @@ export function rowVotes(row: number, label: number, spread: number): RowVotes {
   return {
     row,
     counts,
+    lead: 'out-of-bag',
+    allPredicted: top,
     agreement: counts[top] / TREES,
     entropy,
     oobVote: oobCounts.indexOf(Math.max(...oobCounts)),
@@ -189,12 +199,12 @@ export function rowVotes(row: number, label: number, spread: number): RowVotes {
 }
 
 export const SUSPECTS: SuspectRow[] = [
-  { row: 71, margin: -0.62, label: 1, oobPredicted: 2 },
-  { row: 84, margin: -0.41, label: 1, oobPredicted: 2 },
-  { row: 120, margin: -0.2, label: 2, oobPredicted: 1 },
+  { row: 71, score: -0.62, label: 1, oobPredicted: 2 },
+  { row: 84, score: -0.41, label: 1, oobPredicted: 2 },
+  { row: 120, score: -0.2, label: 2, oobPredicted: 1 },
 ];
 
-export function classificationMessages(): HostToPanel[] {
+export function classificationMessages(): HostMessage[] {
   return [
     { type: 'summary', summary: classificationSummary() },
     { type: 'regionMap', map: classificationMap() },
@@ -212,6 +222,7 @@ export function regressionSummary(): FitSummary {
   const curve: Array<number | null> = [null];
   for (let t = 2; t <= 40; t++) curve.push(180 + 900 / t);
   return {
+    fit: 'houses-fit-1',
     dataset: { label: 'houses.csv', uri: 'file:///work/demo/houses.csv' },
     target: 'price_k',
     task: 'regression',
@@ -236,6 +247,7 @@ export function regressionSummary(): FitSummary {
     ],
     warnings: [],
     fitSeconds: 2.1,
+    suspectCount: 0,
   };
 }
 
@@ -277,7 +289,7 @@ export function regressionMap(nx = 40, ny = 40): RegionMap {
 // Explanations for the invented flower scenario: numbers chosen by hand so base + contributions is the
 // prediction, with the hostile feature name among them.
 
-export function contributionsMessage(row = 71): Extract<HostToPanel, { type: 'contributions' }> {
+export function contributionsMessage(row = 71): Extract<HostMessage, { type: 'contributions' }> {
   const features = [
     { feature: 'petal_len', value: '4.7', contribution: 0.31 },
     { feature: 'petal_wid', value: '1.4', contribution: 0.22 },
@@ -289,13 +301,14 @@ export function contributionsMessage(row = 71): Extract<HostToPanel, { type: 'co
     type: 'contributions',
     row,
     state: 'ready',
-    contributions: { row, output: 1, base, prediction: base + features.reduce((a, f) => a + f.contribution, 0), features },
+    // Row 71 is a training row: the host explains it over the trees that never saw it.
+    contributions: { row, output: 1, base, prediction: base + features.reduce((a, f) => a + f.contribution, 0), trees: 20, outOfBag: true, features },
     text: '',
   };
 }
 
 /** A row of a wider table (14 features), so the panel folds all but the largest into one row. */
-export function contributionsWide(row = 33): Extract<HostToPanel, { type: 'contributions' }> {
+export function contributionsWide(row = 33): Extract<HostMessage, { type: 'contributions' }> {
   const sizes = [0.21, -0.15, 0.12, -0.1, 0.08, 0.07, -0.06, 0.05, 0.03, -0.02, 0.015, 0.01, -0.005, 0.002];
   // Listed out of order on purpose: the panel sorts by size.
   const order = [3, 0, 13, 7, 1, 10, 5, 12, 2, 9, 4, 11, 6, 8];
@@ -305,12 +318,12 @@ export function contributionsWide(row = 33): Extract<HostToPanel, { type: 'contr
     type: 'contributions',
     row,
     state: 'ready',
-    contributions: { row, output: 0, base, prediction: base + sizes.reduce((a, b) => a + b, 0), features },
+    contributions: { row, output: 0, base, prediction: base + sizes.reduce((a, b) => a + b, 0), trees: TREES, outOfBag: false, features },
     text: '',
   };
 }
 
-export function globalMessage(rows: number, done: boolean): Extract<HostToPanel, { type: 'globalContributions' }> {
+export function globalMessage(rows: number, done: boolean): Extract<HostMessage, { type: 'globalContributions' }> {
   return {
     type: 'globalContributions',
     global: {
@@ -329,7 +342,7 @@ export function globalMessage(rows: number, done: boolean): Extract<HostToPanel,
 }
 
 /** Petal length from 1 to 7 on 13 points; no training row between 2.25 and 2.75 (Fisher's gap, invented here). */
-export function dependenceNumeric(output = 1): Extract<HostToPanel, { type: 'dependence' }> {
+export function dependenceNumeric(output = 1): Extract<HostMessage, { type: 'dependence' }> {
   const grid = Array.from({ length: 13 }, (_, g) => 1 + g * 0.5);
   const boundaries = grid.slice(1).map((v) => v - 0.25);
   const counts = grid.map((v) => (v === 2.5 ? 0 : v < 2.5 ? 16 : 9));
@@ -342,7 +355,7 @@ export function dependenceNumeric(output = 1): Extract<HostToPanel, { type: 'dep
   };
 }
 
-export function dependenceLevels(): Extract<HostToPanel, { type: 'dependence' }> {
+export function dependenceLevels(): Extract<HostMessage, { type: 'dependence' }> {
   return {
     type: 'dependence',
     dependence: {
@@ -364,7 +377,7 @@ export function dependenceLevels(): Extract<HostToPanel, { type: 'dependence' }>
   };
 }
 
-export function sweepDone(current: number | null): Extract<HostToPanel, { type: 'sweep' }> {
+export function sweepDone(current: number | null): Extract<HostMessage, { type: 'sweep' }> {
   return {
     type: 'sweep',
     state: 'done',

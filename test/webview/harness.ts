@@ -5,7 +5,7 @@ import * as fs from 'node:fs';
 import * as os from 'node:os';
 import * as path from 'node:path';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import type { HostToPanel, PanelToHost } from '../../src/protocol/messages';
+import type { HostMessage, HostToPanel, PanelToHost } from '../../src/protocol/messages';
 
 export const ROOT = path.resolve(__dirname, '..', '..', '..');
 export const ARTIFACTS = path.join(ROOT, '.artifacts', 'webview');
@@ -169,6 +169,8 @@ export async function buildBundle(): Promise<void> {
 
 export class PanelPage {
   readonly errors: string[] = [];
+  /** The fit the last summary sent belongs to; `send` stamps other messages with it. */
+  private fit: string | null = null;
 
   private constructor(
     readonly context: BrowserContext,
@@ -217,7 +219,15 @@ export class PanelPage {
     return p;
   }
 
-  async send(...messages: HostToPanel[]): Promise<void> {
+  /**
+   * Posts host messages into the page. A message without a `fit` is stamped with the fit of the last
+   * summary sent (a summary with its own), as the host stamps every message; give `fit` to send a stray one.
+   */
+  async send(...unstamped: Array<HostMessage & { fit?: string | null }>): Promise<void> {
+    const messages: HostToPanel[] = unstamped.map((m) => {
+      if (m.type === 'summary' && m.fit === undefined) this.fit = (m.summary as { fit?: string }).fit ?? null;
+      return m.fit === undefined ? { ...m, fit: this.fit } : (m as HostToPanel);
+    });
     // postMessage from the page itself, as the host's messages arrive in a real webview.
     await this.page.evaluate((ms) => {
       const w = globalThis as unknown as { postMessage(m: unknown, target: string): void };

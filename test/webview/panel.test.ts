@@ -3,7 +3,7 @@
 // file is compiled without the DOM library.
 import * as assert from 'node:assert/strict';
 import * as fs from 'node:fs';
-import type { PanelToHost, RegionMap } from '../../src/protocol/messages';
+import { PROTOCOL_VERSION, type PanelToHost, type RegionMap } from '../../src/protocol/messages';
 import { classColour, mix, parseHex, rampColour, regionColour, type Rgb } from '../../webview/palette';
 import {
   CLASSES,
@@ -99,7 +99,7 @@ describe('panel webview (headless Chromium)', function () {
 
   it('announces itself with a ready message carrying the protocol version', async () => {
     const ready = (await p.posted()).find((m) => m.type === 'ready');
-    assert.deepEqual(ready, { type: 'ready', version: 1, choice: null }, 'a fresh page has no map of its own to ask for');
+    assert.deepEqual(ready, { type: 'ready', version: PROTOCOL_VERSION, choice: null }, 'a fresh page has no map of its own to ask for');
   });
 
   it('draws the region map so each grid point carries its class colour', async () => {
@@ -296,6 +296,9 @@ describe('panel webview (headless Chromium)', function () {
     const before = await p.page.textContent('[data-testid=oob-score]');
     await p.send({ type: 'summary', summary: { nope: true } } as never, { type: 'regionMap', map: { ...classificationMap(), nx: 3 } } as never);
     assert.equal(await p.page.textContent('[data-testid=oob-score]'), before);
+    assert.equal(JSON.parse((await p.page.getAttribute('[data-testid=region-map]', 'data-grid')) ?? '{}').nx, 48);
+    // A well-formed answer about another fit (a slow one from an earlier forest) is not drawn either.
+    await p.send({ type: 'regionMap', map: classificationMap(12, 10), fit: 'an-earlier-fit' });
     assert.equal(JSON.parse((await p.page.getAttribute('[data-testid=region-map]', 'data-grid')) ?? '{}').nx, 48);
   });
 

@@ -6,6 +6,8 @@ import {
   isHostToPanel,
   isPanelState,
   isPanelToHost,
+  PROTOCOL_VERSION,
+  type HostMessage,
   type HostToPanel,
   type PanelState,
   type PanelToHost,
@@ -21,6 +23,7 @@ import {
   regressionMap,
   regressionSummary,
   rowVotes,
+  stamp,
   sweepDone,
   SUSPECTS,
 } from './fixtures';
@@ -35,7 +38,9 @@ describe('protocol guards', () => {
       { type: 'regionMap', map: regressionMap() },
       { type: 'highlight', rows: [3, 9] },
       { type: 'status', state: 'working', text: 'fitting', progress: 0.4 },
-    ];
+    ].map((m) => stamp(m as HostMessage));
+    // A status line may belong to no fit (say, before the first one).
+    all.push({ type: 'status', state: 'error', text: 'no CSV', progress: null, fit: null });
     for (const m of all) {
       assert.ok(isHostToPanel(m), m.type);
       assert.deepEqual(clone(m), m, `${m.type} is not plain JSON data`);
@@ -56,12 +61,17 @@ describe('protocol guards', () => {
       { type: 'regionMap', map: { ...map, x: { feature: 'a', kind: 'numeric', min: 2, max: 2 } } },
       { type: 'regionMap', map: { ...map, points: { x: [1], y: [], target: [0], row: [1], total: 1 } } },
       // A typed array is not plain data: postMessage to a webview would not keep it.
-      { type: 'disagreement', rows: [{ row: 1, counts: [1], agreement: 1, entropy: 0, oobVote: 0, label: 0, votes: new Float64Array([0]), outOfBag: [] }] },
+      { type: 'disagreement', rows: [{ row: 1, counts: [1], lead: 'all-trees', allPredicted: 0, agreement: 1, entropy: 0, oobVote: 0, label: 0, votes: new Float64Array([0]), outOfBag: [] }] },
       { type: 'suspects', rows: [{ ...SUSPECTS[0], row: 0 }] },
       { type: 'highlight', rows: [1.5] },
       { type: 'status', state: 'busy', text: '', progress: null },
     ];
-    for (const m of bad) assert.equal(isHostToPanel(m), false, JSON.stringify(m)?.slice(0, 120));
+    for (const m of bad) assert.equal(isHostToPanel(m === null ? m : { ...(m as object), fit: 'flowers-fit-1' }), false, JSON.stringify(m)?.slice(0, 120));
+    // Every message names its fit, and a summary names the same fit it carries.
+    assert.equal(isHostToPanel({ type: 'regionMap', map }), false);
+    assert.equal(isHostToPanel({ type: 'regionMap', map, fit: null }), false);
+    assert.equal(isHostToPanel(stamp({ type: 'regionMap', map })), true);
+    assert.equal(isHostToPanel({ type: 'summary', summary: classificationSummary(), fit: 'another' }), false);
   });
 
   it('accepts the panel messages and rejects malformed ones', () => {
@@ -92,7 +102,8 @@ describe('protocol guards', () => {
   });
 
   it('accepts the explanation messages the fixtures build, as plain data', () => {
-    const all: HostToPanel[] = [
+    const all: HostToPanel[] = (
+      [
       contributionsMessage(),
       { type: 'contributions', row: 3, state: 'working', contributions: null, text: 'Working…' },
       { type: 'contributions', row: null, state: 'unavailable', contributions: null, text: 'Not here.' },
@@ -104,7 +115,8 @@ describe('protocol guards', () => {
       { type: 'sweep', state: 'running', progress: 0.5, text: '', result: null },
       { type: 'sweep', state: 'cancelled', progress: null, text: 'Sweep cancelled.', result: null },
       { type: 'disagreement', rows: [{ ...rowVotes(4, 0, 0.1), interval: { level: 0.9, lower: 1, upper: 2 } }] },
-    ];
+      ] as HostMessage[]
+    ).map((m) => stamp(m));
     for (const m of all) {
       assert.ok(isHostToPanel(m), `${m.type} ${JSON.stringify(m).slice(0, 80)}`);
       assert.deepEqual(clone(m), m, `${m.type} is not plain JSON data`);
@@ -136,7 +148,7 @@ describe('protocol guards', () => {
       { type: 'disagreement', rows: [{ ...rowVotes(4, 0, 0.1), interval: { level: 0.9, lower: 3, upper: 2 } }] },
       { type: 'disagreement', rows: [{ ...rowVotes(4, 0, 0.1), interval: { level: 90, lower: 1, upper: 2 } }] },
     ];
-    for (const m of bad) assert.equal(isHostToPanel(m), false, JSON.stringify(m)?.slice(0, 160));
+    for (const m of bad) assert.equal(isHostToPanel({ ...(m as object), fit: 'flowers-fit-1' }), false, JSON.stringify(m)?.slice(0, 160));
   });
 
   it('accepts the panel’s explanation requests and rejects malformed ones', () => {
@@ -163,7 +175,8 @@ describe('protocol guards', () => {
 
   it('checks the saved panel state before the panel trusts it', () => {
     const state: PanelState = {
-      version: 1,
+      version: PROTOCOL_VERSION,
+      fit: 'flowers-fit-1',
       summary: classificationSummary(),
       map: classificationMap(6, 5),
       matrix: [],

@@ -91,10 +91,13 @@ describe('scores at a glance (headless Chromium)', function () {
 
   it('says how many doubtful rows the list holds', async () => {
     assert.equal((await p.page.textContent('[data-testid=suspects-count]'))?.trim(), 'All 3 rows whose out-of-bag vote went against their own label. Lowest out-of-bag margin first; click a row to go to it.');
-    // A full list, as the host sends it when there are at least as many as the cap: more may exist.
-    const full: SuspectRow[] = Array.from({ length: LIMITS.suspects }, (_, i) => ({ row: 200 + i, margin: -0.9 + i * 0.01, label: 1, oobPredicted: 2 }));
-    await p.send({ type: 'suspects', rows: full });
+    // A capped list, with the total the summary carries.
+    const full: SuspectRow[] = Array.from({ length: LIMITS.suspects }, (_, i) => ({ row: 200 + i, score: -0.9 + i * 0.01, label: 1, oobPredicted: 2 }));
+    await p.send({ type: 'summary', summary: { ...classificationSummary(), suspectCount: 261 } }, { type: 'suspects', rows: full });
     assert.equal(await p.page.locator('[data-testid=suspects] tr[data-row]').count(), 50);
+    assert.match((await p.page.textContent('[data-testid=suspects-count]')) ?? '', /^50 of 261 rows whose out-of-bag vote went against their own label\./);
+    // Without a total, a full list says only what is known: there may be more.
+    await p.send({ type: 'summary', summary: { ...classificationSummary(), suspectCount: null } }, { type: 'suspects', rows: full });
     assert.match((await p.page.textContent('[data-testid=suspects-count]')) ?? '', /^The first 50 rows whose out-of-bag vote went against their own label; the list stops at 50, so there may be more\./);
   });
 

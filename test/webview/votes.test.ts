@@ -9,7 +9,7 @@ import { PanelPage, type ThemeName } from './harness';
 const VOTES = Array.from({ length: 40 }, (_, t) => 150 + ((t * 37) % 40) * 2.5);
 
 function regressionRow(row: number, votes: number[], label: number | null, oobVote: number | null, outOfBag: number[]): RowVotes {
-  return { row, counts: [], agreement: 0.7, entropy: null, oobVote, label, votes, outOfBag, interval: { level: 0.9, lower: 160, upper: 240 } };
+  return { row, counts: [], lead: outOfBag.length > 0 ? 'out-of-bag' : 'all-trees', allPredicted: 199, agreement: 0.7, entropy: null, oobVote, label, votes, outOfBag, interval: { level: 0.9, lower: 160, upper: 240 } };
 }
 
 interface Strip {
@@ -131,7 +131,13 @@ describe('per-tree values without out-of-bag trees, and a full selection', funct
     await p.send({ type: 'disagreement', rows: [regressionRow(7, VOTES, 200, null, [])] });
     const s = await readStrip(p, 7);
     assert.deepEqual(s.lanes.map((l) => [l.lane, l.name, l.trees.length]), [['all', 'trees', 40]]);
-    assert.deepEqual(s.texts, [{ kind: 'label', text: 'label 200' }]);
+    // No tree was kept from this row, so the forest's answer is the mean of all trees: marked with its value.
+    assert.deepEqual(s.texts, [
+      { kind: 'label', text: 'label 200' },
+      { kind: 'all-trees', text: 'mean of all trees 199' },
+    ]);
+    const mean = s.marks.find((m) => m.kind === 'all-trees');
+    assert.ok(mean && Math.abs(mean.centre - xOf(s, 199)) <= 1.5);
     assert.match((await p.page.textContent('[data-testid=disagreement] [data-row="7"] .vote-head')) ?? '', /out-of-bag mean\s*unavailable/);
   });
 

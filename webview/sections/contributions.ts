@@ -77,10 +77,12 @@ export class ContributionsView {
       c.output === null
         ? h('span', {}, 'predicted ', h('strong', {}, s?.target ?? 'value'))
         : h('span', {}, 'probability of ', h('strong', {}, s?.classes[c.output] ?? `class ${c.output}`));
+    // A training row is explained by the trees that never saw it, as its out-of-bag answer is.
+    const whose = c.outOfBag ? [` (explained by the ${count(c.trees)} trees that never saw it): their average `] : [': the forest’s average '];
     append(
       this.head,
       h('strong', {}, `Row ${c.row}`),
-      ': the forest’s average ',
+      ...whose,
       what,
       ' is ',
       h('strong', { testid: 'contributions-base' }, num(c.base)),

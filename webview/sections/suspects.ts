@@ -1,5 +1,6 @@
-// Training rows whose out-of-bag vote went most against their own label: often mislabelled rows,
-// data-entry slips, or genuinely ambiguous cases worth a look before trusting the fit.
+// Training rows the trees that never saw them disagree with most: often mislabelled rows, data-entry
+// slips, or genuinely ambiguous cases worth a look before trusting the fit. The host picks and orders
+// them and says how many there are in all (FitSummary.suspectCount); the list it sends is capped.
 import { LIMITS, type FitSummary, type SuspectRow } from '../../src/protocol/messages';
 import { append, clear, h } from '../dom';
 import { fixed, listed, num } from '../format';
@@ -9,8 +10,6 @@ import type { Theme } from '../theme';
 export class SuspectsView {
   readonly root: HTMLElement;
   private rows: SuspectRow[] = [];
-  /** How many rows the host found in all, when it says; the list itself stops at LIMITS.suspects. */
-  private total: number | null = null;
   private summary: FitSummary | null = null;
   private theme: Theme | null = null;
   private highlighted = new Set<number>();
@@ -24,9 +23,8 @@ export class SuspectsView {
     this.draw();
   }
 
-  setRows(rows: SuspectRow[], total: number | null = null): void {
+  setRows(rows: SuspectRow[]): void {
     this.rows = rows;
-    this.total = total;
     this.draw();
   }
 
@@ -70,7 +68,18 @@ export class SuspectsView {
     });
     append(
       this.root,
-      h('p', { class: 'muted', testid: 'suspects-count' }, listed(this.rows.length, this.total, LIMITS.suspects, 'rows whose out-of-bag vote went against their own label'), ' Lowest out-of-bag margin first; click a row to go to it.'),
+      h(
+        'p',
+        { class: 'muted', testid: 'suspects-count' },
+        listed(
+          this.rows.length,
+          summary.suspectCount,
+          LIMITS.suspects,
+          classification ? 'rows whose out-of-bag vote went against their own label' : 'rows whose label lies far from what the trees that never saw them predict',
+        ),
+        classification ? ' Lowest out-of-bag margin first' : ' Farthest first',
+        '; click a row to go to it.',
+      ),
       h(
         'table',
         { class: 'suspect-table' },

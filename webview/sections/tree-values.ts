@@ -1,7 +1,8 @@
 // A regression row's per-tree predictions on a numeric axis: one dot per tree, stacked where trees agree,
 // the trees that did not see the row in a lane of their own, and the row's label and the out-of-bag
-// mean marked as lines with their values written out. Position carries the value, so nothing here
-// relies on colour. Every row shares one scale so rows can be compared by eye.
+// mean (or, for a row the forest did not train on, the mean of all trees) marked as lines with their
+// values written out. Position carries the value, so nothing here relies on colour. Every row shares
+// one scale so rows can be compared by eye.
 import type { RowVotes } from '../../src/protocol/messages';
 import { niceTicks, tickDigits } from '../map/ticks';
 import { h } from '../dom';
@@ -34,6 +35,7 @@ export function valueScale(rows: readonly RowVotes[]): ValueScale {
     r.votes.forEach(take);
     take(r.label);
     take(r.oobVote);
+    if (r.lead === 'all-trees') take(r.allPredicted);
     take(r.interval?.lower);
     take(r.interval?.upper);
   }
@@ -56,9 +58,11 @@ export function treeValues(r: RowVotes, scale: ValueScale, theme: Theme, target:
           { name: 'trees that saw it', key: 'in-bag', trees: r.votes.map((_, t) => t).filter((t) => !oob.has(t)) },
         ]
       : [{ name: 'trees', key: 'all', trees: r.votes.map((_, t) => t) }];
-  const marks: Array<{ kind: 'label' | 'oob-mean'; text: string; v: number }> = [];
+  const marks: Array<{ kind: 'label' | 'oob-mean' | 'all-trees'; text: string; v: number }> = [];
   if (r.label !== null) marks.push({ kind: 'label', text: `label ${num(r.label)}`, v: r.label });
   if (oobKnown && r.oobVote !== null && oob.size > 0) marks.push({ kind: 'oob-mean', text: `out-of-bag mean ${num(r.oobVote)}`, v: r.oobVote });
+  // A row no tree was kept from has no out-of-bag answer; the forest's answer is then the mean of all trees.
+  if (r.lead === 'all-trees') marks.push({ kind: 'all-trees', text: `mean of all trees ${num(r.allPredicted)}`, v: r.allPredicted });
 
   const strip = h('div', { class: 'tree-values', testid: 'vote-strip', attrs: { 'data-trees': String(r.votes.length), role: 'img' } });
   const said = marks.map((m) => m.text).join(', ');

@@ -66,7 +66,7 @@ export class VotesView {
       this.rows.length >= LIMITS.selectedRows ? `${listed(this.rows.length, null, LIMITS.selectedRows, 'selected rows')} ` : '',
       classification
         ? 'One cell per tree. A notch under a cell marks a tree that did not see this row while training: those votes make the out-of-bag answer.'
-        : 'One dot per tree, at the value it predicts; dots stack where trees agree. Filled dots are trees that did not see the row while training; the dashed line is their mean, the out-of-bag answer, and the solid line is the row’s own label.',
+        : 'One dot per tree, at the value it predicts; dots stack where trees agree. Filled dots are trees that did not see the row while training; the dashed line is their mean, the out-of-bag answer, and the solid line is the row’s own label. For a row the forest did not train on, a dotted line marks the mean of all trees.',
     );
   }
 
