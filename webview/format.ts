@@ -30,6 +30,13 @@ export function truncate(text: string, max: number): string {
   return text.length <= max ? text : `${text.slice(0, Math.max(1, max - 1))}…`;
 }
 
+/** A permutation drop in the units its caption states: percentage points of accuracy for a classifier (the
+ * host sends a share of rows), the error's own units for a regression. */
+export function permutationDrop(task: 'classification' | 'regression', v: number | null): string {
+  if (v === null || !Number.isFinite(v)) return '–';
+  return task === 'classification' ? num(v * 100) : num(v);
+}
+
 /**
  * What a capped list holds: "50 of 261 rows …" when the sender says how many there are, otherwise only
  * what is known. The host sends every item up to the cap, so a shorter list is complete; a full one may not be.

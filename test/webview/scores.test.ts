@@ -2,7 +2,7 @@
 // with the count and its numbers stay readable in both themes, and capped lists say how much they hold.
 import * as assert from 'node:assert/strict';
 import { LIMITS, type SuspectRow } from '../../src/protocol/messages';
-import { listed } from '../../webview/format';
+import { listed, permutationDrop } from '../../webview/format';
 import { contrastRatio, parseColour, parseHex, type Rgb } from '../../webview/palette';
 import { classificationMessages, classificationSummary } from './fixtures';
 import { PanelPage, THEMES, type ThemeName } from './harness';
@@ -30,6 +30,16 @@ function rgb(text: string): Rgb {
 }
 
 const distance = (a: Rgb, b: Rgb) => Math.hypot(a[0] - b[0], a[1] - b[1], a[2] - b[2]);
+
+describe('numbers in the units their captions state', () => {
+  it('shows a classifier’s permutation drop in percentage points, a regression’s in its own units', () => {
+    // The host sends a classifier's drop in accuracy as a share of rows: 0.27 is 27 points.
+    assert.equal(permutationDrop('classification', 0.27), '27');
+    assert.equal(permutationDrop('classification', -0.004), '-0.4');
+    assert.equal(permutationDrop('regression', 410), '410');
+    assert.equal(permutationDrop('regression', null), '–');
+  });
+});
 
 describe('capped lists say what they hold', () => {
   it('gives “50 of 261” when the total is known, and only what is known otherwise', () => {

@@ -6,7 +6,7 @@
 import type { FeatureImportance, FitSummary, GlobalContributions } from '../../src/protocol/messages';
 import { applyTheme, replaceChart } from '../charts';
 import { append, clear, h } from '../dom';
-import { num, percent, truncate } from '../format';
+import { num, percent, permutationDrop, truncate } from '../format';
 import { css } from '../palette';
 import type { Theme } from '../theme';
 import type { Plugin } from 'chart.js';
@@ -107,6 +107,8 @@ export class ImportanceView {
 
     const perm = shown.map((m) => m.permutation);
     const spread = shown.map((m) => m.permutationSpread);
+    // A classifier's drop is a share of rows; the caption promises percentage points, so the axis shows them.
+    const points = (v: number | null) => permutationDrop(s.task, v);
     replaceChart(this.permutation, {
       type: 'bar',
       data: { labels, datasets: [{ data: perm, backgroundColor: css(theme.focus, 0.85), barPercentage: 0.8 }] },
@@ -119,11 +121,11 @@ export class ImportanceView {
           tooltip: {
             callbacks: {
               title: tooltipTitle,
-              label: (c) => `${num(c.parsed.x)} ± ${num(spread[c.dataIndex])}`,
+              label: (c) => `${points(c.parsed.x)} ± ${points(spread[c.dataIndex])}`,
             },
           },
         },
-        scales: { x: { ticks: { callback: (v) => num(Number(v)) } }, y: { ticks: { autoSkip: false } } },
+        scales: { x: { ticks: { callback: (v) => points(Number(v)) } }, y: { ticks: { autoSkip: false } } },
       },
       plugins: [whiskers(spread, css(theme.foreground))],
     });
