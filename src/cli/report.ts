@@ -1,6 +1,6 @@
 // The readable report of `copse fit`: what a practitioner checks first, in that order. Regression values are
 // rounded for reading here; the JSON keeps every digit.
-import { formatNumber } from '../core/format';
+import { formatFixed, formatNumber, formatShare } from '../core/format';
 import type { FitSummary, ScoresSummary } from '../core/summary/types';
 
 export const CAUTION =
@@ -11,8 +11,9 @@ export const CONFUSION_CLASSES = 12;
 /** Doubtful rows listed unless the user asks for more. */
 export const LISTED_ROWS = 10;
 
-const pct = (v: number | undefined) => (v === undefined || Number.isNaN(v) ? 'n/a' : `${(v * 100).toFixed(1)}%`);
-const num = (v: number | undefined, d = 3) => (v === undefined || Number.isNaN(v) ? 'n/a' : v.toFixed(d));
+// Numbers are written by core's one formatter, as the editor writes them.
+const pct = (v: number | undefined) => formatShare(v);
+const num = (v: number | undefined, d = 3) => formatFixed(v, d);
 /** A regression value (a target, a prediction, an error in the target's units) as people read it. */
 export const value = (v: number | undefined): string => (v === undefined ? 'n/a' : formatNumber(v));
 

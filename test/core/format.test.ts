@@ -10,9 +10,11 @@ describe('extension number formatting', () => {
   it('keeps four significant digits and plain notation for everyday values', () => {
     assert.equal(formatNumber(3.14159), '3.142');
     assert.equal(formatNumber(1234.5678), '1235');
-    assert.equal(formatNumber(-0.5), '-0.5');
+    assert.equal(formatNumber(-0.5), '\u22120.5', 'one minus sign everywhere');
+    assert.equal(formatNumber(-2.5e-7), '\u22122.5e\u22127');
+    assert.equal(formatNumber(undefined), 'n/a');
     assert.equal(formatNumber(42), '42');
-    assert.equal(formatNumber(2.5e-7), '2.5e-7');
+    assert.equal(formatNumber(2.5e-7), '2.5e\u22127');
     assert.equal(formatNumber(NaN), 'n/a');
   });
   it('formats sizes and durations', () => {

@@ -42,7 +42,7 @@ describe('panel contributions (headless Chromium)', function () {
     await p.send(contributionsMessage());
     const head = (await p.page.textContent('[data-testid=contributions-head]')) ?? '';
     // Row 71 is a training row, so the host explains it over the trees that never saw it, and says so.
-    assert.equal(head.replace(/\s+/g, ' ').trim(), 'Row 71 (explained by the 20 trees that never saw it): their average probability of versicolor is 0.333; this row’s values take it to 0.803.');
+    assert.equal(head.replace(/\s+/g, ' ').trim(), 'Row 71 (explained by the 20 trees that never saw it): their average probability of versicolor is 0.3333; this row’s values take it to 0.8033.');
     // A real table: column headers, and each feature's name as its row's header.
     const heads = await p.page.locator('[data-testid=contributions-table] thead th').evaluateAll((ths) => ths.map((th) => [th.getAttribute('scope'), (th.textContent ?? '').trim()]));
     assert.deepEqual(heads.slice(0, 3), [

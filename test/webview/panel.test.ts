@@ -378,7 +378,7 @@ describe('panel webview, regression', function () {
   it('shows R² with three decimals and the residual summary', async () => {
     assert.equal((await p.page.textContent('[data-testid=oob-score]'))?.trim(), '0.812');
     const residuals = (await p.page.textContent('[data-testid=residuals]')) ?? '';
-    assert.match(residuals, /-61\.2/);
+    assert.match(residuals, /\u221261\.2/);
     assert.match((await p.page.textContent('[data-testid=summary]')) ?? '', /sampled/);
   });
 

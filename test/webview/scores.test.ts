@@ -35,9 +35,9 @@ describe('numbers in the units their captions state', () => {
   it('shows a classifier’s permutation drop in percentage points, a regression’s in its own units', () => {
     // The host sends a classifier's drop in accuracy as a share of rows: 0.27 is 27 points.
     assert.equal(permutationDrop('classification', 0.27), '27');
-    assert.equal(permutationDrop('classification', -0.004), '-0.4');
+    assert.equal(permutationDrop('classification', -0.004), '\u22120.4');
     assert.equal(permutationDrop('regression', 410), '410');
-    assert.equal(permutationDrop('regression', null), '–');
+    assert.equal(permutationDrop('regression', null), 'n/a');
   });
 });
 

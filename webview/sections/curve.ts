@@ -43,7 +43,7 @@ export class CurveView {
         interaction: { mode: 'index', intersect: false },
         plugins: {
           legend: { display: false },
-          tooltip: { callbacks: { label: (c) => `${c.parsed.y === null ? '–' : fmt(c.parsed.y)} with ${c.label} trees` } },
+          tooltip: { callbacks: { label: (c) => `${c.parsed.y === null ? 'n/a' : fmt(c.parsed.y)} with ${c.label} trees` } },
         },
         scales: {
           x: { title: { display: true, text: 'trees' }, ticks: { maxTicksLimit: 8, maxRotation: 0 } },

@@ -92,7 +92,7 @@ function fact(term: string, ...value: Array<Node | string | null>): HTMLElement 
 
 function scoreRows(kind: ScoreSummary['kind']): Array<[string, (s: ScoreSummary) => string]> {
   if (kind === 'classification') {
-    const c = (f: (s: ClassificationScoreSummary) => string) => (s: ScoreSummary) => (s.kind === 'classification' ? f(s) : '–');
+    const c = (f: (s: ClassificationScoreSummary) => string) => (s: ScoreSummary) => (s.kind === 'classification' ? f(s) : 'n/a');
     return [
       ['Accuracy', c((s) => percent(s.accuracy))],
       ['Balanced accuracy', c((s) => percent(s.balancedAccuracy))],
@@ -100,7 +100,7 @@ function scoreRows(kind: ScoreSummary['kind']): Array<[string, (s: ScoreSummary)
       ['Rows scored', (s) => count(s.rows)],
     ];
   }
-  const r = (f: (s: RegressionScoreSummary) => string) => (s: ScoreSummary) => (s.kind === 'regression' ? f(s) : '–');
+  const r = (f: (s: RegressionScoreSummary) => string) => (s: ScoreSummary) => (s.kind === 'regression' ? f(s) : 'n/a');
   return [
     ['R²', r((s) => fixed(s.r2, 3))],
     ['Mean absolute error', r((s) => num(s.mae))],
@@ -119,7 +119,7 @@ function scoreTable(s: FitSummary): HTMLElement {
       {},
       h('th', { attrs: { scope: 'row' } }, name),
       ...cols.map((c, i) => {
-        const text = c.scores ? get(c.scores) : '–';
+        const text = c.scores ? get(c.scores) : 'n/a';
         // The headline figure carries the contract's test hook and exact format.
         if (r === 0 && i === 0 && c.scores) {
           const value = c.scores.kind === 'classification' ? c.scores.accuracy : c.scores.r2;

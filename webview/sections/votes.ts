@@ -58,7 +58,7 @@ export class VotesView {
       return;
     }
     const scale = classification ? null : valueScale(this.rows);
-    const say = (v: number | null) => (v === null ? '–' : classification ? (summary.classes[v] ?? `class ${v}`) : num(v));
+    const say = (v: number | null) => (v === null ? 'n/a' : classification ? (summary.classes[v] ?? `class ${v}`) : num(v));
     for (const r of this.rows) append(this.list, this.rowBlock(r, scale, say));
     // Only a full list can be cut short; the host does not say how many rows were selected.
     append(
