@@ -3,21 +3,13 @@
 
 import * as vscode from 'vscode';
 import type { ForestSession } from './session/session';
-import type { LoadResult } from './engine';
+import type { LoadedCsv } from './session/csvSource';
 import type { FitChoices } from './fit/choices';
 import { readSettings, type CopseSettings } from './settings';
 
-/** What the last fit started from, so a refit from the panel needs no dialog and no re-read. */
-export interface FitOrigin {
-  readonly path: string;
-  readonly load: LoadResult;
-  readonly sampled: boolean;
-  readonly sampleRows?: number;
-  readonly sampleSeed?: number;
-  readonly loadTarget?: string;
+/** The CSV a fit was made from and what the user chose, so a refit or a sweep from the panel needs no dialog and no re-read. */
+export interface FitOrigin extends LoadedCsv {
   readonly choices: FitChoices;
-  readonly loadSeconds: number;
-  readonly bytes: number;
 }
 
 export class CopseContext implements vscode.Disposable {

@@ -17,7 +17,7 @@ import type { ExplainerLike } from '../../src/extension/workers/explainClient';
 import { ExplainClient } from '../../src/extension/workers/explainClient';
 import { intervalsReady } from '../../src/extension/session/rowText';
 import { membershipOf } from '../../src/core/forest/row-votes';
-import { fitFixture, FIXTURES, summaryFor, type Fitted } from './helpers';
+import { csvOf, fitFixture, FIXTURES, summaryFor, type Fitted } from './helpers';
 import { inBagCounts } from '../../src/core/forest/bootstrap';
 
 const close = (a: number, b: number, tol = 1e-9) => Math.abs(a - b) <= tol * Math.max(1, Math.abs(a), Math.abs(b));
@@ -223,8 +223,7 @@ describe('extension explanations without the fit in memory', function () {
     const make = async (t: typeof load) =>
       ForestSession.create({
         forest: report.forest,
-        source: { path: file, label: 'friedman1.csv', delimiter: ',', fingerprint: t.fingerprint, rowsRead: t.rowsRead, header: t.header },
-        table: t.table,
+        csv: csvOf(file, t),
         text: () => text,
         summary: summaryFor(report, { table: t.table, rowsRead: t.rowsRead }, 'f'),
         scorer: new Scorer(report.forest),
@@ -346,8 +345,7 @@ describe('extension explanation shaping', () => {
     const report = await fitForest(load.table, { target: 'y', params: { trees: 10, seed: 4 }, workers: 1 });
     const session = await ForestSession.create({
       forest: report.forest,
-      source: { path: '/x.csv', label: 'x.csv', delimiter: ',', fingerprint: load.fingerprint, rowsRead: 60, header: load.header },
-      table: load.table,
+      csv: csvOf('/x.csv', load),
       text: () => text,
       oob: { trainRows: report.trainRows, inBag: inBagCounts(report.forest.params, report.forest.trees.length, report.trainRows.length) },
       summary: summaryFor(report, { table: load.table, rowsRead: 60 }, 'x'),

@@ -9,6 +9,7 @@ import { ForestSession } from '../../src/extension/session/session';
 import { ExplainClient } from '../../src/extension/workers/explainClient';
 import { summarizeFit } from '../../src/core/summary/fit';
 import { panelSummary } from '../../src/extension/summary/panel';
+import type { LoadedCsv } from '../../src/extension/session/csvSource';
 import type { FitSummary } from '../../src/protocol/messages';
 import { readFileSync } from 'node:fs';
 
@@ -32,8 +33,7 @@ export async function fitFixture(
   const summary = summaryFor(report, load, file, extra.sampleRows !== undefined);
   const session = await ForestSession.create({
     forest: report.forest,
-    source: { path: file, label: path.basename(file), delimiter: load.delimiter, fingerprint: load.fingerprint, rowsRead: load.rowsRead, header: load.header },
-    table: load.table,
+    csv: csvOf(file, load, extra.sampleRows !== undefined),
     text: () => readFileSync(file, 'utf8'),
     oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag: report.rows.inBag! },
     summary,
@@ -49,6 +49,11 @@ export async function fitFixture(
 export function summaryFor(report: FitReport, load: Pick<LoadResult, 'table' | 'rowsRead'>, file: string, sampled = false): (fit: string) => FitSummary {
   const core = summarizeFit(report, load.table, { file: path.basename(file), rowsRead: load.rowsRead, sampled });
   return (fit) => panelSummary(core, { fit, uri: `file://${file}` });
+}
+
+/** A CSV as the editor would have read it, for building sessions in tests. */
+export function csvOf(file: string, load: LoadResult, sampled = false): LoadedCsv {
+  return { path: file, load, sampled, seconds: 0, bytes: 0 };
 }
 
 /** A 1-based line reader over a file's text (what the editor seam supplies). */

@@ -24,7 +24,7 @@ describe('extension last fit', () => {
     await saveLastFit(
       path.join(dir, 'store'),
       { forest: f.report.forest, trainRows: f.report.trainRows },
-      { csvPath: csv, fingerprint: f.load.fingerprint, delimiter: f.load.delimiter, summary: f.session.summary, choices },
+      { csv: { path: csv, sampled: false, bytes: 0 }, fingerprint: f.load.fingerprint, summary: f.session.summary, choices },
     );
   });
   after(async () => {
@@ -67,7 +67,7 @@ describe('extension last fit', () => {
     const changed = path.join(dir, 'wine-changed.csv');
     const text = await fs.readFile(csv, 'utf8');
     await fs.writeFile(changed, text.replace(/\n([^\n]+)\n$/, '\n$1\n$1\n'));
-    meta.csvPath = changed;
+    meta.csv.path = changed;
     await fs.writeFile(path.join(store2, 'meta.json'), JSON.stringify(meta));
     const restored = (await restoreLastFit(store2, (forest) => new Scorer(forest)))!;
     try {
@@ -96,7 +96,7 @@ describe('extension last fit', () => {
     const store = path.join(dir, 'store3');
     const g = await fitFixture(csv, 'cultivar', { trees: 7, seed: 5 });
     try {
-      const meta = { csvPath: csv, fingerprint: f.load.fingerprint, delimiter: f.load.delimiter, summary: f.session.summary };
+      const meta = { csv: { path: csv, sampled: false, bytes: 0 }, fingerprint: f.load.fingerprint, summary: f.session.summary };
       await Promise.all([
         saveLastFit(store, { forest: f.report.forest, trainRows: f.report.trainRows }, meta),
         saveLastFit(store, { forest: g.report.forest, trainRows: g.report.trainRows }, meta),

@@ -20,7 +20,7 @@ import { ExplainClient } from '../../src/extension/workers/explainClient';
 import { sweepOptions } from '../../src/extension/fit/sweep';
 import { choicesFrom } from '../../src/extension/fit/choices';
 import { ForestSession } from '../../src/extension/session/session';
-import { summaryFor } from './helpers';
+import { csvOf, summaryFor } from './helpers';
 import { readSettings } from '../../src/extension/settings';
 import { readFileSync } from 'node:fs';
 import { inBagCounts } from '../../src/core/forest/bootstrap';
@@ -81,8 +81,7 @@ async function main(): Promise<void> {
     const session = await timed('score all rows once for hovers (Scorer)', () =>
       ForestSession.create({
         forest: report.forest,
-        source: { path: file, label: 'measure.csv', delimiter: ',', fingerprint: load.fingerprint, rowsRead: rows, header: load.header },
-        table: load.table,
+        csv: csvOf(file, load),
         text: () => readFileSync(file, 'utf8'),
         oob: { trainRows: report.trainRows, inBag: inBagCounts(report.forest.params, report.forest.trees.length, report.trainRows.length) },
         summary,

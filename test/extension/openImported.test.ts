@@ -51,7 +51,7 @@ async function openAgainst(modelPath: string, csvPath: string, agree = true): Pr
     imported,
     origin: opened.origin,
     modelLabel,
-    csv: { path: csvPath, uri: `file://${csvPath}`, load, sampled: false },
+    csv: { path: csvPath, uri: `file://${csvPath}`, load, sampled: false, seconds: 0, bytes: 0 },
     encoded: x,
     warnings: [],
     permutation,

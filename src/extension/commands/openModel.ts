@@ -93,7 +93,7 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
         imported,
         origin: opened.origin,
         modelLabel,
-        csv: { path: loaded.path, uri: csvUri.toString(), load: loaded.load, sampled: loaded.sampled, sampleRows: loaded.sampleRows, sampleSeed: loaded.sampleSeed },
+        csv: { ...loaded, uri: csvUri.toString() },
         encoded: x,
         warnings,
         permutation,

@@ -5,6 +5,7 @@
 import { csvLine, type LoadOptions, type LoadResult } from '../engine';
 import type { LineReader } from '../rows/lineMap';
 import { loadForForest } from '../session/loadFor';
+import { csvLabel } from '../session/csvSource';
 import type { ForestSession, ScoredFile } from '../session/session';
 import { RowNumbering } from '../rows/numbering';
 
@@ -12,7 +13,7 @@ export type TextLoader = (text: string, options: LoadOptions, label: string) => 
 
 /** Whether the session's table leaves rows of its file out, so a line outside it may still be a data row. */
 export function hasLoneLines(session: ForestSession): boolean {
-  return session.table.rowCount < session.source.rowsRead;
+  return session.table.rowCount < session.source.load.rowsRead;
 }
 
 const offsets = new WeakMap<ForestSession, number | null>();
@@ -44,9 +45,9 @@ export async function scoreLoneLine(session: ForestSession, line: number, read: 
   let first = 1;
   while (first < line && (read(first) ?? '').trim() === '') first++;
   if (first === line) return undefined;
-  const { delimiter, header } = session.source;
+  const { delimiter, header } = session.source.load;
   const record = csvLine(header, delimiter) + text + '\n';
-  const label = `line ${line} of ${session.source.label}`;
+  const label = `line ${line} of ${csvLabel(session.source)}`;
   let loaded: LoadResult;
   try {
     // One row makes every column look constant; the target is kept by naming its kind, so the hover shows it.

@@ -5,11 +5,12 @@ import { promises as fs, readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import type { CopseContext, FitOrigin } from '../context';
-import { findColumn, fitForest, loadCsv, Scorer, summarizeFit, targetDoubt, type FitReport, type LoadResult, type Schema } from '../engine';
+import { findColumn, fitForest, loadCsv, Scorer, summarizeFit, targetDoubt, type FitReport, type Schema } from '../engine';
 import { isAbort, isUserError, userMessage } from '../errors';
 import { formatBytes, formatSeconds, formatShare } from '../engine';
 import type { PanelHost } from '../panel/panelHost';
 import { showCsv } from '../editor/showCsv';
+import { readingOf, type LoadedCsv } from '../session/csvSource';
 import { saveLastFit } from '../session/lastFit';
 import { loadForForest } from '../session/loadFor';
 import { ForestSession } from '../session/session';
@@ -20,16 +21,7 @@ import { profileColumns } from './columnProfile';
 import { adjustChoices, pickTarget } from './fitDialog';
 import { fitLogLines } from './fitLog';
 
-export interface LoadedCsv {
-  readonly path: string;
-  readonly load: LoadResult;
-  readonly sampled: boolean;
-  readonly sampleRows?: number;
-  readonly sampleSeed?: number;
-  readonly loadTarget?: string;
-  readonly seconds: number;
-  readonly bytes: number;
-}
+export type { LoadedCsv } from '../session/csvSource';
 
 /** The CSV a command should work on: its argument, the active editor's file, or one the user picks. */
 export async function resolveCsv(uri: vscode.Uri | undefined, title: string): Promise<vscode.Uri | undefined> {
@@ -194,8 +186,7 @@ async function refitWith(ctx: CopseContext, panel: PanelHost, change: (c: FitCho
       void vscode.window.showInformationMessage('Copse: a fit is already running.');
       return;
     }
-    const loaded: LoadedCsv = { ...origin, seconds: origin.loadSeconds };
-    await runFit(ctx, panel, loaded, change(origin.choices));
+    await runFit(ctx, panel, origin, change(origin.choices));
   });
 }
 
@@ -274,17 +265,7 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
   try {
     session = await ForestSession.create({
       forest,
-      source: {
-        path: loaded.path,
-        label,
-        delimiter: load.delimiter,
-        fingerprint: load.fingerprint,
-        rowsRead: load.rowsRead,
-        sampleRows: loaded.sampleRows,
-        sampleSeed: loaded.sampleSeed,
-        header: load.header,
-      },
-      table: load.table,
+      csv: loaded,
       text: () => readText(loaded.path),
       oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag },
       summary: (fit) => panelSummary(core, { fit, uri }),
@@ -303,17 +284,7 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
   }
   const scoreSeconds = (performance.now() - tScore) / 1000;
 
-  const origin: FitOrigin = {
-    path: loaded.path,
-    load,
-    sampled: loaded.sampled,
-    sampleRows: loaded.sampleRows,
-    sampleSeed: loaded.sampleSeed,
-    loadTarget: loaded.loadTarget,
-    choices,
-    loadSeconds: loaded.seconds,
-    bytes: loaded.bytes,
-  };
+  const origin: FitOrigin = { ...loaded, choices };
   ctx.setSession(session, origin);
 
   for (const line of fitLogLines({
@@ -340,17 +311,7 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
   void saveLastFit(
     ctx.storageDir,
     { forest, trainRows: report.trainRows, holdoutRows: report.holdoutRows },
-    {
-      csvPath: loaded.path,
-      fingerprint: load.fingerprint,
-      delimiter: load.delimiter,
-      sampleRows: loaded.sampleRows,
-      sampleSeed: loaded.sampleSeed,
-      loadTarget: loaded.loadTarget,
-      summary: session.summary,
-      choices,
-      bytes: loaded.bytes,
-    },
+    { csv: readingOf(loaded), fingerprint: load.fingerprint, summary: session.summary, choices },
   ).catch((e) => ctx.log.warn(`Could not keep the fit for the next reload: ${e instanceof Error ? e.message : String(e)}`));
 }
 

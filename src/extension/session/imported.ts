@@ -3,12 +3,12 @@
 // none, and permutation importance on the CSV's labelled rows. No `vscode` here, so tests run it as the command does.
 
 import { readFileSync } from 'node:fs';
-import * as path from 'node:path';
-import type { Forest, LoadResult, ModelOrigin, PermutationImportance, Table, TrainingRows } from '../engine';
+import type { Forest, ModelOrigin, PermutationImportance, Table, TrainingRows } from '../engine';
 import { findColumn, knowsTraining, median, ModelError, nameByPosition, permutationOnRows, summarizeOpened, targetCodes, withCoverFrom } from '../engine';
 import { panelSummary } from '../summary/panel';
 import { ExplainClient } from '../workers/explainClient';
 import { COVERS_FROM_FILE, UNAVAILABLE_FOR_IMPORT } from './importText';
+import { csvLabel, type LoadedCsv } from './csvSource';
 import { ForestSession, type ScorerLike } from './session';
 
 export { COVERS_FROM_FILE, UNAVAILABLE_FOR_IMPORT } from './importText';
@@ -103,14 +103,8 @@ export interface OpenedSessionInput {
   readonly imported: boolean;
   readonly origin: ModelOrigin;
   readonly modelLabel: string;
-  readonly csv: {
-    readonly path: string;
-    readonly uri: string;
-    readonly load: LoadResult;
-    readonly sampled: boolean;
-    readonly sampleRows?: number;
-    readonly sampleSeed?: number;
-  };
+  /** The CSV as read, and its URI (for a refit after the panel is restored). */
+  readonly csv: LoadedCsv & { readonly uri: string };
   /** The table in the forest's feature space, as forestForTable was given it. */
   readonly encoded: Float64Array;
   readonly warnings: readonly string[];
@@ -126,21 +120,11 @@ export interface OpenedSessionInput {
 /** The session for a forest opened from a file and shown against a CSV. */
 export function openedSession(i: OpenedSessionInput): Promise<ForestSession> {
   const { forest, csv, modelLabel } = i;
-  const label = path.basename(csv.path);
+  const label = csvLabel(csv);
   const training = i.training;
   return ForestSession.create({
     forest,
-    source: {
-      path: csv.path,
-      label,
-      delimiter: csv.load.delimiter,
-      fingerprint: csv.load.fingerprint,
-      rowsRead: csv.load.rowsRead,
-      sampleRows: csv.sampleRows,
-      sampleSeed: csv.sampleSeed,
-      header: csv.load.header,
-    },
-    table: csv.load.table,
+    csv,
     encoded: i.encoded,
     text: () => readFileSync(csv.path, 'utf8'),
     // The training file itself, read as the fit read it: the out-of-bag views are the fit's own.

@@ -8,26 +8,24 @@ import * as path from 'node:path';
 import { isFitSummary, type FitSummary } from '../../protocol/messages';
 import type { Forest } from '../engine';
 import type { FitChoices } from '../fit/choices';
+import type { CsvReading } from './csvSource';
 import { inBagCounts, loadModel, saveModel, writeFileAtomic } from '../engine';
 
-export const LAST_FIT_VERSION = 2;
+// 3: the CSV's reading is one record (csv), as the session keeps it.
+export const LAST_FIT_VERSION = 3;
 
 export interface LastFitMeta {
   readonly version: number;
-  readonly csvPath: string;
+  /** How the CSV was read, so the same rows come back (sampling is seeded). */
+  readonly csv: CsvReading;
+  /** The CSV's fingerprint when it was fitted: a changed file gets no out-of-bag views. */
   readonly fingerprint: string;
-  readonly delimiter: string;
-  /** The load options that reproduce the same table (sampling is seeded). */
-  readonly sampleRows?: number;
-  readonly sampleSeed?: number;
-  readonly loadTarget?: string;
   readonly trainRows: string;
   readonly holdoutRows?: string;
   readonly trees: number;
   readonly summary: FitSummary;
   /** What the user chose for the fit, so a restored session can be refitted from the panel. */
   readonly choices?: FitChoices;
-  readonly bytes?: number;
 }
 
 export interface LastFit {
@@ -95,9 +93,11 @@ function isMeta(m: unknown): m is LastFitMeta {
   const v = m as Record<string, unknown>;
   return (
     v.version === LAST_FIT_VERSION &&
-    typeof v.csvPath === 'string' &&
+    typeof v.csv === 'object' &&
+    v.csv !== null &&
+    typeof (v.csv as Record<string, unknown>).path === 'string' &&
+    typeof (v.csv as Record<string, unknown>).sampled === 'boolean' &&
     typeof v.fingerprint === 'string' &&
-    typeof v.delimiter === 'string' &&
     typeof v.trainRows === 'string' &&
     typeof v.trees === 'number' &&
     isFitSummary(v.summary)

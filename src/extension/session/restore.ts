@@ -2,10 +2,10 @@
 // CSV (read with the same seeded sample). If the CSV changed since, the forest comes back without its
 // per-row out-of-bag part, and the summary says why. No `vscode`.
 
-import * as path from 'node:path';
 import { readFileSync } from 'node:fs';
 import type { FitOrigin } from '../context';
 import { loadCsv } from '../engine';
+import { csvLabel, type LoadedCsv } from './csvSource';
 import { loadLastFit } from './lastFit';
 import { ForestSession, type ScorerLike, type SessionInit } from './session';
 import type { Forest } from '../engine';
@@ -25,29 +25,19 @@ export async function restoreLastFit(
   const saved = await loadLastFit(dir);
   if (!saved) return undefined;
   const { meta, forest } = saved;
+  const reading = meta.csv;
   const started = performance.now();
-  const load = await loadCsv(meta.csvPath, { sampleRows: meta.sampleRows, sampleSeed: meta.sampleSeed, target: meta.loadTarget });
-  const loadSeconds = (performance.now() - started) / 1000;
+  const load = await loadCsv(reading.path, { sampleRows: reading.sampleRows, sampleSeed: reading.sampleSeed, target: reading.loadTarget });
+  const csv: LoadedCsv = { ...reading, load, seconds: (performance.now() - started) / 1000 };
   const same = load.fingerprint === meta.fingerprint;
-  const label = path.basename(meta.csvPath);
-  const note = same ? undefined : `${label} has changed since this forest was fitted, so per-row out-of-bag votes are not shown; fit again to refresh them.`;
+  const note = same ? undefined : `${csvLabel(csv)} has changed since this forest was fitted, so per-row out-of-bag votes are not shown; fit again to refresh them.`;
   const summary = same ? meta.summary : { ...meta.summary, warnings: [note!, ...meta.summary.warnings] };
   const scorer = scorerFor(forest);
   try {
     const session = await ForestSession.create({
       forest,
-      source: {
-        path: meta.csvPath,
-        label,
-        delimiter: load.delimiter,
-        fingerprint: load.fingerprint,
-        rowsRead: load.rowsRead,
-        sampleRows: meta.sampleRows,
-        sampleSeed: meta.sampleSeed,
-        header: load.header,
-      },
-      table: load.table,
-      text: () => readFileSync(meta.csvPath, 'utf8'),
+      csv,
+      text: () => readFileSync(reading.path, 'utf8'),
       oob: same ? { trainRows: saved.trainRows, holdoutRows: saved.holdoutRows, inBag: saved.inBag } : undefined,
       // The saved summary was the panel's for the earlier session: it is stamped with this session's id.
       summary: (fit) => ({ ...summary, fit }),
@@ -57,20 +47,8 @@ export async function restoreLastFit(
       quantiles: same ? { from: 'table' } : undefined,
       intervalLevel: explain.intervalLevel,
     });
-    const origin =
-      same && meta.choices
-        ? {
-            path: meta.csvPath,
-            load,
-            sampled: meta.summary.sampled,
-            sampleRows: meta.sampleRows,
-            sampleSeed: meta.sampleSeed,
-            loadTarget: meta.loadTarget,
-            choices: meta.choices,
-            loadSeconds,
-            bytes: meta.bytes ?? 0,
-          }
-        : undefined;
+    // What a refit needs; a changed CSV would make a refit a new fit on new data.
+    const origin: FitOrigin | undefined = same && meta.choices ? { ...csv, choices: meta.choices } : undefined;
     return { session, origin, note };
   } catch (e) {
     await scorer.dispose();

@@ -19,6 +19,7 @@ import {
 } from './explanations';
 import { LineIndex, type LineReader } from '../rows/lineMap';
 import { RowNumbering } from '../rows/numbering';
+import { csvLabel, type LoadedCsv } from './csvSource';
 import type { PanelSettings } from '../settings';
 import { mapMatrix, mappableRanking, regionMap } from './maps';
 import { contributionsText, intervalText, rowVotesOf, suspectReason } from './rowText';
@@ -29,18 +30,6 @@ export interface ScorerLike {
   dispose(): Promise<void>;
 }
 
-export interface SessionSource {
-  /** File-system path of the CSV the forest is shown against. */
-  readonly path: string;
-  readonly label: string;
-  readonly delimiter: string;
-  readonly fingerprint: string;
-  readonly rowsRead: number;
-  /** Set when the table is a random sample of the file. */
-  readonly sampleRows?: number;
-  readonly sampleSeed?: number;
-  readonly header: readonly string[];
-}
 
 /** Which table rows the forest trained on (and held out), and how each tree drew them. */
 export type OobInput = TrainingRows;
@@ -53,8 +42,8 @@ export interface Scored {
 
 export interface SessionInit {
   readonly forest: Forest;
-  readonly source: SessionSource;
-  readonly table: Table;
+  /** The CSV the forest is shown against, as read; its table is the session's. */
+  readonly csv: LoadedCsv;
   /** The table in the forest's feature space, when the caller has encoded it already. */
   readonly encoded?: Float64Array;
   /** The CSV's text, read only if rows must be renumbered (see RowNumbering). */
@@ -99,7 +88,7 @@ export class ForestSession {
   /** Names this forest-and-table pairing for the panel: every message about it carries this id. */
   readonly id: string;
   readonly forest: Forest;
-  readonly source: SessionSource;
+  readonly source: LoadedCsv;
   readonly table: Table;
   readonly store: RowVotes;
   readonly lines: LineIndex;
@@ -129,17 +118,17 @@ export class ForestSession {
     this.truth = truth;
     this.importedFrom = init.importedFrom;
     this.forest = init.forest;
-    this.source = init.source;
-    this.table = init.table;
+    this.source = init.csv;
+    this.table = init.csv.load.table;
     this.summary = summary;
     this.scorer = init.scorer;
     this.encoded = encoded;
     this.p = init.forest.schema.features.length;
     this.store = store;
     this.numbering = numbering;
-    this.lines = new LineIndex(init.table.lineOfRow, init.source.delimiter);
+    this.lines = new LineIndex(this.table.lineOfRow, init.csv.load.delimiter);
     this.knowsMembership = init.oob !== undefined;
-    this.trainRows = init.oob?.trainRows ?? Int32Array.from({ length: init.table.rowCount }, (_, i) => i);
+    this.trainRows = init.oob?.trainRows ?? Int32Array.from({ length: this.table.rowCount }, (_, i) => i);
     this.seed = init.seed ?? init.forest.params.seed;
     this.suspectList = this.findSuspects();
     for (const s of this.suspectList) this.suspectByRow.set(s.row, s);
@@ -168,15 +157,16 @@ export class ForestSession {
 
   /** Scores the whole table once (in the scorer's thread), out-of-bag too where it can, and indexes it. */
   static async create(init: SessionInit): Promise<ForestSession> {
-    const { forest, table } = init;
-    const encoded = init.encoded ?? encodeTable(forest.schema, table, init.source.label);
+    const { forest } = init;
+    const table = init.csv.load.table;
+    const encoded = init.encoded ?? encodeTable(forest.schema, table, csvLabel(init.csv));
     const membership = init.oob ? membershipOf(init.oob.trainRows, table.rowCount, init.oob.inBag) : undefined;
     const prediction = await init.scorer.predict(encoded, table.rowCount, membership);
     const truth = targetCodes(forest, table);
     const task = forest.schema.target.task;
     const holdout = new Set<number>(init.oob?.holdoutRows ?? []);
     const store = new RowVotes(task, forest.schema.target.classes ?? [], prediction, truth, membership, holdout, targetTolerance(task, truth, init.oob?.trainRows));
-    const numbering = RowNumbering.build(table.lineOfRow, init.source.delimiter, init.text, table.rowNumber);
+    const numbering = RowNumbering.build(table.lineOfRow, init.csv.load.delimiter, init.text, table.rowNumber);
     const id = `${Date.now().toString(36)}-${++sessions}`;
     return new ForestSession(init, id, init.summary(id, { prediction, truth }), encoded, store, numbering, truth);
   }
@@ -358,7 +348,7 @@ export class ForestSession {
       target: this.forest.schema.target.name,
       classes: this.classes,
       dataRow: file.numbering.dataRow(tableRow),
-      forestLabel: this.source.label,
+      forestLabel: csvLabel(this.source),
       standing: file.outsideSample ? 'not in the sample the forest was fitted on, so no tree trained on it' : undefined,
       line: file.outsideSample?.line,
       tolerance: this.task === 'regression' ? this.store.tolerance : undefined,

@@ -8,7 +8,7 @@ import { loadCsv } from '../../../src/core/csv/load';
 import { fitForest } from '../../../src/core/forest/fit';
 import { Scorer } from '../../../src/core/forest/scorer';
 import { ForestSession } from '../../../src/extension/session/session';
-import { summaryFor } from '../../extension/helpers';
+import { csvOf, summaryFor } from '../../extension/helpers';
 import { readFileSync } from 'node:fs';
 import { inBagCounts } from '../../../src/core/forest/bootstrap';
 
@@ -39,8 +39,7 @@ describe('Copse in the extension host', () => {
     const summary = summaryFor(report, { table: load.table, rowsRead: 150 }, 'iris.csv');
     const session = await ForestSession.create({
       forest: report.forest,
-      source: { path: csv, label: 'iris.csv', delimiter: load.delimiter, fingerprint: load.fingerprint, rowsRead: 150, header: load.header },
-      table: load.table,
+      csv: csvOf(csv, load),
       text: () => readFileSync(csv, 'utf8'),
       oob: { trainRows: report.trainRows, inBag: inBagCounts(report.forest.params, report.forest.trees.length, report.trainRows.length) },
       summary,
