@@ -11,6 +11,7 @@ bash scripts/e2e/setup.sh
 step "type-check and compile"
 npx tsc -p tsconfig.json
 npx tsc -p webview/tsconfig.json --noEmit
+npm run --silent lint
 
 step "unit, engine, CLI, host-logic and webview tests"
 npx mocha
