@@ -7,7 +7,27 @@ import { loadCsv } from '../src/core/csv/load';
 import { fitForest } from '../src/core/forest/fit';
 
 const root = path.join(__dirname, '..', '..');
-const read = (f: string) => JSON.parse(readFileSync(path.join(root, 'test/fixtures/reference', f), 'utf8'));
+
+// The parts of the recorded reference files this table reads.
+interface Figure {
+  mean: number;
+  sd: number;
+}
+interface Ref {
+  file: string;
+  target: string;
+  task: 'classification' | 'regression';
+  rows: number;
+  features: number;
+  oobAccuracy?: Figure;
+  oobR2?: Figure;
+}
+interface Reference {
+  sklearnVersion?: string;
+  rangerVersion?: string;
+  datasets: Record<string, Ref>;
+}
+const read = (f: string) => JSON.parse(readFileSync(path.join(root, 'test/fixtures/reference', f), 'utf8')) as Reference;
 
 async function main(): Promise<void> {
   const sklearn = read('sklearn.json');
@@ -15,7 +35,7 @@ async function main(): Promise<void> {
   const seeds = [1, 2, 3];
   console.log(`| dataset (rows × features) | score | Copse (seeds ${seeds.join(', ')}) | scikit-learn ${sklearn.sklearnVersion} (10 seeds) | ranger ${ranger.rangerVersion} (10 seeds) |`);
   console.log('|---|---|---|---|---|');
-  for (const [name, ref] of Object.entries<any>(sklearn.datasets)) {
+  for (const [name, ref] of Object.entries(sklearn.datasets)) {
     const { table } = await loadCsv(path.join(root, ref.file), { target: ref.target });
     const key = ref.task === 'classification' ? 'oobAccuracy' : 'oobR2';
     const ours: number[] = [];
@@ -25,7 +45,7 @@ async function main(): Promise<void> {
     }
     const mean = ours.reduce((a, b) => a + b, 0) / ours.length;
     const label = key === 'oobAccuracy' ? 'OOB accuracy' : 'OOB R²';
-    console.log(`| ${name} (${ref.rows} × ${ref.features}) | ${label} | ${mean.toFixed(3)} | ${ref[key].mean.toFixed(3)} ± ${ref[key].sd.toFixed(3)} | ${ranger.datasets[name][key].mean.toFixed(3)} ± ${ranger.datasets[name][key].sd.toFixed(3)} |`);
+    console.log(`| ${name} (${ref.rows} × ${ref.features}) | ${label} | ${mean.toFixed(3)} | ${ref[key]!.mean.toFixed(3)} ± ${ref[key]!.sd.toFixed(3)} | ${ranger.datasets[name][key]!.mean.toFixed(3)} ± ${ranger.datasets[name][key]!.sd.toFixed(3)} |`);
   }
 }
 

@@ -55,7 +55,7 @@ function cycled(x: Float64Array, p: number, rows: number): Float64Array {
 
 const quantile = (sorted: number[], q: number) => sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))];
 
-async function measure(name: string, table: Table, report: FitReport, bruteRows: number, extras: boolean): Promise<Figures> {
+function measure(name: string, table: Table, report: FitReport, bruteRows: number, extras: boolean): Figures {
   const forest = report.forest;
   const p = forest.schema.features.length;
   const x = cycled(encodeTable(forest.schema, table), p, ROWS);
@@ -152,7 +152,7 @@ async function main(): Promise<void> {
   ] as const) {
     const { table } = await loadCsv(path.join(root, 'test/fixtures/open', file), { target });
     const report = await fitForest(table, { target, params: { trees, seed: 1 }, workers, permutationImportance: false });
-    results.push(await measure(name, table, report, brute, name === 'friedman1'));
+    results.push(measure(name, table, report, brute, name === 'friedman1'));
   }
   if (values.json) {
     process.stdout.write(JSON.stringify({ rows: ROWS, results }, null, 2) + '\n');

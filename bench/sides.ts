@@ -176,7 +176,7 @@ function scriptSide(name: SideName, interpreter: string, script: string, probe: 
       if (!existsSync(interpreter)) return `${interpreter} is not installed`;
       const r = await runProcess(interpreter, probe, { timeoutSeconds: 120 });
       if (r.exitCode !== 0) return `not installed (${r.stderrTail.split('\n').slice(-1)[0] ?? ''})`;
-      const out = r.json ? String(r.json.version ?? '') : '';
+      const out = typeof r.json?.version === 'string' ? r.json.version : '';
       version = out || undefined;
       return true;
     },

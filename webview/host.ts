@@ -15,6 +15,7 @@ const api: VsCodeApi = acquireVsCodeApi();
 
 export function post(message: PanelToHost): void {
   if (!isPanelToHost(message)) {
+    // eslint-disable-next-line no-console -- the webview's developer console is the only log a panel has.
     console.error('copse panel: refusing to send a malformed message', message);
     return;
   }

@@ -251,6 +251,7 @@ if (restored) {
 
 window.addEventListener('message', (ev: MessageEvent<unknown>) => {
   if (!isHostToPanel(ev.data)) {
+    // eslint-disable-next-line no-console -- the webview's developer console is the only log a panel has.
     console.warn('copse panel: ignoring a message that does not match the protocol');
     return;
   }

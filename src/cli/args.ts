@@ -18,7 +18,7 @@ export interface Parsed {
 export function parse(command: string, argv: string[], options: Options, positionals: number): Parsed {
   let parsed: Parsed;
   try {
-    parsed = parseArgs({ args: argv, options: { ...options, help: { type: 'boolean', short: 'h' }, debug: { type: 'boolean' } }, allowPositionals: true, strict: true }) as Parsed;
+    parsed = parseArgs({ args: argv, options: { ...options, help: { type: 'boolean', short: 'h' }, debug: { type: 'boolean' } }, allowPositionals: true, strict: true });
   } catch (e) {
     throw new UsageError((e as Error).message.replace(/\. To specify a positional.*$/s, '.'), command);
   }

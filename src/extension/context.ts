@@ -84,6 +84,7 @@ export class CopseContext implements vscode.Disposable {
       try {
         d.dispose();
       } catch (e) {
+        // eslint-disable-next-line no-console -- the log channel is one of these disposables; the host's console outlives it.
         console.error('copse: dispose failed', e);
       }
     }

@@ -57,7 +57,7 @@ export function activate(extension: vscode.ExtensionContext): { readonly context
   const docs = ctx.track(new CsvDocuments(ctx));
   ctx.track(registerHover(ctx, docs));
   ctx.track(new RowMarks(ctx, docs, panel));
-  ctx.log.info(`Copse ${extension.extension.packageJSON.version ?? ''} ready.`);
+  ctx.log.info(`Copse ${(extension.extension.packageJSON as { version?: string }).version ?? ''} ready.`);
   return { context: ctx };
 }
 

@@ -118,7 +118,7 @@ export function readSettings(source: ConfigSource): SettingsRead {
       problems.push(`copse.${key} must be a number in ${openMin ? '(' : '['}${min}, ${max}${openMax ? ')' : ']'}; using ${fallback}.`);
       return fallback;
     }
-    return v as number;
+    return v;
   };
   const bool = (key: SettingKey): boolean => {
     const fallback = SETTING_DEFAULTS[key] as boolean;
@@ -145,7 +145,7 @@ export function readSettings(source: ConfigSource): SettingsRead {
     const v = source.get<unknown>('training.featuresPerSplit');
     if (v === undefined || v === null || v === 'auto' || v === '') return 'auto';
     try {
-      return parseFeaturesPerSplit(String(v));
+      return parseFeaturesPerSplit(typeof v === 'string' || typeof v === 'number' ? String(v) : JSON.stringify(v));
     } catch (e) {
       problems.push(`copse.training.featuresPerSplit: ${(e as Error).message}; using auto.`);
       return 'auto';

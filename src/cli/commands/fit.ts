@@ -76,7 +76,7 @@ const OPTIONS: Options = {
 };
 
 function columnTypes(specs: string[]): Record<string, ColumnKind> {
-  const out: Record<string, ColumnKind> = Object.create(null);
+  const out = Object.create(null) as Record<string, ColumnKind>;
   for (const spec of specs) {
     const at = spec.lastIndexOf('=');
     const kind = spec.slice(at + 1);
@@ -153,7 +153,7 @@ export async function runFit(argv: string[]): Promise<void> {
   let test;
   if (testPath) {
     // The test file is read with the training file's column types, so a column cannot change type between them.
-    const kinds: Record<string, ColumnKind | 'exclude'> = Object.create(null);
+    const kinds = Object.create(null) as Record<string, ColumnKind | 'exclude'>;
     for (const c of loaded.table.columns) kinds[c.name] = c.kind;
     for (const d of loaded.dropped) kinds[d.name] = 'exclude';
     test = (await loadCsv(testPath, { ...loadOptions, sampleRows: undefined, columnTypes: kinds })).table;

@@ -229,10 +229,10 @@ function finishLoad(intake: Intake, config: FinishConfig): LoadResult {
   }
   let rows: Rows = { order, count: intake.slots, lineOfRow: gatherLines(intake.lineOfSlot, order, intake.slots) };
 
-  const columns: (Column | undefined)[] = new Array(header.length);
-  const notesOf: (string | undefined)[] = new Array(header.length);
-  const warningsOf: (string | undefined)[] = new Array(header.length);
-  const droppedOf: (DroppedColumn | undefined)[] = new Array(header.length);
+  const columns = new Array<Column | undefined>(header.length);
+  const notesOf = new Array<string | undefined>(header.length);
+  const warningsOf = new Array<string | undefined>(header.length);
+  const droppedOf = new Array<DroppedColumn | undefined>(header.length);
 
   const t = intake.targetIndex;
   if (t >= 0) {

@@ -164,7 +164,7 @@ export interface TrainingFileOptions {
  * the model has one), and its rows must reproduce every leaf, or a TrainingMismatchError says so.
  */
 export async function quantileIndexFromTrainingFile(forest: Forest, file: string, options: TrainingFileOptions = {}): Promise<QuantileIndex> {
-  const columnTypes: Record<string, 'numeric' | 'categorical' | 'boolean'> = Object.create(null);
+  const columnTypes = Object.create(null) as Record<string, 'numeric' | 'categorical' | 'boolean'>;
   for (const f of forest.schema.features) columnTypes[f.name] = f.kind;
   columnTypes[forest.schema.target.name] = 'numeric';
   const loaded = await loadCsv(file, {

@@ -34,7 +34,7 @@ export function growInWorkers(
     let next = 0;
     let delivered = 0;
     let settled = false;
-    const finish = (err?: unknown) => {
+    const finish = (err?: Error) => {
       if (settled) return;
       settled = true;
       signal?.removeEventListener('abort', onAbort);
@@ -61,7 +61,7 @@ export function growInWorkers(
             onTree(r);
           }
         } catch (e) {
-          return finish(e);
+          return finish(e instanceof Error ? e : new Error(String(e)));
         }
         if (delivered === trees) finish();
       });

@@ -14,7 +14,7 @@ import type { Prediction } from './predict';
 
 /** Loads a file with the model's column types forced, so no feature is dropped or retyped by inference. */
 export function loadForScoring(file: string, schema: Schema, signal?: AbortSignal): Promise<LoadResult> {
-  const columnTypes: Record<string, ColumnKind> = Object.create(null);
+  const columnTypes = Object.create(null) as Record<string, ColumnKind>;
   for (const f of schema.features) columnTypes[f.name] = f.kind;
   return loadCsv(file, { columnTypes, signal });
 }

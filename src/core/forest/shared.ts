@@ -15,7 +15,7 @@ export function sharedArray<T extends Numbers>(make: SharedMake<T>, length: numb
 function shared<T extends Numbers>(a: T): T {
   if (a.buffer instanceof SharedArrayBuffer) return a;
   const b = sharedArray(a.constructor as unknown as SharedMake<T>, a.length);
-  b.set(a as never);
+  b.set(a);
   return b;
 }
 

@@ -177,7 +177,7 @@ function readMetadata(model: OnnxModel, fail: Fail): Metadata | undefined {
 function checkSchema(schema: Schema, p: number, task: string, e: Ensemble, fail: Fail): Schema {
   const features = schema.features;
   if (!Array.isArray(features) || features.length !== p) fail(`its metadata describes ${Array.isArray(features) ? features.length : 'no'} features, but the graph's input has ${p}`);
-  features.forEach((f, j) => {
+  features.forEach((f: FeatureInfo, j) => {
     if (typeof f !== 'object' || f === null) fail(`its metadata feature ${j} is not an object`);
     if (f.kind !== 'numeric' && !(Array.isArray(f.levels) && f.levels.length >= 1 && f.levels.length <= 256)) fail(`its metadata feature ${j} should list 1 to 256 levels`);
   });

@@ -80,14 +80,13 @@ export const DTYPE = { FLOAT: 1, UINT8: 2, INT8: 3, INT32: 6, INT64: 7, STRING: 
 let modelType: protobuf.Type | undefined;
 
 function model(): protobuf.Type {
-  // The descriptor carries `edition` keys that protobufjs reads but its typings do not list yet.
-  modelType ??= protobuf.Root.fromJSON(ONNX_DESCRIPTOR as unknown as protobuf.INamespace).lookupType('onnx.ModelProto');
+  modelType ??= protobuf.Root.fromJSON(ONNX_DESCRIPTOR).lookupType('onnx.ModelProto');
   return modelType;
 }
 
 /** A plain Uint8Array: under Node protobufjs returns a Buffer, whose slice() would share memory instead of copying. */
 export function encodeModel(m: OnnxModel): Uint8Array {
-  const b = model().encode(m as Record<string, unknown>).finish();
+  const b = model().encode(m).finish();
   return new Uint8Array(b.buffer, b.byteOffset, b.byteLength);
 }
 
@@ -98,17 +97,17 @@ export function encodeModel(m: OnnxModel): Uint8Array {
  */
 export function decodeModel(bytes: Uint8Array): OnnxModel {
   const reader = protobuf.Reader.create(bytes);
-  const asNumber = (read: () => protobuf.Long | number) =>
+  const asNumber = (name: 'int64' | 'uint64' | 'sint64') =>
     function (): number {
-      const v = read.call(reader);
+      const v = protobuf.Reader.prototype[name].call(reader);
       if (typeof v === 'number') return v;
       const high = v.unsigned ? v.high >>> 0 : v.high | 0;
       const n = high * 4294967296 + (v.low >>> 0);
       return Number.isSafeInteger(n) ? n : NaN;
     };
   const r = reader as unknown as Record<'int64' | 'uint64' | 'sint64', () => number>;
-  r.int64 = asNumber(protobuf.Reader.prototype.int64);
-  r.uint64 = asNumber(protobuf.Reader.prototype.uint64);
-  r.sint64 = asNumber(protobuf.Reader.prototype.sint64);
+  r.int64 = asNumber('int64');
+  r.uint64 = asNumber('uint64');
+  r.sint64 = asNumber('sint64');
   return model().decode(reader) as unknown as OnnxModel;
 }

@@ -119,21 +119,15 @@ export function registerHover(ctx: CopseContext, docs: CsvDocuments): vscode.Dis
 
 /** The work's answer, or undefined once the hover is gone or the wait is over (the work itself goes on). */
 function untilCancelled<T>(work: Promise<T>, token: vscode.CancellationToken, ms: number): Promise<T | undefined> {
-  return new Promise<T | undefined>((resolve, reject) => {
-    const timer = setTimeout(() => finish(() => resolve(undefined)), ms);
-    const sub = token.onCancellationRequested(() => finish(() => resolve(undefined)));
-    let done = false;
-    function finish(f: () => void): void {
-      if (done) return;
-      done = true;
-      clearTimeout(timer);
-      sub.dispose();
-      f();
-    }
-    work.then(
-      (v) => finish(() => resolve(v)),
-      (e: unknown) => finish(() => reject(e)),
-    );
+  let timer: NodeJS.Timeout | undefined;
+  let sub: vscode.Disposable | undefined;
+  const gone = new Promise<undefined>((resolve) => {
+    timer = setTimeout(() => resolve(undefined), ms);
+    sub = token.onCancellationRequested(() => resolve(undefined));
+  });
+  return Promise.race([work, gone]).finally(() => {
+    clearTimeout(timer);
+    sub?.dispose();
   });
 }
 
