@@ -4,6 +4,7 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import * as path from 'node:path';
+import type { ClassVoteRow, FitJson, PredictJson, VotesJson } from './output';
 
 const root = path.join(__dirname, '..', '..', '..');
 const iris = path.join(root, 'test/fixtures/open/iris.csv');
@@ -18,12 +19,12 @@ describe('copse command line', function () {
   this.timeout(120000);
   const dir = mkdtempSync(path.join(tmpdir(), 'copse-cli-'));
   const model = path.join(dir, 'iris.json');
-  let fit: Record<string, any>;
+  let fit: FitJson;
 
   before(() => {
     const r = copse('fit', iris, '--target', 'species', '--trees', '60', '--seed', '7', '--holdout', '0.2', '--save', model, '--json');
     assert.equal(r.code, 0, r.stderr);
-    fit = JSON.parse(r.stdout);
+    fit = JSON.parse(r.stdout) as FitJson;
   });
 
   it('fit --json prints the keys scripts rely on', () => {
@@ -32,23 +33,23 @@ describe('copse command line', function () {
     assert.equal(fit.rows, 120);
     assert.equal(fit.trees, 60);
     assert.deepEqual(fit.features, ['sepal_length', 'sepal_width', 'petal_length', 'petal_width']);
-    assert.ok(fit.oob.accuracy > 0.85 && fit.test.accuracy > 0.8);
-    assert.equal(fit.test.rows, 30);
+    assert.ok(fit.oob.accuracy! > 0.85 && fit.test!.accuracy! > 0.8);
+    assert.equal(fit.test!.rows, 30);
     assert.ok(typeof fit.importance.impurity.petal_length === 'number');
     assert.ok(typeof fit.importance.permutation.petal_width === 'number');
     assert.ok(fit.seconds.load >= 0 && fit.seconds.fit > 0);
   });
 
   it('fit gives the same result for the same seed on any number of workers', () => {
-    const a = JSON.parse(copse('fit', iris, '--target', 'species', '--trees', '30', '--seed', '3', '--workers', '1', '--json').stdout);
-    const b = JSON.parse(copse('fit', iris, '--target', 'species', '--trees', '30', '--seed', '3', '--workers', '3', '--json').stdout);
+    const a = JSON.parse(copse('fit', iris, '--target', 'species', '--trees', '30', '--seed', '3', '--workers', '1', '--json').stdout) as FitJson;
+    const b = JSON.parse(copse('fit', iris, '--target', 'species', '--trees', '30', '--seed', '3', '--workers', '3', '--json').stdout) as FitJson;
     assert.deepEqual(a.oob, b.oob);
     assert.deepEqual(a.importance, b.importance);
   });
 
   it('leaves out the identifier column of the demo data, with a reason', () => {
-    const r = JSON.parse(copse('fit', kites, '--target', 'outcome', '--trees', '20', '--json').stdout);
-    const id = r.dropped.find((d: { name: string }) => d.name === 'flight_id');
+    const r = JSON.parse(copse('fit', kites, '--target', 'outcome', '--trees', '20', '--json').stdout) as FitJson;
+    const id = r.dropped.find((d) => d.name === 'flight_id');
     assert.ok(id && /identifier|unique/i.test(id.reason), JSON.stringify(r.dropped));
     assert.ok(!r.features.includes('flight_id'));
   });
@@ -79,20 +80,21 @@ describe('copse command line', function () {
   it('votes shows every tree on the asked rows, consistent with predict', () => {
     const r = copse('votes', model, iris, '--rows', '1,51,150', '--json');
     assert.equal(r.code, 0, r.stderr);
-    const v = JSON.parse(r.stdout);
-    assert.deepEqual(v.rows.map((x: { row: number }) => x.row), [1, 51, 150]);
+    const v = JSON.parse(r.stdout) as VotesJson<ClassVoteRow>;
+    assert.deepEqual(v.rows.map((x) => x.row), [1, 51, 150]);
     for (const row of v.rows) {
       assert.equal(row.trees.length, 60);
       assert.equal(row.allTrees.trees, 60);
-      const counts = row.trees.reduce((m: Record<string, number>, c: string) => ((m[c] = (m[c] ?? 0) + 1), m), {});
+      const counts: Record<string, number> = {};
+      for (const c of row.trees) counts[c] = (counts[c] ?? 0) + 1;
       for (const [c, n] of Object.entries(row.allTrees.counts)) assert.equal(counts[c] ?? 0, n);
       // The top-level keys are all the trees' answer, as before out-of-bag answers; each group's agreement is
       // over its own trees.
       assert.deepEqual([row.prediction, row.counts, row.agreement], [row.allTrees.prediction, row.allTrees.counts, row.allTrees.agreement]);
-      for (const g of [row.allTrees, row.outOfBag].filter(Boolean)) assert.equal(g.agreement, g.counts[g.prediction] / g.trees);
+      for (const g of [row.allTrees, row.outOfBag].filter((g) => g !== undefined)) assert.equal(g.agreement, g.counts[g.prediction] / g.trees);
     }
     assert.equal(v.rows[0].prediction, 'setosa');
-    const p = JSON.parse(copse('predict', model, iris, '--json').stdout);
+    const p = JSON.parse(copse('predict', model, iris, '--json').stdout) as PredictJson;
     assert.equal(p.predictions[50].predicted_species, v.rows[1].prediction);
     for (const [j, row] of [1, 51, 150].entries()) {
       const oob = p.predictions[row - 1];

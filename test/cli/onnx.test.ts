@@ -6,6 +6,8 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import * as path from 'node:path';
+import type { SklearnPredictions } from '../core/onnx/helpers';
+import { numberIn, type ClassExplainedRow, type ClassVoteRow, type ExplainJson, type PredictJson, type VotesJson } from './output';
 
 const root = path.join(__dirname, '..', '..', '..');
 const iris = path.join(root, 'test/fixtures/open/iris.csv');
@@ -19,10 +21,10 @@ function copse(...args: string[]): { code: number; stdout: string; stderr: strin
   return { code: r.status ?? -1, stdout: r.stdout, stderr: r.stderr };
 }
 
-function json(...args: string[]): Record<string, any> {
+function json<T>(...args: string[]): T {
   const r = copse(...args, '--json');
   assert.equal(r.code, 0, r.stderr);
-  return JSON.parse(r.stdout);
+  return JSON.parse(r.stdout) as T;
 }
 
 describe('copse commands on ONNX files', function () {
@@ -30,7 +32,7 @@ describe('copse commands on ONNX files', function () {
   const dir = mkdtempSync(path.join(tmpdir(), 'copse-cli-onnx-'));
   const model = path.join(dir, 'iris.json');
   const onnx = path.join(dir, 'iris.onnx');
-  const reference = JSON.parse(readFileSync(path.join(fixtures, 'sklearn-predictions.json'), 'utf8'));
+  const reference = JSON.parse(readFileSync(path.join(fixtures, 'sklearn-predictions.json'), 'utf8')) as SklearnPredictions;
 
   before(() => {
     const fit = copse('fit', iris, '--target', 'species', '--trees', '30', '--seed', '3', '--save', model);
@@ -41,12 +43,12 @@ describe('copse commands on ONNX files', function () {
 
   it('votes and predictions from a Copse export equal those of the model file it came from', () => {
     const rows = ['--rows', '1,51,71,120,134'];
-    const a = json('votes', model, iris, ...rows);
-    const b = json('votes', onnx, iris, ...rows);
+    const a = json<VotesJson<ClassVoteRow>>('votes', model, iris, ...rows);
+    const b = json<VotesJson<ClassVoteRow>>('votes', onnx, iris, ...rows);
     assert.deepEqual(b.rows, a.rows);
     assert.match(b.warnings.join(' '), /Imported from an ONNX TreeEnsembleClassifier/);
-    const pa = json('predict', model, iris);
-    const pb = json('predict', onnx, iris);
+    const pa = json<PredictJson>('predict', model, iris);
+    const pb = json<PredictJson>('predict', onnx, iris);
     // The export rounds thresholds down to float32; iris's one-decimal values sit far from any threshold.
     assert.deepEqual(pb.predictions, pa.predictions);
   });
@@ -58,20 +60,20 @@ describe('copse commands on ONNX files', function () {
     const ambiguous = copse('predict', sklearnIris, iris, '--by-position');
     assert.equal(ambiguous.code, 2);
     assert.match(ambiguous.stderr, /reads 4 features by position, but .* has 5 columns .*--leave-out species/);
-    const out = json('predict', sklearnIris, iris, '--by-position', '--leave-out', 'species');
+    const out = json<PredictJson>('predict', sklearnIris, iris, '--by-position', '--leave-out', 'species');
     assert.equal(out.rows, 150);
     let largest = 0;
-    out.predictions.forEach((p: Record<string, number>, i: number) => {
-      reference.iris.classes.forEach((c: string, k: number) => (largest = Math.max(largest, Math.abs(p[`probability_${c}`] - reference.iris.proba[i][k]))));
+    out.predictions.forEach((p, i) => {
+      reference.iris.classes.forEach((c, k) => (largest = Math.max(largest, Math.abs(numberIn(p, `probability_${c}`) - reference.iris.proba[i][k]))));
     });
     // scikit-learn's probabilities, recorded by make_sklearn_onnx.py; predict prints six decimals.
     assert.ok(largest <= 5e-7 + 1e-12, `largest difference ${largest}`);
   });
 
   it('regression by position matches scikit-learn, and intervals are refused without the training sample', () => {
-    const out = json('predict', sklearnDiabetes, diabetes, '--by-position', '--leave-out', reference.diabetes.target);
+    const out = json<PredictJson>('predict', sklearnDiabetes, diabetes, '--by-position', '--leave-out', reference.diabetes.target);
     let largest = 0;
-    out.predictions.forEach((p: Record<string, number>, i: number) => (largest = Math.max(largest, Math.abs(Object.values(p)[1] - reference.diabetes.value[i]))));
+    out.predictions.forEach((p, i) => (largest = Math.max(largest, Math.abs(numberIn(p, Object.keys(p)[1]) - reference.diabetes.value[i]))));
     assert.ok(largest <= 1e-6, `largest difference ${largest}`);
     const r = copse('predict', sklearnDiabetes, diabetes, '--by-position', '--leave-out', reference.diabetes.target, '--interval', '0.9', '--training', diabetes);
     assert.equal(r.code, 2);
@@ -79,22 +81,22 @@ describe('copse commands on ONNX files', function () {
   });
 
   it('explains an imported forest with covers from the data, and the contributions still add up (Lundberg et al. 2020)', () => {
-    const out = json('explain', sklearnIris, iris, '--by-position', '--leave-out', 'species', '--rows', '71,120');
+    const out = json<ExplainJson<ClassExplainedRow>>('explain', sklearnIris, iris, '--by-position', '--leave-out', 'species', '--rows', '71,120');
     assert.match(out.warnings.join(' '), /weighed by the 150 rows/);
     // With covers counted on these rows, the average prediction is the mean of the forest over exactly them
     // (to the six decimals predict prints).
-    const all = json('predict', sklearnIris, iris, '--by-position', '--leave-out', 'species');
+    const all = json<PredictJson>('predict', sklearnIris, iris, '--by-position', '--leave-out', 'species');
     for (const c of reference.iris.classes) {
-      const mean = all.predictions.reduce((s: number, p: Record<string, number>) => s + p[`probability_${c}`], 0) / 150;
+      const mean = all.predictions.reduce((s, p) => s + numberIn(p, `probability_${c}`), 0) / 150;
       assert.ok(Math.abs(out.rows[0].base[c] - mean) < 5e-7, `base of ${c}: ${out.rows[0].base[c]} against ${mean}`);
     }
     for (const row of out.rows) {
       for (const c of reference.iris.classes) {
-        const sum = Object.values(row.contributions[c] as Record<string, number>).reduce((s, v) => s + v, 0);
+        const sum = Object.values(row.contributions[c]).reduce((s, v) => s + v, 0);
         assert.ok(Math.abs(row.base[c] + sum - row.probabilities[c]) < 1e-9, `row ${row.row} class ${c}`);
       }
       // Covers counted from the data: some feature moves a doubtful row's prediction, none is left at zero weight.
-      assert.ok(Object.values(row.contributions[row.prediction] as Record<string, number>).some((v) => Math.abs(v) > 0.01));
+      assert.ok(Object.values(row.contributions[row.prediction]).some((v) => Math.abs(v) > 0.01));
     }
   });
 

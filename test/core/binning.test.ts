@@ -13,7 +13,7 @@ describe('binning', () => {
     const v = Float64Array.from({ length: 100000 }, (_, i) => Math.sin(i) * 1000);
     const edges = numericEdges(v, false);
     assert.ok(edges.length <= 255 && edges.length > 240, `${edges.length} edges`);
-    const counts = new Array(edges.length + 1).fill(0);
+    const counts = new Array<number>(edges.length + 1).fill(0);
     for (const x of v) counts[binOf(edges, x)]++;
     assert.ok(Math.max(...counts) < 3 * (v.length / 256), `largest bin ${Math.max(...counts)}`);
   });

@@ -34,24 +34,29 @@ describe('model file', () => {
 
   it('names its format and version on its first line, then holds one tree per line', () => {
     const lines = text.trimEnd().split('\n');
-    const head = JSON.parse(lines[0]);
+    const head = JSON.parse(lines[0]) as { format: unknown; version: unknown; trees: unknown };
     assert.equal(head.format, 'copse-forest');
     assert.equal(head.version, 2);
     assert.equal(head.trees, 6);
     assert.equal(lines.length, 7);
-    assert.equal(JSON.parse(lines[1]).nodes, forest.trees[0].nodeCount);
+    assert.equal((JSON.parse(lines[1]) as { nodes: unknown }).nodes, forest.trees[0].nodeCount);
   });
 
+  /** A tree or the head as loose JSON, so the cases below can break them in ways the real types would not allow. */
+  type Loose = Record<string, unknown>;
+  type LooseTree = Record<string, unknown[]>;
+  type LooseDoc = Loose & { params: Loose; trees: LooseTree[] };
+
   /** The file as one document (version 1's layout): what the cases below edit. */
-  const whole = () => {
-    const [head, ...trees] = text.trimEnd().split('\n').map((l) => JSON.parse(l));
-    return { ...head, trees };
+  const whole = (): LooseDoc => {
+    const [head, ...trees] = text.trimEnd().split('\n').map((l) => JSON.parse(l) as Loose);
+    return { ...head, params: head.params as Loose, trees: trees as LooseTree[] };
   };
-  const lines = (doc: any) => {
+  const lines = (doc: LooseDoc) => {
     const { trees, ...head } = doc;
-    return [JSON.stringify({ ...head, trees: 6 }), ...trees.map((t: unknown) => JSON.stringify(t))].join('\n');
+    return [JSON.stringify({ ...head, trees: 6 }), ...trees.map((t) => JSON.stringify(t))].join('\n');
   };
-  const mutate = (f: (doc: any) => void) => {
+  const mutate = (f: (doc: LooseDoc) => void) => {
     const doc = whole();
     f(doc);
     return lines(doc);
@@ -69,7 +74,7 @@ describe('model file', () => {
     ['a child index out of range', () => mutate((d) => (d.trees[0].left[0] = 1e6)), /trees\[0\]\.left\[0\]/],
     ['a cycle (child before parent)', () => mutate((d) => {
       const t = d.trees[0];
-      const c = t.left[0];
+      const c = t.left[0] as number;
       t.left[c] = 0;
       t.right[c] = 0;
       t.feature[c] = 0;

@@ -83,6 +83,7 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
     await wb.waitForReady();
     [cliKite, cliLoaf] = await reference;
     cliForest = await loadModel(cliModel);
+    // eslint-disable-next-line no-console -- timings go to the run's log, never into an assertion.
     console.log(
       `      .vsix ${vsix.built ? `built (${vsix.built}) in ${vsix.buildMs} ms` : 'up to date'}; ` +
         `server up after ${wb.timings.serverMs} ms, workbench ready after ${wb.timings.readyMs} ms, before() ${Date.now() - started} ms`,
@@ -101,6 +102,7 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
   after(async function () {
     await wb?.close();
     // A record for the report, not an assertion: times depend on the machine.
+    // eslint-disable-next-line no-console -- timings go to the run's log, never into an assertion.
     for (const d of durations) console.log(`      ${d.ms.toString().padStart(7)} ms  ${d.state.padEnd(6)} ${d.title.slice(0, 90)}`);
     if (wb) fs.writeFileSync(path.join(wb.artifacts, 'durations.json'), JSON.stringify(durations, null, 2));
     fs.rmSync(temp, { recursive: true, force: true });
@@ -206,7 +208,7 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
 
     await wb!.activateTab('kite-flights.csv');
     for (const row of [2, 35]) {
-      const expected: CliVoteRow = cliVotes!.rows.find((r) => r.row === row)!;
+      const expected: CliVoteRow = cliVotes.rows.find((r) => r.row === row)!;
       const text = await wb!.hoverLine(expected.line, { timeoutMs: 20_000 });
       const hover = parseHoverVotes(text);
       assert.strictEqual(hover.row, row, text);
@@ -234,7 +236,7 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
       rows = await readDisagreement(panel);
     }
     for (const shown of rows) {
-      const expected: CliVoteRow = cliVotes!.rows.find((r) => r.row === shown.row)!;
+      const expected: CliVoteRow = cliVotes.rows.find((r) => r.row === shown.row)!;
       assert.deepStrictEqual(shown.votes, expected.trees, `row ${shown.row}: the panel's per-tree votes differ from copse votes`);
     }
     await panel.locator('[data-testid=disagreement]').scrollIntoViewIfNeeded();
@@ -292,12 +294,12 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
     assert.ok(painted > 0.9, `only ${(painted * 100).toFixed(0)}% of the restored map is painted`);
     // The new extension host draws the pair chosen before the reload, not its default (its own log says
     // which map it scored; the panel's saved picture alone would look the same).
-    const firstMap = async () => /Map (.+?) × (.+?) \(/.exec(copseLogOfCurrentHost(wb!))?.[1];
-    for (const deadline = Date.now() + 60_000; (await firstMap()) === undefined; ) {
+    const firstMap = () => /Map (.+?) × (.+?) \(/.exec(copseLogOfCurrentHost(wb!))?.[1];
+    for (const deadline = Date.now() + 60_000; firstMap() === undefined; ) {
       if (Date.now() > deadline) throw new Error('the reloaded extension host drew no map');
       await sleep(200);
     }
-    assert.strictEqual(await firstMap(), chosen, 'the reloaded host drew another pair than the one chosen');
+    assert.strictEqual(firstMap(), chosen, 'the reloaded host drew another pair than the one chosen');
 
     // The host has the forest back too (not only the panel's saved picture): the fitted file answers hovers.
     await wb!.activateTab('loaf-rise.csv');

@@ -30,6 +30,7 @@ describe('e2e harness smoke (bare workbench)', function () {
     fs.writeFileSync(path.join(folder, 'notes', 'README.md'), '# Plot survey\n\nHeights in metres.\n');
     wb = await launchWorkbench({ name: 'smoke', folder });
     await wb.waitForReady();
+    // eslint-disable-next-line no-console -- timings go to the run's log, never into an assertion.
     console.log(`      server up after ${wb.timings.serverMs} ms, workbench ready after ${wb.timings.readyMs} ms`);
   });
 
@@ -96,7 +97,7 @@ describe('e2e harness smoke (bare workbench)', function () {
     assert.strictEqual(note.severity, 'error');
     assert.ok(note.buttons.includes('Overwrite'), `buttons: ${JSON.stringify(note.buttons)}`);
     await wb!.clickNotificationButton(/newer/, 'Overwrite');
-    await waitFor(async () => fs.readFileSync(file, 'utf8') === edited, 'the editor to overwrite the file');
+    await waitFor(() => fs.readFileSync(file, 'utf8') === edited, 'the editor to overwrite the file');
   });
 
   it('reads and answers a modal dialog', async function () {
@@ -142,7 +143,7 @@ describe('e2e harness smoke (bare workbench)', function () {
   });
 });
 
-async function waitFor(condition: () => Promise<boolean>, what: string, timeoutMs = 10_000): Promise<void> {
+async function waitFor(condition: () => boolean | Promise<boolean>, what: string, timeoutMs = 10_000): Promise<void> {
   const deadline = Date.now() + timeoutMs;
   while (!(await condition())) {
     if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);

@@ -24,6 +24,7 @@ async function main(): Promise<number> {
   }
   // Imported here so a skipped run needs nothing beyond Node.
   const { downloadAndUnzipVSCode, runTests } = await import('@vscode/test-electron');
+  // eslint-disable-next-line @typescript-eslint/no-require-imports -- a plain CommonJS script with no types of its own.
   const { build } = require(path.join(root, 'scripts', 'build.js')) as { build: (o: { production: boolean }) => Promise<string[]> };
   await build({ production: false });
   const workspace = fs.mkdtempSync(path.join(os.tmpdir(), 'copse-host-'));

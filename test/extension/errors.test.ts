@@ -8,7 +8,7 @@ describe('extension error messages', () => {
     const e = await loadCsvText('a,b\n1,2\n3\n', {}, 'bad.csv').then(() => undefined, (x: unknown) => x);
     assert.ok(e instanceof Error && e.name === 'DataError');
     assert.ok(isUserError(e));
-    assert.equal(userMessage(e), (e as Error).message);
+    assert.equal(userMessage(e), e.message);
     assert.match(userMessage(e), /bad\.csv line 3/);
   });
 

@@ -258,7 +258,7 @@ describe('extension explanation requests', function () {
           runs.push({ signal });
           signal?.addEventListener('abort', () => reject(Object.assign(new Error('withdrawn'), { name: 'AbortError' })));
         }),
-      dispose: async () => undefined,
+      dispose: () => Promise.resolve(),
     };
     return { explainer, runs };
   }

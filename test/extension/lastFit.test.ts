@@ -5,7 +5,7 @@ import * as os from 'node:os';
 import * as path from 'node:path';
 import { inBagCounts } from '../../src/core/forest/bootstrap';
 import { Scorer } from '../../src/core/forest/scorer';
-import { fromBase64, loadLastFit, saveLastFit, toBase64 } from '../../src/extension/session/lastFit';
+import { fromBase64, loadLastFit, saveLastFit, toBase64, type LastFitMeta } from '../../src/extension/session/lastFit';
 import { restoreLastFit } from '../../src/extension/session/restore';
 import { choicesFrom } from '../../src/extension/fit/choices';
 import { readSettings } from '../../src/extension/settings';
@@ -63,12 +63,11 @@ describe('extension last fit', () => {
   it('comes back without out-of-bag votes, and says so, when the CSV changed since', async () => {
     const store2 = path.join(dir, 'store2');
     await fs.cp(path.join(dir, 'store'), store2, { recursive: true });
-    const meta = JSON.parse(await fs.readFile(path.join(store2, 'meta.json'), 'utf8'));
+    const meta = JSON.parse(await fs.readFile(path.join(store2, 'meta.json'), 'utf8')) as LastFitMeta;
     const changed = path.join(dir, 'wine-changed.csv');
     const text = await fs.readFile(csv, 'utf8');
     await fs.writeFile(changed, text.replace(/\n([^\n]+)\n$/, '\n$1\n$1\n'));
-    meta.csv.path = changed;
-    await fs.writeFile(path.join(store2, 'meta.json'), JSON.stringify(meta));
+    await fs.writeFile(path.join(store2, 'meta.json'), JSON.stringify({ ...meta, csv: { ...meta.csv, path: changed } }));
     const restored = (await restoreLastFit(store2, (forest) => new Scorer(forest)))!;
     try {
       assert.match(restored.note ?? '', /has changed since this forest was fitted/);
@@ -85,7 +84,7 @@ describe('extension last fit', () => {
     assert.equal(await loadLastFit(path.join(dir, 'nowhere')), undefined);
     const broken = path.join(dir, 'broken');
     await fs.cp(path.join(dir, 'store'), broken, { recursive: true });
-    const meta = JSON.parse(await fs.readFile(path.join(broken, 'meta.json'), 'utf8'));
+    const meta = JSON.parse(await fs.readFile(path.join(broken, 'meta.json'), 'utf8')) as LastFitMeta;
     await fs.writeFile(path.join(broken, 'meta.json'), JSON.stringify({ ...meta, trees: meta.trees - 1 }));
     assert.equal(await loadLastFit(broken), undefined, 'a model that is not the one the meta describes');
     await fs.writeFile(path.join(broken, 'meta.json'), JSON.stringify({ ...meta, version: 1 }));

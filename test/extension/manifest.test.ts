@@ -6,8 +6,19 @@ import { COMMANDS } from '../../src/extension/commands/host';
 import { PANEL_VIEW_TYPE_ID } from '../../src/extension/panel/viewType';
 
 const root = path.resolve(__dirname, '..', '..', '..');
-const pkg = JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8'));
-const contributed: Array<{ command: string; title: string; category: string }> = pkg.contributes.commands;
+/** The parts of package.json these checks read. */
+interface Manifest {
+  main: string;
+  engines: { vscode: string };
+  activationEvents: string[];
+  contributes: {
+    commands: Array<{ command: string; title: string; category: string }>;
+    menus: Record<string, Array<{ command: string; when: string }>>;
+    colors: Array<{ id: string }>;
+  };
+}
+const pkg = JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8')) as Manifest;
+const contributed = pkg.contributes.commands;
 
 describe('extension manifest', () => {
   it('contributes the README\'s commands, all in the Copse category', () => {
@@ -19,13 +30,13 @@ describe('extension manifest', () => {
 
   it('offers fit, open and predict on .csv and .tsv files in the explorer and the editor title', () => {
     for (const menu of ['explorer/context', 'editor/title']) {
-      const items: Array<{ command: string; when: string }> = pkg.contributes.menus[menu];
+      const items = pkg.contributes.menus[menu];
       for (const id of ['copse.fit', 'copse.openModel', 'copse.predictToFile']) {
         const item = items.find((i) => i.command === id);
         assert.ok(item, `${id} in ${menu}`);
-        const re = /resourceExtname =~ \/(.*)\/i/.exec(item!.when);
-        assert.ok(re, item!.when);
-        const ext = new RegExp(re![1], 'i');
+        const re = /resourceExtname =~ \/(.*)\/i/.exec(item.when);
+        assert.ok(re, item.when);
+        const ext = new RegExp(re[1], 'i');
         for (const ok of ['.csv', '.TSV']) assert.match(ok, ext);
         for (const no of ['.json', '.csvx', '.txt']) assert.doesNotMatch(no, ext);
       }
@@ -33,10 +44,10 @@ describe('extension manifest', () => {
   });
 
   it('hides the internal commands from the palette and every menu refers to a declared command', () => {
-    const palette: Array<{ command: string; when: string }> = pkg.contributes.menus.commandPalette;
+    const palette = pkg.contributes.menus.commandPalette;
     for (const id of [COMMANDS.revealRow, COMMANDS.showRowVotes]) assert.equal(palette.find((p) => p.command === id)?.when, 'false');
     const ids = new Set(contributed.map((c) => c.command));
-    for (const items of Object.values(pkg.contributes.menus) as Array<Array<{ command: string }>>) for (const i of items) assert.ok(ids.has(i.command), i.command);
+    for (const items of Object.values(pkg.contributes.menus)) for (const i of items) assert.ok(ids.has(i.command), i.command);
   });
 
   it('activates for a restored panel and keeps engines.vscode at ^1.100.0', () => {
@@ -46,7 +57,7 @@ describe('extension manifest', () => {
   });
 
   it('declares the colours the suspect decoration uses', () => {
-    const ids = (pkg.contributes.colors as Array<{ id: string }>).map((c) => c.id);
+    const ids = pkg.contributes.colors.map((c) => c.id);
     const src = fs.readFileSync(path.join(root, 'src', 'extension', 'editor', 'rowMarks.ts'), 'utf8');
     const used = [...src.matchAll(/ThemeColor\('([^']+)'\)/g)].map((m) => m[1]);
     assert.ok(used.length >= 1);

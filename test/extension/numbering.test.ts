@@ -39,9 +39,9 @@ describe('extension row numbering', () => {
     const { table, delimiter } = await loadCsvText(text, { target: 'y', sampleRows: 25, sampleSeed: 3 });
     assert.ok(table.rowNumber, 'core numbers kept rows');
     const scanned = RowNumbering.build(table.lineOfRow, delimiter, () => text);
-    for (let r = 0; r < table.rowCount; r++) assert.equal(scanned.dataRow(r), table.rowNumber![r], `table row ${r}`);
+    for (let r = 0; r < table.rowCount; r++) assert.equal(scanned.dataRow(r), table.rowNumber[r], `table row ${r}`);
     const fromCore = RowNumbering.build(table.lineOfRow, delimiter, () => assert.fail('no need to read the file'), table.rowNumber);
-    assert.equal(fromCore.dataRow(0), table.rowNumber![0]);
+    assert.equal(fromCore.dataRow(0), table.rowNumber[0]);
   });
 
   it('handles CRLF and lone-CR line ends', () => {

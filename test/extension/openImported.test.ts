@@ -180,7 +180,7 @@ describe('opening an ONNX tree ensemble in the editor', function () {
       const by = new Map(session.summary.importance.map((m) => [m.feature, m.permutation ?? NaN]));
       const signal = ['x1', 'x2', 'x4', 'x5'].map((f) => by.get(f)!);
       const noise = ['x6', 'x7', 'x8', 'x9', 'x10'].map((f) => by.get(f)!);
-      assert.ok(Math.min(...signal) > Math.max(...noise), `signal ${signal} noise ${noise}`);
+      assert.ok(Math.min(...signal) > Math.max(...noise), `signal ${signal.join(',')} noise ${noise.join(',')}`);
     });
   });
 });

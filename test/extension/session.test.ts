@@ -131,7 +131,7 @@ describe('extension session (iris, classification)', () => {
     assert.equal(map.heldAt.length, 2);
     assert.ok(map.points && map.points.x.length <= 60 && map.points.total === 150);
     const species = readFileSync(f.file, 'utf8').split('\n').slice(1);
-    map.points!.row.forEach((row, k) => assert.equal(schema.target.classes![map.points!.target[k]], species[row - 1].split(',')[4]));
+    map.points.row.forEach((row, k) => assert.equal(schema.target.classes![map.points!.target[k]], species[row - 1].split(',')[4]));
   });
 
   it('averages over rows for partial dependence (Friedman 2001, section 8.2): each cell is the mean prediction over the data with two features set', async () => {

@@ -5,8 +5,9 @@ import * as path from 'node:path';
 import { forestParamsFrom, readSettings, SETTING_DEFAULTS, type ConfigSource } from '../../src/extension/settings';
 
 const root = path.resolve(__dirname, '..', '..', '..');
-const pkg = JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8'));
-const properties: Record<string, { default: unknown; markdownDescription?: string; description?: string }> = pkg.contributes.configuration.properties;
+type Property = { default: unknown; markdownDescription?: string; description?: string };
+const pkg = JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8')) as { contributes: { configuration: { properties: Record<string, Property> } } };
+const properties = pkg.contributes.configuration.properties;
 
 function source(values: Record<string, unknown>): ConfigSource {
   return { get: <T>(key: string) => values[key] as T | undefined };

@@ -28,7 +28,7 @@ describe('extension summary', () => {
   it('builds a classification summary the protocol accepts and that survives JSON', () => {
     const s = iris.session.summary;
     assert.ok(isFitSummary(s));
-    assert.ok(isHostToPanel({ type: 'summary', fit: s.fit, summary: JSON.parse(JSON.stringify(s)) }));
+    assert.ok(isHostToPanel({ type: 'summary', fit: s.fit, summary: JSON.parse(JSON.stringify(s)) as unknown }));
     assert.ok(!isHostToPanel({ type: 'summary', fit: 'another fit', summary: s }), 'a summary names its own fit');
     assert.equal(s.trees, 30);
     assert.deepEqual(s.classes, ['setosa', 'versicolor', 'virginica']);

@@ -36,7 +36,7 @@ async function injected(p: PanelPage): Promise<unknown> {
 
 /** How many pixels of a canvas are exactly each of the given colours. */
 async function colourCounts(p: PanelPage, selector: string, colours: Rgb[]): Promise<number[]> {
-  return (await p.page.evaluate(`(() => {
+  return await p.page.evaluate<number[]>(`(() => {
     const c = document.querySelector(${JSON.stringify(selector)});
     const d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
     const want = ${JSON.stringify(colours)};
@@ -46,7 +46,7 @@ async function colourCounts(p: PanelPage, selector: string, colours: Rgb[]): Pro
       want.forEach((w, k) => { if (d[o] === w[0] && d[o + 1] === w[1] && d[o + 2] === w[2]) n[k]++; });
     }
     return n;
-  })()`)) as number[];
+  })()`);
 }
 
 const texts = (p: PanelPage, selector: string) => p.page.locator(selector).allTextContents();
@@ -85,13 +85,13 @@ describe('panel explanations (headless Chromium)', function () {
     assert.match((await p.page.textContent(fig)) ?? '', /Over 100 randomly drawn rows; summed over classes/);
     const [bars] = await colourCounts(p, `${fig} canvas`, [parseHex('#000000')]);
     assert.equal(bars, 0, 'bars are not black: they carry a theme colour with some transparency');
-    const painted = (await p.page.evaluate(`(() => {
+    const painted = await p.page.evaluate<number>(`(() => {
       const c = document.querySelector('${fig} canvas');
       const d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
       let n = 0;
       for (let o = 3; o < d.length; o += 4) if (d[o] > 0) n++;
       return n;
-    })()`)) as number;
+    })()`);
     assert.ok(painted > 500, `${painted} painted pixels`);
     assert.match((await p.page.textContent('[data-testid=importance-bias]')) ?? '', /Strobl, Boulesteix, Zeileis & Hothorn 2007/);
     assert.match((await p.page.textContent('[data-testid=importance-bias]')) ?? '', /many distinct values/);
@@ -112,13 +112,13 @@ describe('panel explanations (headless Chromium)', function () {
     assert.equal(await p.page.evaluate(`document.querySelector('[data-testid=dependence-feature]').value`), 'petal_len');
     assert.equal(await p.page.evaluate(`document.querySelector('[data-testid=dependence-class]').value`), '1');
     // The empty cell is tinted across the plot: some pixels of the canvas are neither background nor lines.
-    const painted = (await p.page.evaluate(`(() => {
+    const painted = await p.page.evaluate<number>(`(() => {
       const c = document.querySelector('[data-testid=dependence] canvas');
       const d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
       let n = 0;
       for (let o = 3; o < d.length; o += 4) if (d[o] > 0) n++;
       return n;
-    })()`)) as number;
+    })()`);
     assert.ok(painted > 2000, `${painted} painted pixels`);
   });
 

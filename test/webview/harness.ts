@@ -238,7 +238,7 @@ export class PanelPage {
   }
 
   async posted(): Promise<PanelToHost[]> {
-    return (await this.page.evaluate('window.__posted')) as PanelToHost[];
+    return await this.page.evaluate<PanelToHost[]>('window.__posted');
   }
 
   async clearPosted(): Promise<void> {

@@ -38,7 +38,7 @@ interface GridInfo {
 
 /** Reads region-map pixels at feature-space points, mapping them through the canvas's data-grid as the UI contract describes. */
 async function pixelsAt(p: PanelPage, points: Array<[number, number]>): Promise<{ grid: GridInfo; rgb: Rgb[] }> {
-  return (await p.page.evaluate(`(() => {
+  return await p.page.evaluate<{ grid: GridInfo; rgb: Rgb[] }>(`(() => {
     const c = document.querySelector('[data-testid=region-map]');
     const grid = JSON.parse(c.dataset.grid);
     const ctx = c.getContext('2d');
@@ -49,7 +49,7 @@ async function pixelsAt(p: PanelPage, points: Array<[number, number]>): Promise<
       return [d[0], d[1], d[2]];
     });
     return { grid, rgb };
-  })()`)) as { grid: GridInfo; rgb: Rgb[] };
+  })()`);
 }
 
 function distance(a: Rgb, b: Rgb): number {
@@ -177,9 +177,9 @@ describe('panel webview (headless Chromium)', function () {
     const strip = '[data-testid=disagreement] [data-row="71"] [data-testid=vote-strip]';
     assert.equal(await count(p, `${strip} .tree`), TREES);
     assert.equal(await count(p, `${strip} .tree.oob`), votes.outOfBag.length);
-    const read = (await p.page.evaluate(
+    const read = await p.page.evaluate<Array<[number, string]>>(
       `[...document.querySelectorAll('${strip} .tree')].map((e) => [Number(e.dataset.tree), getComputedStyle(e).backgroundColor])`,
-    )) as Array<[number, string]>;
+    );
     for (const [t, bg] of read) {
       const [r, g, b] = classColour(votes.votes[t]);
       assert.equal(bg, `rgb(${r}, ${g}, ${b})`, `tree ${t}`);
@@ -216,7 +216,10 @@ describe('panel webview (headless Chromium)', function () {
         if (a === b) continue;
         gap = Math.min(gap, Math.hypot((pts.x[a] - pts.x[b]) / 6, (pts.y[a] - pts.y[b]) / 2.5));
       }
-      if (gap > bestGap) (bestGap = gap), (pick = a);
+      if (gap > bestGap) {
+        bestGap = gap;
+        pick = a;
+      }
     }
     const cx = ((pts.x[pick] - 1) / 6) * box.width;
     const cy = (1 - pts.y[pick] / 2.5) * box.height;
@@ -296,10 +299,10 @@ describe('panel webview (headless Chromium)', function () {
     const before = await p.page.textContent('[data-testid=oob-score]');
     await p.send({ type: 'summary', summary: { nope: true } } as never, { type: 'regionMap', map: { ...classificationMap(), nx: 3 } } as never);
     assert.equal(await p.page.textContent('[data-testid=oob-score]'), before);
-    assert.equal(JSON.parse((await p.page.getAttribute('[data-testid=region-map]', 'data-grid')) ?? '{}').nx, 48);
+    assert.equal((JSON.parse((await p.page.getAttribute('[data-testid=region-map]', 'data-grid')) ?? '{}') as GridInfo).nx, 48);
     // A well-formed answer about another fit (a slow one from an earlier forest) is not drawn either.
     await p.send({ type: 'regionMap', map: classificationMap(12, 10), fit: 'an-earlier-fit' });
-    assert.equal(JSON.parse((await p.page.getAttribute('[data-testid=region-map]', 'data-grid')) ?? '{}').nx, 48);
+    assert.equal((JSON.parse((await p.page.getAttribute('[data-testid=region-map]', 'data-grid')) ?? '{}') as GridInfo).nx, 48);
   });
 
   it('names the class and its share of the vote for the cell under the pointer', async () => {

@@ -4,7 +4,7 @@ import * as assert from 'node:assert/strict';
 import { mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import type { Column, LevelColumn, NumericColumn, Table } from '../../../src/core/data/table';
+import type { Column, LevelColumn, Table } from '../../../src/core/data/table';
 import { loadCsv } from '../../../src/core/csv/load';
 import type { LoadOptions, LoadResult } from '../../../src/core/csv/types';
 
@@ -69,7 +69,7 @@ export function numeric(result: LoadResult | Table, name: string): number[] {
   const table = 'table' in result ? result.table : result;
   const c = column(table, name);
   assert.equal(c.kind, 'numeric', `${name} is ${c.kind}`);
-  return Array.from((c as NumericColumn).values);
+  return Array.from(c.values);
 }
 
 /** Cells of a level column as text, null for missing. */

@@ -19,7 +19,7 @@ function pandasColumns(file: string): Record<string, (number | string | null)[]>
   ].join('\n');
   const r = spawnSync(PYTHON, ['-c', script, file], { encoding: 'utf8', maxBuffer: 64 << 20 });
   assert.equal(r.status, 0, `pandas failed: ${r.stderr}`);
-  return JSON.parse(r.stdout);
+  return JSON.parse(r.stdout) as Record<string, (number | string | null)[]>;
 }
 
 function assertSameAsPandas(r: LoadResult, file: string): void {

@@ -43,7 +43,7 @@ describe('csv sampling', () => {
     const n = 50;
     const k = 10;
     const seeds = 400;
-    const hits = new Array(n).fill(0);
+    const hits = new Array<number>(n).fill(0);
     const text = indexed(n);
     for (let s = 0; s < seeds; s++) {
       const r = await loadCsvText(text, { sampleRows: k, sampleSeed: s, columnTypes: types });
@@ -105,6 +105,7 @@ describe('csv abort', () => {
     const total = 50;
     const source: ByteSource = {
       label: 'slow.csv',
+      // eslint-disable-next-line @typescript-eslint/require-await -- async so the loader gets the AsyncIterable it takes.
       read: async function* () {
         yield Buffer.from('a,b\n');
         for (let i = 0; i < total; i++) {

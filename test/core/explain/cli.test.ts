@@ -5,6 +5,7 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import * as path from 'node:path';
+import { numberIn, type ClassExplainedRow, type ExplainJson, type PredictJson, type ValueExplainedRow } from '../../cli/output';
 import { root } from './helpers/data';
 
 function copse(...args: string[]): { code: number; stdout: string; stderr: string } {
@@ -33,10 +34,10 @@ describe('copse explain', function () {
     // --all-trees: the training file's rows are otherwise explained over their out-of-bag trees (test/cli/explain-oob.test.ts).
     const r = copse('explain', irisModel, iris, '--rows', '1,77,150', '--json', '--all-trees');
     assert.equal(r.code, 0, r.stderr);
-    const out = JSON.parse(r.stdout);
+    const out = JSON.parse(r.stdout) as ExplainJson<ClassExplainedRow>;
     assert.equal(out.task, 'classification');
-    assert.deepEqual(out.rows.map((x: { row: number }) => x.row), [1, 77, 150]);
-    const scored = JSON.parse(copse('predict', irisModel, iris, '--json').stdout).predictions;
+    assert.deepEqual(out.rows.map((x) => x.row), [1, 77, 150]);
+    const scored = (JSON.parse(copse('predict', irisModel, iris, '--json').stdout) as PredictJson).predictions;
     for (const row of out.rows) {
       for (const k of ['row', 'prediction', 'base', 'contributions']) assert.ok(k in row, `missing ${k}`);
       assert.deepEqual(Object.keys(row.contributions), ['setosa', 'versicolor', 'virginica']);
@@ -44,22 +45,23 @@ describe('copse explain', function () {
         assert.deepEqual(Object.keys(row.contributions[c]), ['sepal_length', 'sepal_width', 'petal_length', 'petal_width']);
         assert.ok(Math.abs(row.base[c] + sum(row.contributions[c]) - row.probabilities[c]) < 1e-9);
       }
-      const same = scored.find((s: { row: number }) => s.row === row.row);
+      const same = scored.find((s) => s.row === row.row);
+      assert.ok(same, `predict has no row ${row.row}`);
       assert.equal(row.prediction, same.predicted_species);
       // predict prints six significant digits.
-      assert.ok(Math.abs(row.probabilities.virginica - same.probability_virginica) < 1e-5);
+      assert.ok(Math.abs(row.probabilities.virginica - numberIn(same, 'probability_virginica')) < 1e-5);
     }
   });
 
   it('--json for a regression gives one contribution per feature, adding up to the predicted value', () => {
-    const out = JSON.parse(copse('explain', diabetesModel, diabetes, '--rows', '3', '--json', '--all-trees').stdout);
+    const out = JSON.parse(copse('explain', diabetesModel, diabetes, '--rows', '3', '--json', '--all-trees').stdout) as ExplainJson<ValueExplainedRow>;
     const row = out.rows[0];
     assert.equal(typeof row.base, 'number');
     assert.equal(Object.keys(row.contributions).length, 10);
-    const scored = JSON.parse(copse('predict', diabetesModel, diabetes, '--json').stdout).predictions[2];
+    const scored = (JSON.parse(copse('predict', diabetesModel, diabetes, '--json').stdout) as PredictJson).predictions[2];
     assert.ok(Math.abs(row.base + sum(row.contributions) - row.prediction) < 1e-9);
     // predict prints six significant digits.
-    assert.ok(Math.abs(row.prediction - scored.predicted_progression) <= 1e-5 * row.prediction);
+    assert.ok(Math.abs(row.prediction - numberIn(scored, 'predicted_progression')) <= 1e-5 * row.prediction);
   });
 
   it('prints a readable table, largest contribution first, and folds the rest into one line with --top', () => {

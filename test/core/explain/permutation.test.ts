@@ -21,7 +21,7 @@ describe('permutation importance on given rows', function () {
     const y = findColumn(load.table, 'y')!;
     assert.equal(y.kind, 'numeric');
     const truth = Float64Array.from(y.kind === 'numeric' ? y.values : []);
-    const score = async (rows: Float64Array, n: number) => predictEncoded(forest, rows, n);
+    const score = (rows: Float64Array, n: number) => Promise.resolve(predictEncoded(forest, rows, n));
     const imp = await permutationOnRows({ x, rows: load.table.rowCount, features: 10, truth, task: 'regression', seed: 5, maxRows: 600 }, score);
     assert.equal(imp.rows, 600);
     const names = forest.schema.features.map((f) => f.name);
@@ -45,7 +45,7 @@ describe('permutation importance on given rows', function () {
     truth.fill(NaN, 0, 50);
     const imp = await permutationOnRows(
       { x, rows: load.table.rowCount, features: forest.schema.features.length, truth, task: 'classification', seed: 2 },
-      async (rows, n) => predictEncoded(forest, rows, n),
+      (rows, n) => Promise.resolve(predictEncoded(forest, rows, n)),
     );
     assert.equal(imp.rows, 100);
     // Truth is the forest's own answer, so nothing is wrong before shuffling.

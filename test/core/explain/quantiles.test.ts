@@ -23,7 +23,10 @@ import { fitForest, type FitReport } from '../../../src/core/forest/fit';
 import { encodeTable, leafOf, levelCounts, predictEncoded } from '../../../src/core/forest/predict';
 import { mixed, openDataset, root, subsetTable } from './helpers/data';
 
-const ranger = JSON.parse(readFileSync(path.join(root, 'test/core/explain/reference/ranger-quantiles.json'), 'utf8'));
+/** ranger's quantile-forest coverage per dataset and interval level (the level as text, "0.8"), from ranger_quantiles.R. */
+const ranger = JSON.parse(readFileSync(path.join(root, 'test/core/explain/reference/ranger-quantiles.json'), 'utf8')) as {
+  datasets: Record<string, Record<string, { coverageMean: number }>>;
+};
 
 function encodedRows(report: FitReport, table: Table, rows: ArrayLike<number>): Float64Array {
   const p = report.forest.schema.features.length;

@@ -9,7 +9,7 @@ export function tableFrom(cells: Cells): Table {
   const columns: Column[] = names.map((name) => {
     const v = cells[name];
     if (v.every((x) => x === null || typeof x === 'number')) {
-      return { name, kind: 'numeric', values: Float64Array.from(v, (x) => (x === null ? NaN : (x as number))) };
+      return { name, kind: 'numeric', values: Float64Array.from(v, (x) => (x === null ? NaN : x)) };
     }
     const levels: string[] = [];
     const index = new Map<string, number>();

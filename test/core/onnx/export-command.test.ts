@@ -27,7 +27,7 @@ describe('copse export', function () {
     const out = path.join(dir, 'kites.onnx');
     const r = copse('export', model, out, '--json');
     assert.equal(r.code, 0, r.stderr);
-    const summary = JSON.parse(r.stdout);
+    const summary = JSON.parse(r.stdout) as { operator: string; trees: number; outputs: string[]; input: { name: string; features: string[] }; bytes: number };
     assert.equal(summary.operator, 'TreeEnsembleClassifier');
     assert.equal(summary.trees, 8);
     assert.deepEqual(summary.outputs, ['label', 'probabilities']);

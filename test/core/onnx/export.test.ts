@@ -12,7 +12,7 @@ import { fitForest } from '../../../src/core/forest/fit';
 import type { Forest } from '../../../src/core/forest/forest';
 import { defaultParams } from '../../../src/core/forest/params';
 import { encodeTable, predictEncoded } from '../../../src/core/forest/predict';
-import type { FeatureInfo } from '../../../src/core/model/schema';
+import type { FeatureInfo, Schema } from '../../../src/core/model/schema';
 import { ModelError } from '../../../src/core/model/validate';
 import { exportOnnx, minimumOnnxBytes } from '../../../src/core/onnx/export';
 import { META } from '../../../src/core/onnx/metadata';
@@ -221,7 +221,7 @@ describe('ONNX export: thresholds and level sets', function () {
     const props = new Map((model.metadata_props ?? []).map((e) => [e.key, e.value]));
     for (const key of Object.values(META)) assert.ok(props.has(key), `metadata ${key}`);
     assert.match(props.get(META.levelSplits)!, /BRANCH_EQ chains/);
-    assert.deepEqual(JSON.parse(props.get(META.schema)!).features.map((f: FeatureInfo) => f.name), forest.schema.features.map((f) => f.name));
+    assert.deepEqual((JSON.parse(props.get(META.schema)!) as Schema).features.map((f) => f.name), forest.schema.features.map((f) => f.name));
     assert.deepEqual(model.graph!.output!.map((o) => [o.name, o.type!.tensor_type!.elem_type]), [['label', 8], ['probabilities', 1]]);
     assert.ok(!model.graph!.node!.some((n) => n.op_type === 'ZipMap'));
     const ml = model.opset_import!.find((o) => o.domain === 'ai.onnx.ml')!;

@@ -7,6 +7,20 @@ import { ATTR, DTYPE, encodeModel, type OnnxAttribute, type OnnxModel, type Onnx
 
 const utf8 = new TextEncoder();
 
+/** What make_sklearn_onnx.py recorded from scikit-learn beside its two ONNX files (sklearn-predictions.json). */
+export interface SklearnDataset {
+  file: string;
+  target: string;
+  classes?: string[];
+  /** Row by row, one probability per class. */
+  proba?: number[][];
+  value?: number[];
+}
+export interface SklearnPredictions {
+  iris: SklearnDataset & { classes: string[]; proba: number[][] };
+  diabetes: SklearnDataset & { value: number[] };
+}
+
 export type AttrValue = number | string | { ints: number[] } | { floats: number[] } | { strings: string[] } | { tensor: OnnxTensor };
 
 export function attr(name: string, v: AttrValue): OnnxAttribute {

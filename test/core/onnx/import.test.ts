@@ -18,7 +18,7 @@ import type { FlatTree } from '../../../src/core/tree/tree';
 import { importOnnx, readOnnx } from '../../../src/core/onnx/import';
 import { columnsInOrder, loadOnnxFile, nameFeatures } from '../../../src/core/onnx/load';
 import { decodeModel, DTYPE, encodeModel, type OnnxModel } from '../../../src/core/onnx/proto';
-import { blankOut, bytesOf, ensembleModel, floatTensor, maxDiff, runOnnx, type AttrValue } from './helpers';
+import { blankOut, bytesOf, ensembleModel, floatTensor, maxDiff, runOnnx, type AttrValue, type SklearnDataset, type SklearnPredictions } from './helpers';
 
 const root = path.join(__dirname, '..', '..', '..', '..');
 const fixtures = path.join(root, 'test/core/onnx/fixtures');
@@ -77,7 +77,7 @@ describe('ONNX import: round trip of a Copse export', function () {
       const back = readOnnx(bytes, 'm.onnx');
       assert.equal(back.names, 'metadata');
       assert.equal(back.trainingKnown, true);
-      const json = (v: unknown) => JSON.parse(JSON.stringify(v));
+      const json = (v: unknown): unknown => JSON.parse(JSON.stringify(v));
       assert.deepEqual(json(back.forest.schema), json(forest.schema));
       assert.deepEqual(back.forest.params, forest.params);
       assert.deepEqual(json(back.forest.training), json(forest.training));
@@ -103,7 +103,7 @@ describe('ONNX import: round trip of a Copse export', function () {
 
 describe('ONNX import: forests written outside Copse (scikit-learn 1.2.1 through onnx.helper)', function () {
   this.timeout(60000);
-  const reference = JSON.parse(readFileSync(path.join(fixtures, 'sklearn-predictions.json'), 'utf8'));
+  const reference = JSON.parse(readFileSync(path.join(fixtures, 'sklearn-predictions.json'), 'utf8')) as SklearnPredictions;
 
   for (const [name, op, opset] of [['iris', 'TreeEnsembleClassifier', 3], ['diabetes', 'TreeEnsemble', 5]] as const) {
     it(`${name}: ${op} (ai.onnx.ml ${opset}) scores the CSV as scikit-learn and onnxruntime do, columns taken in order`, async () => {
@@ -116,7 +116,7 @@ describe('ONNX import: forests written outside Copse (scikit-learn 1.2.1 through
       const forest = imported.forest;
       assert.equal(forest.training.rows, 0);
       assert.deepEqual(forest.schema.features.map((f) => f.name), forest.schema.features.map((_, j) => `f${j}`));
-      const ref = reference[name];
+      const ref: SklearnDataset = reference[name];
       const csv = path.join(root, ref.file);
       // Without names the columns cannot be matched: the predictor says which it misses.
       const plain = await loadCsv(csv, { target: ref.target });
@@ -129,10 +129,10 @@ describe('ONNX import: forests written outside Copse (scikit-learn 1.2.1 through
       const out = await runOnnx(bytes, x, n, named.schema.features.length, { input: 'input' });
       if (name === 'iris') {
         assert.deepEqual(named.schema.target.classes, ref.classes);
-        assert.ok(maxDiff(pred.proba!, ref.proba.flat()) <= 1e-9);
+        assert.ok(maxDiff(pred.proba!, ref.proba!.flat()) <= 1e-9);
         assert.ok(maxDiff(pred.proba!, out.probabilities as Float32Array) <= 1e-6);
       } else {
-        assert.ok(maxDiff(pred.value!, ref.value) <= 1e-6);
+        assert.ok(maxDiff(pred.value!, ref.value!) <= 1e-6);
         assert.ok(maxDiff(pred.value!, out.value as Float32Array) <= 1e-3);
       }
     });

@@ -9,6 +9,7 @@ const dir = path.join(root, 'src/core/onnx');
 
 describe('ONNX schema copy and descriptor', () => {
   it('keeps the descriptor in step with onnx.proto (run src/core/onnx/proto/make-descriptor.js after changing it)', () => {
+    // eslint-disable-next-line @typescript-eslint/no-require-imports -- a plain CommonJS script with no types of its own.
     const { descriptorSource } = require(path.join(dir, 'proto/make-descriptor.js')) as { descriptorSource: () => string };
     assert.equal(readFileSync(path.join(dir, 'onnx-descriptor.ts'), 'utf8'), descriptorSource());
   });

@@ -31,7 +31,7 @@ export interface PackagedVsix {
  */
 export function packagedVsix(logFile = path.join(artifactsRoot(), 'npm-run-package.log')): PackagedVsix {
   const root = repoRoot();
-  const version = String(JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8')).version);
+  const version = String((JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8')) as { version: unknown }).version);
   const given = process.env.COPSE_E2E_VSIX;
   const source = given ? path.resolve(given) : path.join(root, `copse-${version}.vsix`);
   let built: false | string = false;

@@ -27,7 +27,7 @@ export function repoRoot(): string {
   let dir = __dirname;
   for (;;) {
     const manifest = path.join(dir, 'package.json');
-    if (fs.existsSync(manifest) && JSON.parse(fs.readFileSync(manifest, 'utf8')).name === 'copse') return dir;
+    if (fs.existsSync(manifest) && (JSON.parse(fs.readFileSync(manifest, 'utf8')) as { name?: unknown }).name === 'copse') return dir;
     const parent = path.dirname(dir);
     if (parent === dir) throw new Error(`no copse package.json above ${__dirname}`);
     dir = parent;

@@ -10,7 +10,7 @@ import { repoRoot } from './paths';
  */
 export function packExtension(folder: string, outDir: string): string {
   const vsce = path.join(repoRoot(), 'node_modules', '@vscode', 'vsce', 'vsce');
-  const manifest = JSON.parse(fs.readFileSync(path.join(folder, 'package.json'), 'utf8'));
+  const manifest = JSON.parse(fs.readFileSync(path.join(folder, 'package.json'), 'utf8')) as { publisher: string; name: string; version: string };
   const out = path.join(outDir, `${manifest.publisher}.${manifest.name}-${manifest.version}.vsix`);
   const result = spawnSync(
     process.execPath,

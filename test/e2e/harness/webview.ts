@@ -45,7 +45,7 @@ export function webview(page: Page, query: WebviewQuery = {}): FrameLocator {
 export async function webviewFrame(page: Page, query: WebviewQuery = {}, timeoutMs = 30_000): Promise<Frame> {
   const host = hostFrames(page, query).nth(query.index ?? 0);
   await host.waitFor({ state: 'visible', timeout: timeoutMs });
-  const hostFrame = await (await host.elementHandle())!.contentFrame();
+  const hostFrame = await (await host.elementHandle()).contentFrame();
   if (!hostFrame) throw new Error('webview host iframe has no frame');
   const inner = await hostFrame.waitForSelector('iframe#active-frame', { state: 'attached', timeout: timeoutMs });
   const content = await inner.contentFrame();

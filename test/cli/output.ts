@@ -1,0 +1,101 @@
+// What the command line's --json output holds, as the tests read it: written here, apart from the code that
+// prints it, so a renamed or dropped key shows up as a failing test rather than following the code silently.
+import * as assert from 'node:assert/strict';
+
+export interface FitJson {
+  task: 'classification' | 'regression';
+  rows: number;
+  trees: number;
+  features: string[];
+  dropped: Array<{ name: string; reason: string }>;
+  oob: { rows: number; accuracy?: number; r2?: number };
+  test?: { rows: number; accuracy?: number; r2?: number };
+  importance: { impurity: Record<string, number>; permutation: Record<string, number> };
+  seconds: { load: number; fit: number };
+}
+
+/** One scored row: its data row number, then one entry per added column (text for a predicted class). */
+export type PredictedRow = Record<string, number | string>;
+
+export interface PredictJson {
+  rows: number;
+  columns: string[];
+  warnings: string[];
+  predictions: PredictedRow[];
+}
+
+/** One group of trees' answer: all of them, or those that never drew the row. */
+export interface ClassVoteGroup {
+  prediction: string;
+  probabilities: Record<string, number>;
+  counts: Record<string, number>;
+  agreement: number;
+  /** How many trees are in the group. */
+  trees: number;
+}
+
+export interface ValueVoteGroup {
+  prediction: number;
+  spread: number;
+  trees: number;
+}
+
+interface VoteRow {
+  row: number;
+  line: number;
+  role: string;
+  /** Which answer to read first. */
+  lead: 'out-of-bag' | 'all-trees';
+  margin?: number;
+}
+
+/** The top-level answer keys are all the trees' answer (allTrees); outOfBag is there for a training row. */
+export interface ClassVoteRow extends VoteRow, Omit<ClassVoteGroup, 'trees'> {
+  outOfBag?: ClassVoteGroup;
+  allTrees: ClassVoteGroup;
+  /** Every tree's vote, in tree order. */
+  trees: string[];
+}
+
+export interface ValueVoteRow extends VoteRow, Omit<ValueVoteGroup, 'trees'> {
+  outOfBag?: ValueVoteGroup;
+  allTrees: ValueVoteGroup;
+  trees: number[];
+}
+
+export interface VotesJson<Row = ClassVoteRow | ValueVoteRow> {
+  task: 'classification' | 'regression';
+  trees: number;
+  warnings: string[];
+  rows: Row[];
+}
+
+export interface ClassExplainedRow {
+  row: number;
+  prediction: string;
+  probabilities: Record<string, number>;
+  base: Record<string, number>;
+  /** class, then feature. */
+  contributions: Record<string, Record<string, number>>;
+}
+
+export interface ValueExplainedRow {
+  row: number;
+  prediction: number;
+  base: number;
+  contributions: Record<string, number>;
+}
+
+export interface ExplainJson<Row> {
+  task: 'classification' | 'regression';
+  features: string[];
+  warnings: string[];
+  rows: Row[];
+}
+
+/** A cell of a scored row that must be a number (a probability or a predicted value). */
+export function numberIn(row: PredictedRow, column: string): number {
+  const v = row[column];
+  assert.equal(typeof v, 'number', `${column} should be a number, not ${JSON.stringify(v)}`);
+  return v as number;
+}
