@@ -2,7 +2,7 @@
 // ONNX tree ensemble, with a foreign model's positional features named by the data file's columns on request.
 import { readHeader } from '../core/csv/header';
 import type { Forest } from '../core/forest/forest';
-import { nameByPosition, openModelFile, targetColumn, type ModelOrigin } from '../core/model/open';
+import { nameByPosition, openModelFile, targetColumn, type ModelOrigin } from '../core/open/open';
 import { list, flag, UsageError, type Options, type Parsed } from './args';
 import type { HelpEntry } from './help';
 

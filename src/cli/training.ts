@@ -10,7 +10,7 @@ import type { Forest } from '../core/forest/forest';
 import { trainingRowsIn } from '../core/forest/membership';
 import type { Membership } from '../core/forest/predict';
 import { membershipOf, type RowRole } from '../core/forest/row-votes';
-import { knowsTraining } from '../core/model/open';
+import { knowsTraining } from '../core/open/open';
 
 export interface TrainingView {
   /** Which table rows the forest trained on, and how often each tree drew them. */

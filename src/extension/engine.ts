@@ -9,8 +9,8 @@ export { DataError } from '../core/csv/types';
 export { loadCsvOffThread as loadCsv, loadCsvTextOffThread as loadCsvText } from '../core/csv/load-off-thread';
 export type { ForestParams, Task, FeaturesPerSplit } from '../core/forest/params';
 export { defaultParams, resolveFeaturesPerSplit } from '../core/forest/params';
-export type { Schema, FeatureInfo, TargetInfo } from '../core/model/schema';
-export { outputCount } from '../core/model/schema';
+export type { Schema, FeatureInfo, TargetInfo } from '../core/base/schema';
+export { outputCount } from '../core/base/schema';
 export type { Forest } from '../core/forest/forest';
 export type { FitOptions, FitReport, RowResults } from '../core/forest/fit';
 export type { Scores, ClassificationScores, RegressionScores } from '../core/metrics/scores';
@@ -40,7 +40,7 @@ export {
 } from '../core/explain/index';
 export { shuffle, stream } from '../core/forest/rng';
 // Opening models from either file kind, and what an imported forest needs before it can be explained.
-export { openModelFile, isOnnxFile, knowsTraining, nameByPosition, ModelError, type ModelOrigin, type OpenedModel } from '../core/model/open';
+export { openModelFile, isOnnxFile, knowsTraining, nameByPosition, ModelError, type ModelOrigin, type OpenedModel } from '../core/open/open';
 export { saveOnnxFile } from '../core/onnx/save';
 export { writeFileAtomic } from '../core/atomic';
 export { readHeader } from '../core/csv/header';

@@ -8,7 +8,7 @@ import { withCoverFrom } from '../../src/core/forest/cover';
 import { fitForest } from '../../src/core/forest/fit';
 import { encodeTable } from '../../src/core/forest/predict';
 import { parseModel, saveModel, serializeModel } from '../../src/core/model/file';
-import { isOnnxFile, knowsTraining, nameByPosition, openModelFile } from '../../src/core/model/open';
+import { isOnnxFile, knowsTraining, nameByPosition, openModelFile } from '../../src/core/open/open';
 import { exportOnnx } from '../../src/core/onnx/export';
 import { threeClass } from './helpers/synthetic';
 

@@ -1,7 +1,7 @@
 // Grid construction for decision-region maps, checked on hand-sized inputs.
 import * as assert from 'node:assert/strict';
 import { GridAccumulator, gridBatches, planAxis, rankFeatures, topPairs } from '../../src/core/explain/region-grid';
-import type { FeatureInfo } from '../../src/core/model/schema';
+import type { FeatureInfo } from '../../src/core/base/schema';
 
 const num = (name: string): FeatureInfo => ({ name, kind: 'numeric', hadMissing: false, reference: 0, edges: [] });
 

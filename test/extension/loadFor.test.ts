@@ -2,7 +2,7 @@
 import * as assert from 'node:assert/strict';
 import { loadCsvText } from '../../src/core/csv/load';
 import { encodeTable } from '../../src/core/forest/predict';
-import type { Schema } from '../../src/core/model/schema';
+import type { Schema } from '../../src/core/base/schema';
 import { columnTypesFor, loadForForest } from '../../src/extension/session/loadFor';
 
 const schema: Schema = {

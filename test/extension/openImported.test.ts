@@ -12,7 +12,7 @@ import type { Forest } from '../../src/core/forest/forest';
 import { encodeTable, predictTable } from '../../src/core/forest/predict';
 import { Scorer } from '../../src/core/forest/scorer';
 import { saveModel } from '../../src/core/model/file';
-import { ModelError, openModelFile } from '../../src/core/model/open';
+import { ModelError, openModelFile } from '../../src/core/open/open';
 import { exportOnnx } from '../../src/core/onnx/export';
 import { decodeModel, encodeModel } from '../../src/core/onnx/proto';
 import { forestForTable, nameByHeader, openedSession, permutationOnTable, permutationSkipped, positionalNaming } from '../../src/extension/session/imported';

@@ -5,7 +5,7 @@ import { argmaxAt } from '../../core/metrics/scores';
 import { withCoverFrom } from '../../core/forest/cover';
 import type { Forest } from '../../core/forest/forest';
 import { checkedDraws } from '../../core/forest/checked-draws';
-import { knowsTraining } from '../../core/model/open';
+import { knowsTraining } from '../../core/open/open';
 import { flag, parse, text, UsageError, wholeNumber, type Options } from '../args';
 import { MODEL_HELP, MODEL_OPTIONS, openForData } from '../model';
 import { chooseRows, wantedRows } from '../rows';

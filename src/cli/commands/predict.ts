@@ -8,7 +8,7 @@ import { loadForScoring, predictionColumns, writePredictions, type AddedColumns,
 import { classificationScores, regressionScores } from '../../core/metrics/scores';
 import { dataRowOf, scoresSummary } from '../../core/summary/fit';
 import type { ScoresSummary } from '../../core/summary/types';
-import { knowsTraining } from '../../core/model/open';
+import { knowsTraining } from '../../core/open/open';
 import { flag, fraction, parse, text, UsageError, type Options } from '../args';
 import { DEBUG_ENTRY, optionList } from '../help';
 import { MODEL_ENTRIES, MODEL_OPTIONS, openForData } from '../model';

@@ -1,8 +1,8 @@
 // Features are binned once into bytes; every split is then a scan over at most 256 bins (the histogram idea
 // of LightGBM). Numeric edges sit between distinct training values, so a raw value and its bin always fall on
 // the same side of a threshold.
+import type { FeatureInfo } from '../base/schema';
 import type { Column, LevelColumn, NumericColumn } from './table';
-import type { FeatureInfo } from '../model/schema';
 
 export const MAX_BINS = 256;
 

@@ -1,6 +1,7 @@
 // The typed, column-oriented form every CSV becomes. Nothing downstream sees text.
+import type { ColumnKind } from '../base/schema';
 
-export type ColumnKind = 'numeric' | 'categorical' | 'boolean';
+export type { ColumnKind };
 
 export interface NumericColumn {
   readonly name: string;

@@ -3,9 +3,9 @@
 // averaged over the forest's trees, or over a chosen set of them such as the trees that never drew a training
 // row. Contributions plus the base value of the same trees add up to those trees' mean output for the row
 // (local accuracy): for all trees the forest's prediction, for a row's out-of-bag trees its out-of-bag one.
+import { outputCount } from '../base/schema';
 import type { Forest } from '../forest/forest';
 import { levelCounts } from '../forest/predict';
-import { outputCount } from '../model/schema';
 import { treeDepth } from '../tree/tree';
 import { childShares, expectedOutput } from './routing';
 import { ShapleyPath, type PreparedTree } from './shapley-path';

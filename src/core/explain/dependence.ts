@@ -5,11 +5,11 @@
 // Statistics 24(1)). The values are exactly those of scoring every row with the feature set to every grid
 // value; instead of walking each (row, grid value) pair, a row walks each tree once and splits its set of
 // grid points only at nodes that test the varying feature. (Volumes and pages cited from memory.)
+import { outputCount } from '../base/schema';
 import type { ColumnKind } from '../data/table';
 import type { Forest } from '../forest/forest';
 import { levelCounts } from '../forest/predict';
 import { stream } from '../forest/rng';
-import { outputCount } from '../model/schema';
 import type { FlatTree } from '../tree/tree';
 import { goesLeft } from './routing';
 

@@ -6,7 +6,7 @@
 // from core's partialDependence2D instead, which never scores the grid row by row; both end in
 // cellsFromAverages, so the two kinds of map read their cells the same way.
 
-import type { FeatureInfo } from '../model/schema';
+import type { FeatureInfo } from '../base/schema';
 import { cellCentre, type MapAxis, type RegionCells } from './grid-axis';
 
 /** More levels than this cannot be drawn one cell per level. */

@@ -4,8 +4,8 @@
 // for files written before it was kept, the holdout's size) could still make the same file give other rows.
 // So the draws are checked against the trees themselves: the in-bag rows must add up to every leaf's cover,
 // which a wrong mapping practically never does.
+import { outputCount } from '../base/schema';
 import { findColumn, type Table } from '../data/table';
-import { outputCount } from '../model/schema';
 import { outOfBagTrees } from './bootstrap';
 import { rowWeights } from './fit';
 import type { Forest } from './forest';

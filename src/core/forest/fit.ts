@@ -1,14 +1,13 @@
 // Fits a forest on a table: prepares the binned training data, grows the trees in worker threads, and folds
 // their results in tree order into out-of-bag predictions, the error curve, importances and margins.
-import type { Doubt } from './doubtful';
+import type { Schema } from '../base/schema';
 import { binColumns, describeFeatures } from '../data/binning';
 import { findColumn, type DroppedColumn, type Table } from '../data/table';
 import { classificationScores, regressionScores, type Scores } from '../metrics/scores';
-import type { ModelHead } from '../model/file';
-import type { Schema } from '../model/schema';
 import type { TargetData } from '../tree/builder';
 import { sampleSize } from './bootstrap';
-import type { Forest } from './forest';
+import type { Doubt } from './doubtful';
+import type { Forest, ForestHead } from './forest';
 import type { FlatTree } from '../tree/tree';
 import { DEFAULT_PERMUTATION_ROWS, type TrainingJob } from './grow-task';
 import { OobFold, type RowResults } from './oob';
@@ -37,7 +36,7 @@ export interface FitOptions {
   readonly fingerprint?: string;
   readonly dropped?: readonly DroppedColumn[];
   /** Each tree as it is grown, in tree order: a caller can write the model out without holding every tree. */
-  readonly onTree?: (tree: FlatTree, index: number, head: ModelHead) => void;
+  readonly onTree?: (tree: FlatTree, index: number, head: ForestHead) => void;
   /**
    * false: the report's forest has no trees (they went to onTree). Full-depth trees on millions of rows take
    * gigabytes; a fit that only reports out-of-bag results, or streams its model to a file, need not keep them.
@@ -123,7 +122,7 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
     permutationRows: DEFAULT_PERMUTATION_ROWS,
   };
 
-  const head: ModelHead = { schema, params, training: { rows: n, fingerprint: options.fingerprint ?? '', dropped: [...(options.dropped ?? [])], heldOut: holdout?.length ?? 0 } };
+  const head: ForestHead = { schema, params, training: { rows: n, fingerprint: options.fingerprint ?? '', dropped: [...(options.dropped ?? [])], heldOut: holdout?.length ?? 0 } };
   const keepTrees = options.keepTrees ?? true;
   if (!keepTrees && (holdout || options.test)) throw new RangeError('Scoring a holdout or test set needs the trees kept.');
   const fold = new OobFold(task, n, K, params.trees, trainY, infos.length, options.keepInBag);

@@ -1,5 +1,5 @@
+import type { Schema } from '../base/schema';
 import type { DroppedColumn } from '../data/table';
-import type { Schema } from '../model/schema';
 import type { FlatTree } from '../tree/tree';
 import type { ForestParams } from './params';
 
@@ -20,3 +20,6 @@ export interface Forest {
   readonly trees: readonly FlatTree[];
   readonly training: TrainingInfo;
 }
+
+/** Everything of a forest but its trees: known before the first tree is grown, and the model file's first line. */
+export type ForestHead = Omit<Forest, 'trees'>;

@@ -1,7 +1,9 @@
 // Training parameters, in our own names. Defaults follow common practice for random forests (Breiman 2001).
 
-export type Task = 'classification' | 'regression';
-export type Criterion = 'gini' | 'entropy' | 'squared-error';
+import type { Criterion, Task } from '../base/task';
+
+// Defined in base/task.ts (the tree grower needs them too); named here as well for this module's callers.
+export type { Criterion, Task };
 /** 'sqrt' | 'third' | 'log2' | 'all', an integer count >= 1, or a fraction in (0, 1). */
 export type FeaturesPerSplit = 'sqrt' | 'third' | 'log2' | 'all' | number;
 

@@ -1,9 +1,9 @@
 // Scoring raw rows. Rows are first encoded into the model's feature space: one float per feature, the value
 // for numeric columns and the level's code for categorical ones, NaN for missing or unseen.
+import { outputCount, type Schema } from '../base/schema';
 import { levelIndex } from '../data/binning';
 import { cellText, type Column, type Table } from '../data/table';
 import { argmaxAt } from '../metrics/scores';
-import { outputCount, type Schema } from '../model/schema';
 import type { FlatTree } from '../tree/tree';
 import type { Forest } from './forest';
 

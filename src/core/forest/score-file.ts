@@ -3,12 +3,12 @@ import { parse } from 'csv-parse';
 import { createReadStream, createWriteStream, promises as fs } from 'node:fs';
 import * as path from 'node:path';
 import { tempBeside } from '../atomic';
+import type { Schema } from '../base/schema';
 import { loadCsv } from '../csv/load';
 import type { LoadResult } from '../csv/types';
 import { parserOptions } from '../csv/record-parser';
 import { csvField } from '../csv/write';
 import type { ColumnKind } from '../data/table';
-import type { Schema } from '../model/schema';
 import type { Forest } from './forest';
 import type { Prediction } from './predict';
 

@@ -6,7 +6,7 @@ import { closeSync, createReadStream, openSync, promises as fs, rmSync, writeSyn
 import { createInterface } from 'node:readline';
 import { tempBeside } from '../atomic';
 import type { ColumnKind, DroppedColumn } from '../data/table';
-import type { Forest, TrainingInfo } from '../forest/forest';
+import type { Forest, ForestHead, TrainingInfo } from '../forest/forest';
 import { validateParams, type ForestParams } from '../forest/params';
 import { sharedArray, type SharedMake } from '../forest/shared';
 import type { FlatTree } from '../tree/tree';
@@ -18,10 +18,7 @@ export { ModelError } from './validate';
 export const MODEL_FORMAT = 'copse-forest';
 export const MODEL_VERSION = 2;
 
-/** Everything of a forest but its trees: what the first line of the file holds. */
-export type ModelHead = Omit<Forest, 'trees'>;
-
-function headLine(head: ModelHead, trees: number): string {
+function headLine(head: ForestHead, trees: number): string {
   return JSON.stringify({ format: MODEL_FORMAT, version: MODEL_VERSION, schema: head.schema, params: head.params, training: head.training, trees });
 }
 
@@ -52,7 +49,7 @@ export class ModelWriter {
   private fd: number | undefined;
   private written = 0;
 
-  constructor(private readonly path: string, head: ModelHead, private readonly trees: number) {
+  constructor(private readonly path: string, head: ForestHead, private readonly trees: number) {
     this.tmp = tempBeside(path);
     this.fd = openSync(this.tmp, 'wx');
     try {
@@ -140,7 +137,7 @@ export function parseModel(text: string, label = 'the model'): Forest {
 /** Takes the file's lines in order; end() returns the forest once every tree the head announced has come. */
 class ModelParser {
   private readonly r: Reader;
-  private head: ModelHead | undefined;
+  private head: ForestHead | undefined;
   private expected = 0;
   private readonly trees: FlatTree[] = [];
   private whole: Forest | undefined;
@@ -196,7 +193,7 @@ class ModelParser {
   }
 }
 
-function readHead(r: Reader, doc: Record<string, Json>): ModelHead {
+function readHead(r: Reader, doc: Record<string, Json>): ForestHead {
   const schema = readSchema(r, r.object(r.field(doc, 'schema', ''), 'schema'));
   const params = readParams(r, r.object(r.field(doc, 'params', ''), 'params'));
   if (params.task !== schema.target.task) r.fail('params.task', 'does not match schema.target.task');

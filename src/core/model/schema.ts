@@ -1,32 +1,3 @@
-import type { ColumnKind } from '../data/table';
-import type { Task } from '../forest/params';
-
-/** How a model reads one input column. Saved with the model so raw rows can be scored later. */
-export interface FeatureInfo {
-  readonly name: string;
-  readonly kind: ColumnKind;
-  /** categorical/boolean: the training levels, in code order. Unseen levels score as missing. */
-  readonly levels?: readonly string[];
-  /** numeric: bin b holds x <= edges[b] (and x > edges[b-1]); the last bin holds x > edges[last]. */
-  readonly edges?: readonly number[];
-  /** Whether training data had missing cells in this column. */
-  readonly hadMissing: boolean;
-  /** Training median (numeric) or most frequent level code (categorical): the default reference row. */
-  readonly reference: number;
-}
-
-export interface TargetInfo {
-  readonly name: string;
-  readonly task: Task;
-  /** classification: the class labels, in code order. */
-  readonly classes?: readonly string[];
-}
-
-export interface Schema {
-  readonly features: readonly FeatureInfo[];
-  readonly target: TargetInfo;
-}
-
-export function outputCount(target: TargetInfo): number {
-  return target.task === 'classification' ? (target.classes?.length ?? 0) : 1;
-}
+// The schema types moved to src/core/base/schema.ts (below data/ and forest/, which need them); this name
+// stays for callers outside src/core that still import it from here.
+export { outputCount, type ColumnKind, type FeatureInfo, type Schema, type TargetInfo } from '../base/schema';

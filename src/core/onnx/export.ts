@@ -1,9 +1,9 @@
 // A fitted forest as an ONNX graph: one ai.onnx.ml TreeEnsembleClassifier or TreeEnsembleRegressor (operator
 // set 3, which ONNX 1.12 and every current runtime read) over a float tensor of encoded rows.
+import { outputCount } from '../base/schema';
 import type { Forest } from '../forest/forest';
 import { levelCounts } from '../forest/predict';
 import { ModelError } from '../model/validate';
-import { outputCount } from '../model/schema';
 import type { FlatTree } from '../tree/tree';
 import { roundDown32 } from './float32';
 import { exportMetadata, INPUT_NAME } from './metadata';

@@ -1,10 +1,10 @@
 // Reading an ONNX file that holds one tree ensemble into a Copse forest. The file is untrusted: its size, its node
 // and tree counts and what the conversion may create are bounded, every index is checked, and every refusal is a
 // ModelError naming what is wrong. The forest then passes the same validator as a saved model file.
+import type { FeatureInfo, Schema } from '../base/schema';
 import type { Forest, TrainingInfo } from '../forest/forest';
 import { defaultParams, type ForestParams } from '../forest/params';
 import { checkForest } from '../model/file';
-import type { FeatureInfo, Schema } from '../model/schema';
 import { ModelError } from '../model/validate';
 import { Attributes, failWith, type Fail } from './attributes';
 import { checkAcyclic, DEFAULT_LIMITS, readLegacy, readTreeEnsemble, type Ensemble, type Limits } from './ensemble';

@@ -1,7 +1,7 @@
 // Grows one CART tree depth-first over binned rows. Rows are an index array that each split partitions in
 // place, so a node is a range of it. Bootstrap duplicates are weights, not copies.
+import type { Criterion } from '../base/task';
 import type { BinnedMatrix } from '../data/binning';
-import type { Criterion } from '../forest/params';
 import { sideScore } from './criterion';
 import { emptyCandidate, Histogram, type SplitCandidate } from './splitter';
 import { GrowableTree } from './growable';

@@ -2,7 +2,7 @@
 // weight. Regression: channel 0 is the weight, channel 1 the weighted sum of the target.
 // For each criterion, score(left) + score(right) - score(parent) is the weighted impurity decrease
 // W·i(parent) - W_L·i(left) - W_R·i(right), so the splitter maximises score(left) + score(right).
-import type { Criterion } from '../forest/params';
+import type { Criterion } from '../base/task';
 
 export type SideScore = (ch: Float64Array, offset: number, channels: number) => number;
 

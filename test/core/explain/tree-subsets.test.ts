@@ -9,7 +9,7 @@ import { inBagCounts, outOfBagTrees } from '../../../src/core/forest/bootstrap';
 import { fitForest, type FitReport } from '../../../src/core/forest/fit';
 import type { Forest } from '../../../src/core/forest/forest';
 import { encodeTable, leafOf, levelCounts } from '../../../src/core/forest/predict';
-import { outputCount } from '../../../src/core/model/schema';
+import { outputCount } from '../../../src/core/base/schema';
 import { bruteShapley } from './helpers/brute-force';
 import { mixed } from './helpers/data';
 

@@ -12,7 +12,7 @@ import { fitForest } from '../../../src/core/forest/fit';
 import type { Forest } from '../../../src/core/forest/forest';
 import { defaultParams } from '../../../src/core/forest/params';
 import { encodeTable, predictEncoded } from '../../../src/core/forest/predict';
-import type { FeatureInfo, Schema } from '../../../src/core/model/schema';
+import type { FeatureInfo, Schema } from '../../../src/core/base/schema';
 import { ModelError } from '../../../src/core/model/validate';
 import { exportOnnx, minimumOnnxBytes } from '../../../src/core/onnx/export';
 import { META } from '../../../src/core/onnx/metadata';

@@ -6,7 +6,7 @@
 // Shapley values path-dependent TreeSHAP computes (Lundberg et al. 2020, Nature Machine Intelligence).
 // The routing below is restated here on purpose rather than imported, so the two do not share a mistake.
 import type { Forest } from '../../../../src/core/forest/forest';
-import { outputCount } from '../../../../src/core/model/schema';
+import { outputCount } from '../../../../src/core/base/schema';
 import type { FlatTree } from '../../../../src/core/tree/tree';
 
 function levelsOf(forest: Forest): number[] {

@@ -1,12 +1,13 @@
 // Opening a forest from either file Copse reads: its own model file, or an ONNX tree ensemble from elsewhere.
 // Callers (CLI, editor) get one forest type back, plus where it came from, so what an import cannot know
-// (the training sample, feature names) is reported instead of guessed.
+// (the training sample, feature names) is reported instead of guessed. This is the one module that reaches
+// both model/ and onnx/; onnx/ builds on model/'s checks, so the choice between them cannot live in model/.
 import { promises as fs } from 'node:fs';
 import type { Forest } from '../forest/forest';
 import { columnsInOrder, loadOnnxFile, nameFeatures } from '../onnx/load';
 import type { OnnxImport } from '../onnx/import';
-import { loadModel } from './file';
-import { ModelError } from './validate';
+import { loadModel } from '../model/file';
+import { ModelError } from '../model/validate';
 
 export type ModelOrigin =
   | { readonly kind: 'copse' }
