@@ -4,6 +4,7 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import * as path from 'node:path';
+import type { FitJson } from './output';
 
 const root = path.join(__dirname, '..', '..', '..');
 
@@ -37,7 +38,7 @@ describe('copse fit: cautions', function () {
     writeFileSync(file, lines.join('\n') + '\n');
     const json = copse('fit', file, '--target', 'outcome', '--trees', '40', '--json');
     assert.equal(json.code, 0, json.stderr);
-    const cautions = JSON.parse(json.stdout).cautions as Array<{ kind: string; column?: string; message: string }>;
+    const cautions = (JSON.parse(json.stdout) as FitJson).cautions;
     const leak = cautions.filter((c) => c.kind === 'leakage');
     assert.deepEqual(leak.map((c) => c.column), ['refund_code']);
     assert.ok(!cautions.some((c) => c.column === 'width' || c.column === 'height'), JSON.stringify(cautions));
@@ -55,7 +56,7 @@ describe('copse fit: cautions', function () {
       writeFileSync(file, lines.join('\n') + '\n');
       const r = copse('fit', file, '--target', 'label', '--trees', '20', '--json');
       assert.equal(r.code, 0, r.stderr);
-      return (JSON.parse(r.stdout).cautions as Array<{ kind: string; message: string }>).filter((c) => c.kind === 'imbalance');
+      return (JSON.parse(r.stdout) as FitJson).cautions.filter((c) => c.kind === 'imbalance');
     };
     const skewed = make('skewed.csv', 3);
     assert.equal(skewed.length, 1);

@@ -33,7 +33,7 @@ describe('copse command line', function () {
     assert.equal(fit.rows, 120);
     assert.equal(fit.trees, 60);
     assert.deepEqual(fit.features, ['sepal_length', 'sepal_width', 'petal_length', 'petal_width']);
-    assert.ok(fit.oob.accuracy! > 0.85 && fit.test!.accuracy! > 0.8);
+    assert.ok(fit.oob!.accuracy! > 0.85 && fit.test!.accuracy! > 0.8);
     assert.equal(fit.test!.rows, 30);
     assert.ok(typeof fit.importance.impurity.petal_length === 'number');
     assert.ok(typeof fit.importance.permutation.petal_width === 'number');

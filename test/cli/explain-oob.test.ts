@@ -11,7 +11,9 @@ import { tmpdir } from 'node:os';
 import * as path from 'node:path';
 import seedrandom from 'seedrandom';
 import { inBagCounts } from '../../src/core/forest/bootstrap';
+import type { ForestParams } from '../../src/core/forest/params';
 import { classificationScores, regressionScores } from '../../src/core/metrics/scores';
+import type { ClassExplainedRow, ClassVoteRow, ExplainJson, FitJson, ValueExplainedRow, ValueVoteRow, VotesJson } from './output';
 
 const root = path.join(__dirname, '..', '..', '..');
 
@@ -20,10 +22,16 @@ function copse(...args: string[]): { code: number; stdout: string; stderr: strin
   return { code: r.status ?? -1, stdout: r.stdout, stderr: r.stderr };
 }
 
-function json(...args: string[]): any {
+function json<T>(...args: string[]): T {
   const r = copse(...args);
   assert.equal(r.code, 0, r.stderr);
-  return JSON.parse(r.stdout);
+  return JSON.parse(r.stdout) as T;
+}
+
+/** The first line of a model file, as far as these checks read or change it. */
+interface ModelHeadJson {
+  params: ForestParams;
+  training: { rows: number; heldOut?: number };
 }
 
 const N = 160;
@@ -56,8 +64,13 @@ describe('copse explain over out-of-bag trees', function () {
   const data = path.join(dir, 'rows.csv');
   const classModel = path.join(dir, 'label.json');
   const valueModel = path.join(dir, 'value.json');
-  let classFit: any;
-  let valueFit: any;
+  let classFit: FitJson;
+  let valueFit: FitJson;
+  /** The fit's out-of-bag scores, which these fits have (every training row drew some out-of-bag tree). */
+  const oobOf = (fit: FitJson) => {
+    assert.ok(fit.oob, 'the fit reports out-of-bag scores');
+    return fit.oob;
+  };
   /** The file's cells by line number (1-based, the header on line 1). */
   let cellsOfLine: (line: number) => string[];
   /** Largest |base + sum of contributions - printed prediction| seen so far. */
@@ -67,12 +80,12 @@ describe('copse explain over out-of-bag trees', function () {
     writeData(data);
     const lines = readFileSync(data, 'utf8').split('\n');
     cellsOfLine = (line) => lines[line - 1].split(',');
-    classFit = json('fit', data, '--target', 'label', '--exclude', 'value', '--holdout', '0.2', '--trees', '25', '--seed', '4', '--no-importance', '--save', classModel, '--json');
-    valueFit = json('fit', data, '--target', 'value', '--exclude', 'label', '--trees', '25', '--seed', '6', '--no-importance', '--save', valueModel, '--json');
+    classFit = json<FitJson>('fit', data, '--target', 'label', '--exclude', 'value', '--holdout', '0.2', '--trees', '25', '--seed', '4', '--no-importance', '--save', classModel, '--json');
+    valueFit = json<FitJson>('fit', data, '--target', 'value', '--exclude', 'label', '--trees', '25', '--seed', '6', '--no-importance', '--save', valueModel, '--json');
   });
 
   it('classification: adds up to the out-of-bag probabilities, which score exactly as copse fit --json reports', () => {
-    const out = json('explain', classModel, data, '--rows', allRows, '--json');
+    const out = json<ExplainJson<ClassExplainedRow>>('explain', classModel, data, '--rows', allRows, '--json');
     const T = out.trees;
     const classes = Object.keys(out.rows[0].probabilities);
     const truth: number[] = [];
@@ -95,18 +108,19 @@ describe('copse explain over out-of-bag trees', function () {
       }
     }
     assert.ok(worst < 1e-9, `largest gap ${worst}`);
-    assert.equal(training, classFit.oob.rows, 'one explained row per training row with an out-of-bag tree');
+    const fitOob = oobOf(classFit);
+    assert.equal(training, fitOob.rows, 'one explained row per training row with an out-of-bag tree');
     const scores = classificationScores(truth, proba, classes);
     assert.equal(scores.kind, 'classification');
-    assert.equal(scores.accuracy, classFit.oob.accuracy);
-    assert.ok(Math.abs(scores.logLoss - classFit.oob.logLoss) < 1e-9, `${scores.logLoss} vs ${classFit.oob.logLoss}`);
-    assert.ok(Math.abs(scores.balancedAccuracy - classFit.oob.balancedAccuracy) < 1e-12);
+    assert.equal(scores.accuracy, fitOob.accuracy);
+    assert.ok(Math.abs(scores.logLoss - fitOob.logLoss!) < 1e-9, `${scores.logLoss} vs ${fitOob.logLoss}`);
+    assert.ok(Math.abs(scores.balancedAccuracy - fitOob.balancedAccuracy!) < 1e-12);
   });
 
   it('regression: equals the mean of the out-of-bag trees’ values that copse votes prints, and fit’s out-of-bag scores', () => {
-    const out = json('explain', valueModel, data, '--rows', allRows, '--json');
-    const votes = json('votes', valueModel, data, '--rows', allRows, '--json');
-    const model = JSON.parse(readFileSync(valueModel, 'utf8').split('\n')[0]);
+    const out = json<ExplainJson<ValueExplainedRow>>('explain', valueModel, data, '--rows', allRows, '--json');
+    const votes = json<VotesJson<ValueVoteRow>>('votes', valueModel, data, '--rows', allRows, '--json');
+    const model = JSON.parse(readFileSync(valueModel, 'utf8').split('\n')[0]) as ModelHeadJson;
     const T = out.trees;
     // Training rows are the file's rows with a value, in file order (no holdout here); their draws come from the seed.
     const trainRows = Array.from({ length: N }, (_, i) => i).filter((i) => !NO_TARGET.has(i));
@@ -118,7 +132,7 @@ describe('copse explain over out-of-bag trees', function () {
     let worstVotes = 0;
     trainRows.forEach((fileRow, i) => {
       const row = out.rows[fileRow];
-      const treeValues: number[] = votes.rows[fileRow].trees;
+      const treeValues = votes.rows[fileRow].trees;
       const own = treeValues.filter((_, t) => inBag[t * n + i] === 0);
       worst = Math.max(worst, Math.abs(row.base + sum(row.contributions) - row.prediction));
       if (own.length === 0) {
@@ -133,22 +147,23 @@ describe('copse explain over out-of-bag trees', function () {
     });
     assert.ok(worst < 1e-9, `largest additivity gap ${worst}`);
     assert.ok(worstVotes < 1e-9, `largest gap to the out-of-bag trees' mean ${worstVotes}`);
-    assert.equal(truth.length, valueFit.oob.rows);
+    const fitOob = oobOf(valueFit);
+    assert.equal(truth.length, fitOob.rows);
     const scores = regressionScores(truth, predicted);
     assert.equal(scores.kind, 'regression');
-    for (const k of ['rmse', 'mae', 'r2'] as const) assert.ok(Math.abs(scores[k] - valueFit.oob[k]) < 1e-9, `${k}: ${scores[k]} vs ${valueFit.oob[k]}`);
+    for (const k of ['rmse', 'mae', 'r2'] as const) assert.ok(Math.abs(scores[k] - fitOob[k]!) < 1e-9, `${k}: ${scores[k]} vs ${fitOob[k]}`);
   });
 
   it('says so in the readable output, and --all-trees gives the forest’s own prediction', () => {
-    const oob = json('explain', valueModel, data, '--rows', '3', '--json').rows[0];
+    const oob = json<ExplainJson<ValueExplainedRow>>('explain', valueModel, data, '--rows', '3', '--json').rows[0];
     const text = copse('explain', valueModel, data, '--rows', '3').stdout;
     assert.match(text, new RegExp(`^Row 3 \\(line 4\\), over the ${oob.treeCount} trees that did not train on this row: predicted `));
     const noTarget = copse('explain', valueModel, data, '--rows', '6').stdout;
     assert.match(noTarget, /^Row 6 \(line 7\), over all 25 trees, none of which trained on this row: /);
 
-    const all = json('explain', classModel, data, '--rows', '3,77', '--json', '--all-trees');
-    const votes = json('votes', classModel, data, '--rows', '3,77', '--json');
-    all.rows.forEach((row: any, j: number) => {
+    const all = json<ExplainJson<ClassExplainedRow>>('explain', classModel, data, '--rows', '3,77', '--json', '--all-trees');
+    const votes = json<VotesJson<ClassVoteRow>>('votes', classModel, data, '--rows', '3,77', '--json');
+    all.rows.forEach((row, j) => {
       assert.deepEqual([row.trees, row.treeCount], ['all', 25]);
       for (const c of Object.keys(row.probabilities)) {
         assert.equal(row.probabilities[c], votes.rows[j].probabilities[c]);
@@ -162,29 +177,29 @@ describe('copse explain over out-of-bag trees', function () {
     // The same rows with one more blank line: other bytes, so not the training file as far as Copse can tell.
     const other = path.join(dir, 'other.csv');
     writeFileSync(other, readFileSync(data, 'utf8') + '\n');
-    const elsewhere = json('explain', classModel, other, '--rows', '3', '--json');
+    const elsewhere = json<ExplainJson<ClassExplainedRow>>('explain', classModel, other, '--rows', '3', '--json');
     assert.equal(elsewhere.rows[0].trees, 'all');
     assert.deepEqual(elsewhere.warnings, []);
 
     // Fitted on a sample of the file: the model records its rows and that none were held out, so the file's
     // extra rows tell that it was read differently.
     const sampled = path.join(dir, 'sampled.json');
-    json('fit', data, '--target', 'label', '--exclude', 'value', '--sample-rows', '120', '--trees', '10', '--seed', '4', '--no-importance', '--save', sampled, '--json');
-    const out = json('explain', sampled, data, '--rows', '3,4', '--json');
-    assert.deepEqual(out.rows.map((r: any) => r.trees), ['all', 'all']);
+    json<FitJson>('fit', data, '--target', 'label', '--exclude', 'value', '--sample-rows', '120', '--trees', '10', '--seed', '4', '--no-importance', '--save', sampled, '--json');
+    const out = json<ExplainJson<ClassExplainedRow>>('explain', sampled, data, '--rows', '3,4', '--json');
+    assert.deepEqual(out.rows.map((r) => r.trees), ['all', 'all']);
     const reason = /is the file the forest was fitted on, but which trees drew each row cannot be told for certain: the forest was fitted on 120 rows; this reading of the data has 156 with a target\./;
     assert.match(out.warnings.join(' '), reason);
 
     // A model file from before the holdout's size was kept cannot tell a sample from a holdout by counting;
     // the check of the recovered draws against the trees' covers refuses it.
-    const head = JSON.parse(readFileSync(sampled, 'utf8').split('\n')[0]);
+    const head = JSON.parse(readFileSync(sampled, 'utf8').split('\n')[0]) as ModelHeadJson;
     assert.equal(head.training.heldOut, 0, 'the fit records what it held out');
     delete head.training.heldOut;
     const older = path.join(dir, 'older.json');
     const [, ...trees] = readFileSync(sampled, 'utf8').split('\n');
     writeFileSync(older, [JSON.stringify(head), ...trees].join('\n'));
-    const refused = json('explain', older, data, '--rows', '3,4', '--json');
-    assert.deepEqual(refused.rows.map((r: any) => r.trees), ['all', 'all']);
+    const refused = json<ExplainJson<ClassExplainedRow>>('explain', older, data, '--rows', '3,4', '--json');
+    assert.deepEqual(refused.rows.map((r) => r.trees), ['all', 'all']);
     assert.match(refused.warnings.join(' '), /cannot be told for certain: its rows do not reproduce the trees \(tree 1, leaf \d+: /);
     const text = copse('explain', sampled, data, '--rows', '3');
     assert.match(text.stderr, /^Warning: .*Every row is explained over all trees\.$/m);

@@ -2,15 +2,27 @@
 // prints it, so a renamed or dropped key shows up as a failing test rather than following the code silently.
 import * as assert from 'node:assert/strict';
 
+export interface ScoresJson {
+  rows: number;
+  accuracy?: number;
+  balancedAccuracy?: number;
+  logLoss?: number;
+  r2?: number;
+  rmse?: number;
+  mae?: number;
+}
+
 export interface FitJson {
   task: 'classification' | 'regression';
   rows: number;
   trees: number;
   features: string[];
   dropped: Array<{ name: string; reason: string }>;
-  oob: { rows: number; accuracy?: number; r2?: number };
-  test?: { rows: number; accuracy?: number; r2?: number };
+  /** Null when no row has an out-of-bag tree. */
+  oob: ScoresJson | null;
+  test?: ScoresJson;
   importance: { impurity: Record<string, number>; permutation: Record<string, number> };
+  cautions: Array<{ kind: string; column?: string; message: string }>;
   seconds: { load: number; fit: number };
 }
 
@@ -70,8 +82,15 @@ export interface VotesJson<Row = ClassVoteRow | ValueVoteRow> {
   rows: Row[];
 }
 
-export interface ClassExplainedRow {
+interface ExplainedRow {
   row: number;
+  line: number;
+  /** 'out-of-bag': only the trees that never drew the row (every tree, for a row the fit did not train on). */
+  trees: 'out-of-bag' | 'all';
+  treeCount: number;
+}
+
+export interface ClassExplainedRow extends ExplainedRow {
   prediction: string;
   probabilities: Record<string, number>;
   base: Record<string, number>;
@@ -79,8 +98,7 @@ export interface ClassExplainedRow {
   contributions: Record<string, Record<string, number>>;
 }
 
-export interface ValueExplainedRow {
-  row: number;
+export interface ValueExplainedRow extends ExplainedRow {
   prediction: number;
   base: number;
   contributions: Record<string, number>;
@@ -88,6 +106,7 @@ export interface ValueExplainedRow {
 
 export interface ExplainJson<Row> {
   task: 'classification' | 'regression';
+  trees: number;
   features: string[];
   warnings: string[];
   rows: Row[];

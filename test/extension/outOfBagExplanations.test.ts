@@ -36,11 +36,11 @@ function inProcess(setup: ExplainSetup): { explainer: ExplainerLike; requests: E
   const state = new ExplainState(setup);
   const requests: ExplainRequest[] = [];
   const explainer: ExplainerLike = {
-    run: async (request) => {
+    run: (request) => {
       requests.push(request);
-      return state.handle(request) as never;
+      return Promise.resolve(state.handle(request) as never);
     },
-    dispose: async () => undefined,
+    dispose: () => Promise.resolve(),
   };
   return { explainer, requests };
 }

@@ -60,7 +60,12 @@ export function singleFeatureScore(col: Column, input: Pick<CautionInput, 'task'
   const globalMean = all / allN;
   let mean = 0;
   let m = 0;
-  for (const i of check) if (!Number.isNaN(input.truth[i])) (mean += input.truth[i]), m++;
+  for (const i of check) {
+    if (!Number.isNaN(input.truth[i])) {
+      mean += input.truth[i];
+      m++;
+    }
+  }
   if (m === 0) return undefined;
   mean /= m;
   let sse = 0;

@@ -38,7 +38,7 @@ export function quantile(sorted: readonly number[], q: number): number {
 
 /** Maps feature index to name, in the model's feature order. */
 export function byName(names: readonly string[], values: ArrayLike<number>): Record<string, number> {
-  const out: Record<string, number> = Object.create(null);
+  const out = Object.create(null) as Record<string, number>;
   names.forEach((n, i) => (out[n] = values[i]));
   return out;
 }

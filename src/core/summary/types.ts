@@ -65,7 +65,8 @@ export interface FitSummary {
   readonly featureKinds: readonly FeatureKind[];
   readonly dropped: ReadonlyArray<{ readonly name: string; readonly reason: string }>;
   readonly trees: number;
-  readonly settings: Record<string, unknown>;
+  /** Every setting of a fresh fit; an opened forest knows only its tree count and seed. */
+  readonly settings: { readonly trees: number; readonly seed: number; readonly [setting: string]: unknown };
   /** Null when there is no out-of-bag score; oobUnavailable says why. */
   readonly oob: ScoresSummary | null;
   readonly oobUnavailable?: string;
