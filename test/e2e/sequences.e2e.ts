@@ -83,8 +83,8 @@ describe('Copse sequences: two fits in one panel, a planted error, a saved fores
     const panel = wb!.webview({ extensionId: EXTENSION_ID });
     assert.strictEqual(await waitForSummary(panel, 'loaf-rise.csv', 'rise_mm'), contractHeadline(cliLoaf));
     assert.ok(cliLoaf.suspectCount !== null && cliLoaf.suspectCount > 0, `the CLI lists ${cliLoaf.suspectCount} doubtful loaf rows`);
-    const rows = await waitForRows(panel.locator('[data-testid=suspects] tbody tr'), Math.min(50, cliLoaf.suspectCount!));
-    assert.strictEqual(rows, Math.min(50, cliLoaf.suspectCount!), 'the panel lists as many doubtful rows as the CLI counts');
+    const rows = await waitForRows(panel.locator('[data-testid=suspects] tbody tr'), Math.min(50, cliLoaf.suspectCount));
+    assert.strictEqual(rows, Math.min(50, cliLoaf.suspectCount), 'the panel lists as many doubtful rows as the CLI counts');
     await panel.locator('[data-testid=suspects]').scrollIntoViewIfNeeded();
     await wb!.screenshot('loaf-doubtful-light');
     await wb!.runCommand('Preferences: Toggle between Light/Dark Themes');
