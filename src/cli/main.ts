@@ -18,6 +18,7 @@ Run "copse COMMAND --help" for a command's options, "copse --version" for the ve
 type Run = (argv: string[]) => Promise<void>;
 
 // require() rather than import(): the compiled output is CommonJS, and a real import() would load it as ESM.
+/* eslint-disable @typescript-eslint/no-require-imports -- each command is loaded only when it runs (see above). */
 const COMMANDS: Record<string, () => Run> = {
   fit: () => (require('./commands/fit') as typeof import('./commands/fit')).runFit,
   predict: () => (require('./commands/predict') as typeof import('./commands/predict')).runPredict,
@@ -25,6 +26,7 @@ const COMMANDS: Record<string, () => Run> = {
   explain: () => (require('./commands/explain') as typeof import('./commands/explain')).runExplain,
   export: () => (require('./commands/export') as typeof import('./commands/export')).runExport,
 };
+/* eslint-enable @typescript-eslint/no-require-imports */
 
 /** The version in package.json, which sits three folders above this file in out/ and in the repository. */
 export function version(): string {
@@ -58,6 +60,7 @@ export async function main(argv: string[]): Promise<number> {
     await load()(rest);
     return 0;
   } catch (e) {
+    // eslint-disable-next-line @typescript-eslint/no-require-imports -- loaded only on an error, like the commands above.
     const { describe } = require('./errors') as typeof import('./errors');
     const said = describe(e, command);
     if (debug) process.stderr.write(`${(e as Error).stack ?? String(e)}\n`);

@@ -6,6 +6,7 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import * as path from 'node:path';
+import type { ClassVoteRow, FitJson, PredictJson, ValueVoteRow, VotesJson } from './output';
 
 const root = path.join(__dirname, '..', '..', '..');
 const kites = path.join(root, 'demo/kite-flights.csv');
@@ -20,10 +21,16 @@ function copse(...args: string[]): { code: number; stdout: string; stderr: strin
   return { code: r.status ?? -1, stdout: r.stdout, stderr: r.stderr };
 }
 
-function json(...args: string[]): Record<string, any> {
+function json<T>(...args: string[]): T {
   const r = copse(...args, '--json');
   assert.equal(r.code, 0, r.stderr);
-  return JSON.parse(r.stdout);
+  return JSON.parse(r.stdout) as T;
+}
+
+/** A group's answer, which the row asked about must have. */
+function present<T>(group: T | null | undefined, what: string): T {
+  assert.ok(group, what);
+  return group;
 }
 
 /** The demo files have no quoted fields, so a split on commas reads them. */
@@ -37,30 +44,31 @@ describe('copse on a forest\'s own training file', function () {
   this.timeout(180000);
   const dir = mkdtempSync(path.join(tmpdir(), 'copse-oob-'));
   const model = path.join(dir, 'kites.json');
-  let fit: Record<string, any>;
+  let fit: FitJson;
   const row35 = planted.errors.find((e) => e.row === 35)!;
 
   before(() => {
-    fit = json('fit', kites, '--target', 'outcome', '--save', model, '--list', 'all');
+    fit = json<FitJson>('fit', kites, '--target', 'outcome', '--save', model, '--list', 'all');
   });
 
   it('votes leads row 35 with the out-of-bag vote for the class it was generated with, not its recorded label', () => {
     assert.deepEqual([row35.recorded, row35.generated], ['crashed', 'soared']);
-    const v = json('votes', model, kites, '--rows', '35');
+    const v = json<VotesJson<ClassVoteRow>>('votes', model, kites, '--rows', '35');
     const r = v.rows[0];
+    const oob = present(r.outOfBag, 'row 35 has an out-of-bag answer');
     assert.equal(r.role, 'training');
     assert.equal(r.label, 'crashed');
     assert.equal(r.lead, 'out-of-bag');
-    assert.equal(r.outOfBag.prediction, 'soared');
+    assert.equal(oob.prediction, 'soared');
     // The top-level keys keep all the trees' answer; most of them drew row 35 and repeat its recorded label.
     assert.equal(r.prediction, r.allTrees.prediction);
-    assert.ok(r.outOfBag.trees > 0 && r.outOfBag.trees < 100, `out-of-bag trees ${r.outOfBag.trees}`);
-    assert.equal(Object.values(r.outOfBag.counts as Record<string, number>).reduce((a, b) => a + b, 0), r.outOfBag.trees);
+    assert.ok(oob.trees > 0 && oob.trees < 100, `out-of-bag trees ${oob.trees}`);
+    assert.equal(Object.values(oob.counts).reduce((a, b) => a + b, 0), oob.trees);
     assert.equal(r.allTrees.trees, 100);
     // Every out-of-bag tree is also among all trees, so no class can have more out-of-bag votes than votes.
-    for (const c of Object.keys(r.allTrees.counts)) assert.ok(r.outOfBag.counts[c] <= r.allTrees.counts[c]);
+    for (const c of Object.keys(r.allTrees.counts)) assert.ok(oob.counts[c] <= r.allTrees.counts[c]);
     // The fit doubts the same row with the same margin: the same trees, the same draws.
-    const doubt = fit.suspects.find((s: { row: number }) => s.row === 35);
+    const doubt = fit.suspects.find((s) => s.row === 35);
     assert.ok(doubt, 'the fit lists row 35 among the rows it doubts');
     assert.equal(doubt.oobPredicted, 'soared');
     assert.equal(r.margin, doubt.margin);
@@ -91,38 +99,40 @@ describe('copse on a forest\'s own training file', function () {
       scored++;
       if (row.oob_predicted_outcome === row.outcome) right++;
     }
-    assert.equal(scored, fit.oob.rows);
-    assert.equal(right / scored, fit.oob.accuracy);
-    const p = json('predict', model, kites);
-    assert.equal(p.outOfBag.accuracy, fit.oob.accuracy);
-    assert.equal(p.outOfBag.logLoss, fit.oob.logLoss);
-    assert.deepEqual(p.outOfBag.confusion, fit.oob.confusion);
+    const fitOob = present(fit.oob, 'the fit has out-of-bag scores');
+    assert.equal(scored, fitOob.rows);
+    assert.equal(right / scored, fitOob.accuracy);
+    const p = json<PredictJson>('predict', model, kites);
+    const predictOob = present(p.outOfBag, 'predict scores the training file out-of-bag');
+    assert.equal(predictOob.accuracy, fitOob.accuracy);
+    assert.equal(predictOob.logLoss, fitOob.logLoss);
+    assert.deepEqual(predictOob.confusion, fitOob.confusion);
   });
 
   it('a regression forest\'s out-of-bag values on its training file score as the fit did', () => {
     const reg = path.join(dir, 'loaves.json');
-    const f = json('fit', loaves, '--target', 'rise_mm', '--trees', '40', '--save', reg);
-    const p = json('predict', reg, loaves);
-    assert.equal(p.outOfBag.r2, f.oob.r2);
-    assert.equal(p.outOfBag.mae, f.oob.mae);
+    const f = json<FitJson>('fit', loaves, '--target', 'rise_mm', '--trees', '40', '--save', reg);
+    const p = json<PredictJson>('predict', reg, loaves);
+    assert.equal(p.outOfBag?.r2, f.oob?.r2);
+    assert.equal(p.outOfBag?.mae, f.oob?.mae);
     const s = f.suspects[0];
-    const v = json('votes', reg, loaves, '--rows', String(s.row));
-    assert.equal(v.rows[0].outOfBag.prediction, s.oobPredicted);
+    const v = json<VotesJson<ValueVoteRow>>('votes', reg, loaves, '--rows', String(s.row));
+    assert.equal(v.rows[0].outOfBag?.prediction, s.oobPredicted);
     assert.equal(v.rows[0].label, s.label);
   });
 
   it('a held-out row is marked holdout and has no out-of-bag part; training rows still have one', () => {
     const held = path.join(dir, 'held.json');
-    const f = json('fit', kites, '--target', 'outcome', '--trees', '30', '--seed', '5', '--holdout', '0.2', '--save', held);
-    const p = json('predict', held, kites);
-    const roles = p.predictions.map((r: { row_role: string }) => r.row_role);
-    assert.equal(roles.filter((x: string) => x === 'holdout').length, f.test.rows);
-    assert.equal(roles.filter((x: string) => x === 'training').length, f.rows);
-    assert.equal(p.outOfBag.accuracy, f.oob.accuracy);
-    const heldRow = p.predictions.find((r: { row_role: string }) => r.row_role === 'holdout');
+    const f = json<FitJson>('fit', kites, '--target', 'outcome', '--trees', '30', '--seed', '5', '--holdout', '0.2', '--save', held);
+    const p = json<PredictJson>('predict', held, kites);
+    const roles = p.predictions.map((r) => r.row_role);
+    assert.equal(roles.filter((x) => x === 'holdout').length, f.test?.rows);
+    assert.equal(roles.filter((x) => x === 'training').length, f.rows);
+    assert.equal(p.outOfBag?.accuracy, f.oob?.accuracy);
+    const heldRow = present(p.predictions.find((r) => r.row_role === 'holdout'), 'a held-out row');
     assert.equal(heldRow.oob_predicted_outcome, null);
-    const trainRow = p.predictions.find((r: { row_role: string }) => r.row_role === 'training');
-    const v = json('votes', held, kites, '--rows', `${heldRow.row},${trainRow.row}`);
+    const trainRow = present(p.predictions.find((r) => r.row_role === 'training'), 'a training row');
+    const v = json<VotesJson<ClassVoteRow>>('votes', held, kites, '--rows', `${heldRow.row},${trainRow.row}`);
     assert.equal(v.rows[0].role, 'holdout');
     assert.equal(v.rows[0].lead, 'all-trees');
     assert.equal(v.rows[0].outOfBag, undefined);
@@ -137,9 +147,9 @@ describe('copse on a forest\'s own training file', function () {
   it('says so, and adds no out-of-bag part, when the training file cannot give back the fit\'s rows', () => {
     // A fit on a sample of the file trained on rows the whole file cannot tell apart.
     const sampled = path.join(dir, 'sampled.json');
-    json('fit', kites, '--target', 'outcome', '--trees', '10', '--sample-rows', '2000', '--save', sampled);
-    const p = json('predict', sampled, kites);
-    assert.ok(!p.columns.some((c: string) => c.startsWith('oob_')), p.columns.join(','));
+    json<FitJson>('fit', kites, '--target', 'outcome', '--trees', '10', '--sample-rows', '2000', '--save', sampled);
+    const p = json<PredictJson>('predict', sampled, kites);
+    assert.ok(!p.columns.some((c) => c.startsWith('oob_')), p.columns.join(','));
     assert.match(p.warnings.join(' '), /is the file this forest was fitted on, but which trees drew each row cannot be told for certain: .*2000/);
     const v = copse('votes', sampled, kites, '--rows', '35');
     assert.equal(v.code, 0, v.stderr);
@@ -150,10 +160,10 @@ describe('copse on a forest\'s own training file', function () {
   it('another file gets no out-of-bag part, even with the same rows in it', () => {
     const some = path.join(dir, 'some-flights.csv');
     writeFileSync(some, readFileSync(kites, 'utf8').split('\n').slice(0, 101).join('\n') + '\n');
-    const p = json('predict', model, some);
-    assert.ok(!p.columns.some((c: string) => c.startsWith('oob_')), p.columns.join(','));
+    const p = json<PredictJson>('predict', model, some);
+    assert.ok(!p.columns.some((c) => c.startsWith('oob_')), p.columns.join(','));
     assert.equal(p.outOfBag, null);
-    const v = json('votes', model, some, '--rows', '35');
+    const v = json<VotesJson<ClassVoteRow>>('votes', model, some, '--rows', '35');
     assert.equal(v.rows[0].role, 'other');
     assert.equal(v.rows[0].label, 'crashed');
     assert.equal(v.rows[0].outOfBag, undefined);

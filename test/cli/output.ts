@@ -10,6 +10,15 @@ export interface ScoresJson {
   r2?: number;
   rmse?: number;
   mae?: number;
+  confusion?: { labels: string[]; counts: number[][] };
+}
+
+/** A training row the fit doubts. */
+export interface SuspectJson {
+  row: number;
+  label: string | number;
+  oobPredicted: string | number;
+  margin?: number;
 }
 
 export interface FitJson {
@@ -23,16 +32,19 @@ export interface FitJson {
   test?: ScoresJson;
   importance: { impurity: Record<string, number>; permutation: Record<string, number> };
   cautions: Array<{ kind: string; column?: string; message: string }>;
+  suspects: SuspectJson[];
   seconds: { load: number; fit: number };
 }
 
-/** One scored row: its data row number, then one entry per added column (text for a predicted class). */
-export type PredictedRow = Record<string, number | string>;
+/** One scored row: its data row number, then one entry per added column (text for a predicted class, null when empty). */
+export type PredictedRow = Record<string, number | string | null>;
 
 export interface PredictJson {
   rows: number;
   columns: string[];
   warnings: string[];
+  /** The out-of-bag scores over the forest's own training file; null for any other file. */
+  outOfBag: ScoresJson | null;
   predictions: PredictedRow[];
 }
 
@@ -56,6 +68,7 @@ interface VoteRow {
   row: number;
   line: number;
   role: string;
+  label?: string | number;
   /** Which answer to read first. */
   lead: 'out-of-bag' | 'all-trees';
   margin?: number;

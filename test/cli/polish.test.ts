@@ -6,6 +6,7 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import * as path from 'node:path';
+import type { FitJson } from './output';
 
 const root = path.join(__dirname, '..', '..', '..');
 const kites = path.join(root, 'demo/kite-flights.csv');
@@ -84,7 +85,7 @@ describe('copse command-line manners', function () {
   });
 
   it('prints the package version', () => {
-    const version = JSON.parse(readFileSync(path.join(root, 'package.json'), 'utf8')).version;
+    const { version } = JSON.parse(readFileSync(path.join(root, 'package.json'), 'utf8')) as { version: string };
     for (const flag of ['--version', '-V']) {
       const r = copse([flag]);
       assert.equal(r.code, 0);
@@ -112,8 +113,8 @@ describe('copse command-line manners', function () {
       assert.ok(m, l);
       for (const v of [m[1], m[2]]) assert.ok(v.replace(/^-|\./g, '').replace(/^0+/, '').length <= 4, `${v} in "${l}"`);
     }
-    const json = JSON.parse(copse(['fit', loaves, '--target', 'rise_mm', '--trees', '30', '--seed', '2', '--json']).stdout);
-    assert.ok(json.suspects.some((s: { oobPredicted: number }) => String(s.oobPredicted).replace(/^-|\./g, '').length > 4), 'JSON keeps full precision');
+    const json = JSON.parse(copse(['fit', loaves, '--target', 'rise_mm', '--trees', '30', '--seed', '2', '--json']).stdout) as FitJson;
+    assert.ok(json.suspects.some((s) => String(s.oobPredicted).replace(/^-|\./g, '').length > 4), 'JSON keeps full precision');
   });
 
   it('says "N of M" when it cuts a list, and --list shows more', () => {

@@ -32,7 +32,7 @@ describe('targets that cannot be meant', function () {
     it('calls a text column with a different value on every row an identifier', () => {
       const d = targetDoubt(levels('code', range(40).map((i) => `K-${i}`)));
       assert.equal(d?.kind, 'identifier');
-      assert.match(d!.message, /'code' looks like a row identifier: each of its 40 rows/);
+      assert.match(d.message, /'code' looks like a row identifier: each of its 40 rows/);
     });
 
     it('calls a numeric run 1..n an identifier, but not measurements that never repeat', () => {
