@@ -8,22 +8,28 @@ import { PanelPage } from './harness';
 
 const cssRgb = (c: Rgb) => `rgb(${c[0]}, ${c[1]}, ${c[2]})`;
 
+// The test build has no DOM types, so the elements the page functions below run on are described by what they read.
+type PageElement = { getAttribute(name: string): string | null; textContent: string | null; children: Iterable<PageElement> };
+
 /** Each feature row of the contributions table: data-feature, then the text of every cell. */
 async function contributionRows(p: PanelPage): Promise<string[][]> {
-  return p.page.locator('[data-testid=contributions-table] tbody:not(.hidden) tr[data-feature]').evaluateAll((trs) =>
+  return p.page.locator('[data-testid=contributions-table] tbody:not(.hidden) tr[data-feature]').evaluateAll((trs: PageElement[]) =>
     trs.map((tr) => [tr.getAttribute('data-feature') ?? '', ...[...tr.children].map((c) => (c.textContent ?? '').trim())]),
   );
 }
 
-/** Where each row's bar and zero line sit inside the bar column, in pixels from its left edge. */
-async function barGeometry(p: PanelPage): Promise<Array<{ feature: string; left: number; right: number; zero: number; width: number; colour: string; sign: string }>> {
-  return (await p.page.evaluate(`[...document.querySelectorAll('[data-testid=contributions-table] tbody:not(.hidden) tr[data-feature]')].map((tr) => {
+/** Where a row's bar and zero line sit inside the bar column, in pixels from its left edge. */
+type BarGeometry = { feature: string; left: number; right: number; zero: number; width: number; colour: string; sign: string };
+
+/** Each row's bar geometry. */
+async function barGeometry(p: PanelPage): Promise<BarGeometry[]> {
+  return await p.page.evaluate<BarGeometry[]>(`[...document.querySelectorAll('[data-testid=contributions-table] tbody:not(.hidden) tr[data-feature]')].map((tr) => {
     const track = tr.querySelector('.contrib-track').getBoundingClientRect();
     const barEl = tr.querySelector('.contrib-bar');
     const bar = barEl.getBoundingClientRect();
     const zero = tr.querySelector('.contrib-zero').getBoundingClientRect();
     return { feature: tr.dataset.feature, left: bar.left - track.left, right: bar.right - track.left, zero: zero.left + zero.width / 2 - track.left, width: track.width, colour: getComputedStyle(barEl).backgroundColor, sign: barEl.dataset.sign };
-  })`)) as Array<{ feature: string; left: number; right: number; zero: number; width: number; colour: string; sign: string }>;
+  })`);
 }
 
 describe('panel contributions (headless Chromium)', function () {
@@ -44,7 +50,7 @@ describe('panel contributions (headless Chromium)', function () {
     // Row 71 is a training row, so the host explains it over the trees that never saw it, and says so.
     assert.equal(head.replace(/\s+/g, ' ').trim(), 'Row 71 (explained by the 20 trees that never saw it): their average probability of versicolor is 0.3333; this row’s values take it to 0.8033.');
     // A real table: column headers, and each feature's name as its row's header.
-    const heads = await p.page.locator('[data-testid=contributions-table] thead th').evaluateAll((ths) => ths.map((th) => [th.getAttribute('scope'), (th.textContent ?? '').trim()]));
+    const heads = await p.page.locator('[data-testid=contributions-table] thead th').evaluateAll((ths: PageElement[]) => ths.map((th) => [th.getAttribute('scope'), (th.textContent ?? '').trim()]));
     assert.deepEqual(heads.slice(0, 3), [
       ['col', 'Feature'],
       ['col', 'Value in this row'],

@@ -129,7 +129,7 @@ describe('colour arithmetic the palette checks rely on', () => {
       [[50, 2.5, 0], [58, 24, 15], 19.4535],
     ];
     for (const [p, q, want] of pairs) {
-      assert.ok(Math.abs(ciede2000(p, q) - want) < 5e-4, `${p} / ${q}: ${ciede2000(p, q)} vs ${want}`);
+      assert.ok(Math.abs(ciede2000(p, q) - want) < 5e-4, `${p.join(',')} / ${q.join(',')}: ${ciede2000(p, q)} vs ${want}`);
       assert.ok(Math.abs(ciede2000(q, p) - want) < 5e-4, 'symmetric');
     }
   });

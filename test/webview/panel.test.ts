@@ -249,7 +249,7 @@ describe('panel webview (headless Chromium)', function () {
   it('asks the host to open a small map large when it is clicked, and scrolls to the large map', async () => {
     // Start with the large map scrolled out of view above.
     await p.page.evaluate(`window.scrollTo(0, document.querySelector('[data-testid=matrix-section]').getBoundingClientRect().top + window.scrollY - 40)`);
-    const top = () => p.page.evaluate(`document.querySelector('[data-testid=map-section]').getBoundingClientRect().top`) as Promise<number>;
+    const top = () => p.page.evaluate<number>(`document.querySelector('[data-testid=map-section]').getBoundingClientRect().top`);
     assert.ok((await top()) < -100, `map section at ${await top()}`);
     await p.clearPosted();
     await p.page.locator('[data-testid=map-matrix] .map-tile').nth(1).click();

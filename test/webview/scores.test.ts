@@ -14,13 +14,13 @@ interface Cell {
 }
 
 async function confusionCells(p: PanelPage): Promise<Cell[]> {
-  return (await p.page.evaluate(`[...document.querySelectorAll('[data-testid=confusion] tbody tr')]
+  return await p.page.evaluate<Cell[]>(`[...document.querySelectorAll('[data-testid=confusion] tbody tr')]
     .filter((tr) => !/precision/.test(tr.querySelector('th').textContent))
     .flatMap((tr) => [...tr.querySelectorAll('td')].slice(0, -1).map((td) => ({
       n: Number(td.textContent.replace(/,/g, '')),
       background: getComputedStyle(td).backgroundColor,
       colour: getComputedStyle(td).color,
-    })))`)) as Cell[];
+    })))`);
 }
 
 function rgb(text: string): Rgb {
@@ -63,7 +63,7 @@ describe('scores at a glance (headless Chromium)', function () {
   after(async () => p?.close());
 
   it('puts the scores first, above the maps', async () => {
-    const order = (await p.page.evaluate(`[...document.querySelectorAll('main section.card')].map((s) => s.dataset.testid)`)) as string[];
+    const order = await p.page.evaluate<string[]>(`[...document.querySelectorAll('main section.card')].map((s) => s.dataset.testid)`);
     assert.equal(order[0], 'summary');
     assert.ok(order.indexOf('summary') < order.indexOf('map-section'));
     const summary = await p.page.locator('[data-testid=summary]').boundingBox();

@@ -22,7 +22,7 @@ interface Strip {
 
 /** Everything the strip of one row shows, in page pixels. */
 async function readStrip(p: PanelPage, row: number): Promise<Strip> {
-  return (await p.page.evaluate(`(() => {
+  return await p.page.evaluate<Strip>(`(() => {
     const strip = document.querySelector('[data-testid=disagreement] [data-row="${row}"] [data-testid=vote-strip]');
     const axisEl = strip.querySelector('.value-axis');
     const a = axisEl.getBoundingClientRect();
@@ -38,7 +38,7 @@ async function readStrip(p: PanelPage, row: number): Promise<Strip> {
       marks: [...strip.querySelector('.lane-track').querySelectorAll('.mark-line')].map((m) => ({ kind: m.classList[1], centre: centre(m) })),
       texts: [...strip.querySelectorAll('.mark-text')].map((m) => ({ kind: m.classList[1], text: m.textContent })),
     };
-  })()`)) as Strip;
+  })()`);
 }
 
 /** Where a value sits along the axis, in page pixels, read from the axis the strip itself draws. */

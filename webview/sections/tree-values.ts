@@ -40,7 +40,10 @@ export function valueScale(rows: readonly RowVotes[]): ValueScale {
     take(r.interval?.upper);
   }
   if (!Number.isFinite(lo)) return { min: 0, max: 1, ticks: [0, 1] };
-  if (!(hi > lo)) (lo -= 0.5), (hi += 0.5);
+  if (!(hi > lo)) {
+    lo -= 0.5;
+    hi += 0.5;
+  }
   const ticks = niceTicks(lo, hi, 6);
   const step = ticks.length > 1 ? ticks[1] - ticks[0] : hi - lo;
   const min = ticks[0] > lo ? ticks[0] - step : ticks[0];
