@@ -17,7 +17,7 @@ const isStr = (v: unknown): v is string => typeof v === 'string';
 const isArr = (v: unknown, each: (x: unknown) => boolean): v is unknown[] => Array.isArray(v) && v.every(each);
 const isNumArr = (v: unknown): v is number[] => isArr(v, isNum);
 const isStrArr = (v: unknown): v is string[] => isArr(v, isStr);
-const isRow = (v: unknown): v is number => isInt(v) && (v as number) >= 1;
+const isRow = (v: unknown): v is number => isInt(v) && (v) >= 1;
 const isFeatureKind = (v: unknown): boolean => v === 'numeric' || v === 'categorical' || v === 'boolean';
 const isTask = (v: unknown): boolean => v === 'classification' || v === 'regression';
 
@@ -150,7 +150,7 @@ function isRowContributions(v: unknown): v is RowContributions {
   return (
     isObj(v) &&
     isRow(v.row) &&
-    (v.output === null || (isInt(v.output) && (v.output as number) >= 0)) &&
+    (v.output === null || (isInt(v.output) && (v.output) >= 0)) &&
     isNum(v.base) &&
     isNum(v.prediction) &&
     isInt(v.trees) &&
@@ -165,7 +165,7 @@ function isGlobalContributions(v: unknown): v is GlobalContributions {
     isInt(v.rows) &&
     isInt(v.planned) &&
     typeof v.done === 'boolean' &&
-    isArr(v.features, (f) => isObj(f) && isStr(f.feature) && isNum(f.meanAbs) && (f.meanAbs as number) >= 0)
+    isArr(v.features, (f) => isObj(f) && isStr(f.feature) && isNum(f.meanAbs) && (f.meanAbs) >= 0)
   );
 }
 
@@ -177,10 +177,10 @@ export function isDependence(v: unknown): v is Dependence {
   // A numeric axis must rise, or the curve and the cells under it would not line up.
   if (v.kind === 'numeric') for (let g = 1; g < G; g++) if (!(v.grid[g] > v.grid[g - 1])) return false;
   return (
-    (v.output === null || (isInt(v.output) && (v.output as number) >= 0)) &&
+    (v.output === null || (isInt(v.output) && (v.output) >= 0)) &&
     isArr(v.ice, (c) => isNumArr(c) && c.length === G) &&
     isArr(v.iceRows, isRow) &&
-    (v.iceRows as number[]).length === (v.ice as unknown[]).length &&
+    (v.iceRows as number[]).length === (v.ice).length &&
     isArr(v.counts, isInt) &&
     (v.counts as number[]).length === G &&
     isNumArr(v.boundaries) &&
@@ -194,8 +194,8 @@ function isSweepSummary(v: unknown): v is SweepSummary {
     isTask(v.task) &&
     isInt(v.features) &&
     isInt(v.defaultCount) &&
-    isArr(v.points, (q) => isObj(q) && isInt(q.featuresPerSplit) && (q.featuresPerSplit as number) >= 1 && isNum(q.oobError) && isNum(q.oobScore) && isNum(q.seconds)) &&
-    (v.points as unknown[]).length > 0 &&
+    isArr(v.points, (q) => isObj(q) && isInt(q.featuresPerSplit) && (q.featuresPerSplit) >= 1 && isNum(q.oobError) && isNum(q.oobScore) && isNum(q.seconds)) &&
+    (v.points).length > 0 &&
     isInt(v.best) &&
     (v.current === null || isInt(v.current))
   );
@@ -256,12 +256,12 @@ export function isPanelToHost(v: unknown): v is PanelToHost {
     case 'explainRow':
       return isRow(v.row);
     case 'chooseDependence':
-      return isStr(v.feature) && (v.output === null || (isInt(v.output) && (v.output as number) >= 0));
+      return isStr(v.feature) && (v.output === null || (isInt(v.output) && (v.output) >= 0));
     case 'runSweep':
     case 'cancelSweep':
       return true;
     case 'sweepRefit':
-      return isInt(v.featuresPerSplit) && (v.featuresPerSplit as number) >= 1;
+      return isInt(v.featuresPerSplit) && (v.featuresPerSplit) >= 1;
     default:
       return false;
   }

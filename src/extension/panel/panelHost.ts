@@ -114,12 +114,12 @@ export class PanelHost implements vscode.Disposable {
 
   /** Sends a message about the active forest (or none). */
   post(message: HostMessage): void {
-    this.postStamped({ ...message, fit: message.type === 'status' ? null : (this.ctx.session?.id ?? null) } as HostToPanel);
+    this.postStamped({ ...message, fit: message.type === 'status' ? null : (this.ctx.session?.id ?? null) });
   }
 
   /** Sends a message about one session's forest: the panel drops it if it has moved on to another fit. */
   private send(session: ForestSession, message: HostMessage): void {
-    this.postStamped({ ...message, fit: session.id } as HostToPanel);
+    this.postStamped({ ...message, fit: session.id });
   }
 
   private postStamped(message: HostToPanel): void {
