@@ -83,8 +83,10 @@ export function summarizeOpened(i: OpenedSummaryInput): FitSummary {
     target: target.name,
     classes,
     data: { file: i.file, fingerprint: i.fingerprint, rowsRead: i.rowsRead, sampled: i.sampled },
-    rows: known ? known.trainRows.length : forest.training.rows,
-    scoredRows: test?.rows ?? 0,
+    // Rows of this table: the training rows when they are known here, plus the rows scored (held out, or
+    // the whole file for a forest from elsewhere).
+    rows: known ? known.trainRows.length : 0,
+    scoredRows: test ? test.rows : known ? 0 : table.rowCount,
     features: names,
     featureKinds: forest.schema.features.map((f) => f.kind),
     dropped: forest.training.dropped,

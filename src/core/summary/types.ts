@@ -57,7 +57,7 @@ export interface FitSummary {
   readonly classes: readonly string[];
   /** The table the forest is shown against. */
   readonly data: { readonly file: string; readonly fingerprint: string; readonly rowsRead: number; readonly sampled: boolean };
-  /** Training rows (0 when unknown: an imported forest). */
+  /** Training rows in this table (0 when they are not known here: an import, or another file). */
   readonly rows: number;
   /** Rows scored on top of training: held out of the fit, a test file, or the file an opened forest is shown against. */
   readonly scoredRows: number;
