@@ -25,6 +25,8 @@ export interface OpenedSummaryInput {
   readonly fingerprint: string;
   readonly rowsRead: number;
   readonly sampled: boolean;
+  /** Row answers already made for this scoring with the training membership, if the caller has them. */
+  readonly votes?: RowVotes;
   /** The forest's training rows in this table, or why they are not known. */
   readonly training: TrainingRows | { readonly unknown: string };
   /** Permutation importance measured on the table's labelled rows, when it was. */
@@ -50,7 +52,7 @@ export function summarizeOpened(i: OpenedSummaryInput): FitSummary {
   let suspects: FitSummary['suspects'] = [];
   let suspectCount: number | null = null;
   if (known && prediction.oob) {
-    const votes = new RowVotes(target.task, classes, prediction, truth, membershipOf(known.trainRows, table.rowCount, known.inBag));
+    const votes = i.votes ?? new RowVotes(target.task, classes, prediction, truth, membershipOf(known.trainRows, table.rowCount, known.inBag));
     oob = scoresOn(forest, truth, prediction.oob.proba ?? prediction.oob.predicted, known.trainRows, (r) => prediction.oob!.trees[r] > 0, true);
     const doubts = votes.doubtful(known.trainRows);
     suspectCount = doubts.length;

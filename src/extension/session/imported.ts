@@ -129,13 +129,14 @@ export function openedSession(i: OpenedSessionInput): Promise<ForestSession> {
     text: () => readFileSync(csv.path, 'utf8'),
     // The training file itself, read as the fit read it: the out-of-bag views are the fit's own.
     oob: 'trainRows' in training ? training : undefined,
-    summary: (fit, { prediction, truth }) =>
+    summary: (fit, { prediction, truth, votes }) =>
       panelSummary(
         summarizeOpened({
           forest,
           table: csv.load.table,
           prediction,
           truth,
+          votes,
           file: label,
           fingerprint: csv.load.fingerprint,
           rowsRead: csv.load.rowsRead,

@@ -38,6 +38,8 @@ export type OobInput = TrainingRows;
 export interface Scored {
   readonly prediction: Prediction;
   readonly truth: Float64Array;
+  /** The session's row answers, so a summary need not tally the votes again. */
+  readonly votes: RowVotes;
 }
 
 export interface SessionInit {
@@ -168,7 +170,7 @@ export class ForestSession {
     const store = new RowVotes(task, forest.schema.target.classes ?? [], prediction, truth, membership, holdout, targetTolerance(task, truth, init.oob?.trainRows));
     const numbering = RowNumbering.build(table.lineOfRow, init.csv.load.delimiter, init.text, table.rowNumber);
     const id = `${Date.now().toString(36)}-${++sessions}`;
-    return new ForestSession(init, id, init.summary(id, { prediction, truth }), encoded, store, numbering, truth);
+    return new ForestSession(init, id, init.summary(id, { prediction, truth, votes: store }), encoded, store, numbering, truth);
   }
 
   get task(): 'classification' | 'regression' {
@@ -369,10 +371,9 @@ export class ForestSession {
   }
 
   private findSuspects(): SuspectRow[] {
-    const oob = this.store;
     return this.store.doubtful(this.trainRows).map((d) => {
       const r = this.trainRows[d.index];
-      return { row: this.numbering.dataRow(r), score: d.score, label: this.truth[r], oobPredicted: oob.answer(r).oob!.predicted };
+      return { row: this.numbering.dataRow(r), score: d.score, label: this.truth[r], oobPredicted: this.store.answer(r).oob!.predicted };
     });
   }
 }
