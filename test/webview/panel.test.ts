@@ -187,7 +187,9 @@ describe('panel webview (headless Chromium)', function () {
     // The split is visible: this row's trees vote for more than one class.
     assert.ok(new Set(read.map(([, bg]) => bg)).size >= 2);
     const head = (await p.page.textContent('[data-testid=disagreement] [data-row="71"] .vote-head')) ?? '';
-    assert.match(head, new RegExp(`agreement ${(votes.agreement * 100).toFixed(1)}%`));
+    assert.match(head, new RegExp(`agreement of out-of-bag trees ${(votes.agreement * 100).toFixed(1)}%`));
+    // The all-trees answer comes second, named for what it includes.
+    assert.ok(head.indexOf("out-of-bag vote") < head.indexOf("all trees, including those fitted on it"), head);
   });
 
   it('posts “reveal row” when a row in the vote list or the suspects list is clicked', async () => {

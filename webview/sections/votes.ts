@@ -77,6 +77,7 @@ export class VotesView {
     // A classifier's out-of-bag trees vote; a regression's are averaged.
     const oobName = classification ? 'out-of-bag vote' : 'out-of-bag mean';
     const missed = r.label !== null && r.oobVote !== null && classification && r.label !== r.oobVote;
+    const oobLeads = r.lead === 'out-of-bag' && !summary.oobUnavailable;
     const head = h(
       'div',
       { class: 'vote-head' },
@@ -90,7 +91,11 @@ export class VotesView {
             say(r.oobVote),
             missed ? h('span', { class: 'miss', title: 'The out-of-bag vote disagrees with the label' }, ' ✗ differs') : null,
           ),
-      stat('agreement', percent(r.agreement, 1)),
+      // The trees that never saw a training row lead; the all-trees answer follows, named for what it includes.
+      oobLeads
+        ? stat('all trees, including those fitted on it', swatchOr(classification, theme, r.allPredicted), say(r.allPredicted))
+        : stat('all trees', swatchOr(classification, theme, r.allPredicted), say(r.allPredicted)),
+      stat(oobLeads ? 'agreement of out-of-bag trees' : 'agreement', percent(r.agreement, 1)),
       classification ? stat('vote entropy', `${fixed(r.entropy, 2)} bits`) : null,
       summary.oobUnavailable ? null : stat('out-of-bag trees', count(r.outOfBag.length)),
       r.interval ? stat(`${Number((r.interval.level * 100).toFixed(1))}% interval`, h('span', { testid: 'row-interval' }, `${num(r.interval.lower)} to ${num(r.interval.upper)}`)) : null,
