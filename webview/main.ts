@@ -196,7 +196,7 @@ function handle(msg: HostToPanel): void {
       matrixView.setMaps(matrix);
       break;
     case 'disagreement':
-      votesView.setRows(msg.rows.slice(0, LIMITS.selectedRows));
+      votesView.setRows(msg.rows.slice(0, LIMITS.selectedRows), msg.selected);
       return; // selection-dependent: not worth restoring
     case 'suspects':
       suspects = msg.rows.slice(0, LIMITS.suspects);

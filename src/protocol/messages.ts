@@ -42,7 +42,8 @@ export type HostMessage =
   | { type: 'regionMap'; map: RegionMap }
   /** Small maps for pairs among the most important features (points optional, usually omitted). */
   | { type: 'mapMatrix'; maps: RegionMap[] }
-  | { type: 'disagreement'; rows: RowVotes[] }
+  /** selected: how many rows are selected in all; rows holds at most LIMITS.selectedRows of them. */
+  | { type: 'disagreement'; rows: RowVotes[]; selected: number }
   | { type: 'suspects'; rows: SuspectRow[] }
   | { type: 'highlight'; rows: number[] }
   | { type: 'status'; state: 'idle' | 'working' | 'error'; text: string; progress: number | null }

@@ -165,7 +165,7 @@ describe('extension explanations (Friedman #1, regression)', function () {
       const direct = predictInterval(index, s.encoded.subarray(r * s.p, r * s.p + s.p), 1, 0.9);
       assert.deepEqual(v.interval, { level: 0.9, lower: direct.lower[0], upper: direct.upper[0] });
     }
-    assert.ok(isHostToPanel({ fit: 'f', type: 'disagreement', rows: votes }));
+    assert.ok(isHostToPanel({ fit: 'f', type: 'disagreement', rows: votes, selected: votes.length }));
     // Another level is computed afresh, not read from the 0.9 table.
     const r = s.numbering.tableRow(2)!;
     const md = (await s.hoverInterval(r, 0.5))!;

@@ -215,7 +215,7 @@ describe('panel explanations, regression', function () {
 
   it('puts the prediction interval beside each row’s votes', async () => {
     const votes = { ...rowVotes(25, 0, 0), counts: [], entropy: null, votes: Array.from({ length: 40 }, (_, t) => 180 + t), interval: { level: 0.9, lower: 171.5, upper: 233.25 } };
-    await p.send({ type: 'disagreement', rows: [votes] });
+    await p.send({ type: 'disagreement', rows: [votes], selected: 1 });
     const head = (await p.page.textContent('[data-testid=disagreement] [data-row="25"] .vote-head')) ?? '';
     // Three significant digits, as every number in the panel.
     assert.match(head, /90% interval 171.5 to 233.3/);

@@ -210,7 +210,7 @@ export function classificationMessages(): HostMessage[] {
     { type: 'regionMap', map: classificationMap() },
     { type: 'mapMatrix', maps: smallMaps() },
     { type: 'suspects', rows: SUSPECTS },
-    { type: 'disagreement', rows: [rowVotes(71, 1, 0.45), rowVotes(12, 0, 0.05)] },
+    { type: 'disagreement', rows: [rowVotes(71, 1, 0.45), rowVotes(12, 0, 0.05)], selected: 2 },
     { type: 'status', state: 'idle', text: 'Fitted 60 trees on 150 rows.', progress: null },
   ];
 }

@@ -415,7 +415,7 @@ describe('panel webview, a forest opened from a file without its training sample
   before(async () => {
     p = await PanelPage.open('light');
     const summary = { ...classificationSummary(), oob: null, curve: [], permutationOn: 'file' as const, oobUnavailable: 'Out-of-bag scores and votes are unavailable here.' };
-    await p.send({ type: 'summary', summary }, { type: 'disagreement', rows: [rowVotes(71, 1, 0.45)] });
+    await p.send({ type: 'summary', summary }, { type: 'disagreement', rows: [rowVotes(71, 1, 0.45)], selected: 1 });
   });
 
   after(async () => {

@@ -61,7 +61,7 @@ describe('protocol guards', () => {
       { type: 'regionMap', map: { ...map, x: { feature: 'a', kind: 'numeric', min: 2, max: 2 } } },
       { type: 'regionMap', map: { ...map, points: { x: [1], y: [], target: [0], row: [1], total: 1 } } },
       // A typed array is not plain data: postMessage to a webview would not keep it.
-      { type: 'disagreement', rows: [{ row: 1, counts: [1], lead: 'all-trees', allPredicted: 0, agreement: 1, entropy: 0, oobVote: 0, label: 0, votes: new Float64Array([0]), outOfBag: [] }] },
+      { type: 'disagreement', rows: [{ row: 1, counts: [1], lead: 'all-trees', allPredicted: 0, agreement: 1, entropy: 0, oobVote: 0, label: 0, votes: new Float64Array([0]), outOfBag: [] }], selected: 1 },
       { type: 'suspects', rows: [{ ...SUSPECTS[0], row: 0 }] },
       { type: 'highlight', rows: [1.5] },
       { type: 'status', state: 'busy', text: '', progress: null },
@@ -114,7 +114,7 @@ describe('protocol guards', () => {
       sweepDone(2),
       { type: 'sweep', state: 'running', progress: 0.5, text: '', result: null },
       { type: 'sweep', state: 'cancelled', progress: null, text: 'Sweep cancelled.', result: null },
-      { type: 'disagreement', rows: [{ ...rowVotes(4, 0, 0.1), interval: { level: 0.9, lower: 1, upper: 2 } }] },
+      { type: 'disagreement', rows: [{ ...rowVotes(4, 0, 0.1), interval: { level: 0.9, lower: 1, upper: 2 } }], selected: 1 },
       ] as HostMessage[]
     ).map((m) => stamp(m));
     for (const m of all) {
@@ -145,8 +145,10 @@ describe('protocol guards', () => {
       { type: 'sweep', state: 'done', progress: null, text: '', result: null },
       { type: 'sweep', state: 'done', progress: null, text: '', result: { ...sweep, points: [] } },
       { type: 'sweep', state: 'busy', progress: null, text: '', result: null },
-      { type: 'disagreement', rows: [{ ...rowVotes(4, 0, 0.1), interval: { level: 0.9, lower: 3, upper: 2 } }] },
-      { type: 'disagreement', rows: [{ ...rowVotes(4, 0, 0.1), interval: { level: 90, lower: 1, upper: 2 } }] },
+      { type: 'disagreement', rows: [{ ...rowVotes(4, 0, 0.1), interval: { level: 0.9, lower: 3, upper: 2 } }], selected: 1 },
+      { type: 'disagreement', rows: [{ ...rowVotes(4, 0, 0.1), interval: { level: 90, lower: 1, upper: 2 } }], selected: 1 },
+      // Fewer rows selected than listed cannot be.
+      { type: 'disagreement', rows: [rowVotes(4, 0, 0.1), rowVotes(5, 0, 0.1)], selected: 1 },
     ];
     for (const m of bad) assert.equal(isHostToPanel({ ...(m as object), fit: 'flowers-fit-1' }), false, JSON.stringify(m)?.slice(0, 160));
   });

@@ -60,6 +60,7 @@ for (const theme of ['dark', 'light'] as ThemeName[]) {
         {
           type: 'disagreement',
           rows: [regressionRow(25, VOTES, 196, 201, [1, 5, 9, 13, 20, 33]), regressionRow(26, VOTES.map((_, t) => 170 + (t % 7) * 3), 230, 180, [2, 4])],
+          selected: 2,
         },
       );
     });
@@ -128,7 +129,7 @@ describe('per-tree values without out-of-bag trees, and a full selection', funct
   after(async () => p?.close());
 
   it('draws one lane and no out-of-bag mark for a forest opened without its training sample', async () => {
-    await p.send({ type: 'disagreement', rows: [regressionRow(7, VOTES, 200, null, [])] });
+    await p.send({ type: 'disagreement', rows: [regressionRow(7, VOTES, 200, null, [])], selected: 1 });
     const s = await readStrip(p, 7);
     assert.deepEqual(s.lanes.map((l) => [l.lane, l.name, l.trees.length]), [['all', 'trees', 40]]);
     // No tree was kept from this row, so the forest's answer is the mean of all trees: marked with its value.
@@ -141,11 +142,13 @@ describe('per-tree values without out-of-bag trees, and a full selection', funct
     assert.match((await p.page.textContent('[data-testid=disagreement] [data-row="7"] .vote-head')) ?? '', /out-of-bag mean\s*unavailable/);
   });
 
-  it('says when the list of selected rows is full and may have been cut short', async () => {
+  it('says how many rows were selected when the list of them is cut short', async () => {
     const rows = Array.from({ length: LIMITS.selectedRows }, (_, i) => regressionRow(100 + i, VOTES, 190, 195, [0, 1]));
-    await p.send({ type: 'disagreement', rows });
+    await p.send({ type: 'disagreement', rows, selected: 135 });
     assert.equal(await p.page.locator('[data-testid=disagreement] .vote-row').count(), 20);
-    assert.match((await p.page.textContent('[data-testid=disagreement]')) ?? '', /The first 20 selected rows; the list stops at 20, so there may be more\./);
+    assert.match((await p.page.textContent('[data-testid=disagreement]')) ?? '', /20 of 135 selected rows\./);
+    await p.send({ type: 'disagreement', rows, selected: rows.length });
+    assert.doesNotMatch((await p.page.textContent('[data-testid=disagreement]')) ?? '', /selected rows\./, 'a list that holds every selected row says nothing about a cut');
     assert.deepEqual(p.errors, []);
   });
 });

@@ -15,6 +15,8 @@ export class VotesView {
   private readonly controls: HTMLElement;
   private readonly note: HTMLElement;
   private rows: RowVotes[] = [];
+  /** How many rows are selected in all; rows holds at most LIMITS.selectedRows of them. */
+  private selected = 0;
   private summary: FitSummary | null = null;
   private theme: Theme | null = null;
 
@@ -35,8 +37,9 @@ export class VotesView {
     this.draw();
   }
 
-  setRows(rows: RowVotes[]): void {
+  setRows(rows: RowVotes[], selected: number = rows.length): void {
     this.rows = rows;
+    this.selected = selected;
     this.draw();
   }
 
@@ -60,10 +63,10 @@ export class VotesView {
     const scale = classification ? null : valueScale(this.rows);
     const say = (v: number | null) => (v === null ? 'n/a' : classification ? (summary.classes[v] ?? `class ${v}`) : num(v));
     for (const r of this.rows) append(this.list, this.rowBlock(r, scale, say));
-    // Only a full list can be cut short; the host does not say how many rows were selected.
+    // Only a full list can be cut short; the host says how many rows were selected in all.
     append(
       this.note,
-      this.rows.length >= LIMITS.selectedRows ? `${listed(this.rows.length, null, LIMITS.selectedRows, 'selected rows')} ` : '',
+      this.selected > this.rows.length ? `${listed(this.rows.length, this.selected, LIMITS.selectedRows, 'selected rows')} ` : '',
       classification
         ? 'One cell per tree. A notch under a cell marks a tree that did not see this row while training: those votes make the out-of-bag answer.'
         : 'One dot per tree, at the value it predicts; dots stack where trees agree. Filled dots are trees that did not see the row while training; the dashed line is their mean, the out-of-bag answer, and the solid line is the row’s own label. For a row the forest did not train on, a dotted line marks the mean of all trees.',

@@ -21,6 +21,8 @@ export interface Shown {
   map?: RegionMap;
   matrix?: RegionMap[];
   rows?: number[];
+  /** How many rows were selected in all (rows holds at most LIMITS.selectedRows). */
+  selected?: number;
   /** The row whose contributions are charted: the first selected, or the one last asked for. */
   explained?: number;
   contributions?: RowContributions;

@@ -147,20 +147,23 @@ export class PanelHost implements vscode.Disposable {
     const s = this.ctx.session;
     if (!s) return;
     const rows = dataRows.slice(0, LIMITS.selectedRows);
-    if (this.shown?.session === s) this.shown.rows = rows;
-    this.postRows(s, rows);
+    if (this.shown?.session === s) {
+      this.shown.rows = rows;
+      this.shown.selected = dataRows.length;
+    }
+    this.postRows(s, rows, dataRows.length);
     this.send(s, { type: 'highlight', rows });
     if (rows.length > 0) void this.guard(this.explain.contributions(rows[0]));
   }
 
   /** Votes at once; again with intervals once the rows' are computed, if the selection has not moved on. */
-  private postRows(s: ForestSession, rows: number[]): void {
+  private postRows(s: ForestSession, rows: number[], selected: number): void {
     const level = this.ctx.settings().explain.intervalLevel;
-    this.send(s, { type: 'disagreement', rows: s.rowVotes(rows, level) });
+    this.send(s, { type: 'disagreement', rows: s.rowVotes(rows, level), selected });
     void this.guard(
       intervalsReady(s, rows, level).then((changed) => {
         if (changed && this.ctx.session === s && (this.shown?.session !== s || this.shown.rows === rows)) {
-          this.send(s, { type: 'disagreement', rows: s.rowVotes(rows, level) });
+          this.send(s, { type: 'disagreement', rows: s.rowVotes(rows, level), selected });
         }
       }),
     );
@@ -328,7 +331,7 @@ export class PanelHost implements vscode.Disposable {
     if (session !== this.ctx.session) return;
     this.send(session, { type: 'mapMatrix', maps: shown.matrix });
     if (shown.rows?.length) {
-      this.postRows(session, shown.rows);
+      this.postRows(session, shown.rows, shown.selected ?? shown.rows.length);
       this.send(session, { type: 'highlight', rows: shown.rows });
     }
     const sweep = this.actions.sweepResult();
