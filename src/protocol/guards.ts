@@ -213,7 +213,7 @@ export function isHostToPanel(v: unknown): v is HostToPanel {
     case 'mapMatrix':
       return isArr(v.maps, isRegionMap);
     case 'disagreement':
-      return isArr(v.rows, isRowVotes) && isInt(v.selected) && (v.selected as number) >= (v.rows as unknown[]).length;
+      return isArr(v.rows, isRowVotes) && isInt(v.selected) && (v.selected) >= (v.rows).length;
     case 'suspects':
       return isArr(v.rows, isSuspect);
     case 'highlight':
