@@ -175,7 +175,23 @@ export class RowVotes {
     if (!this.membership || !oob) return [];
     const truth = Float64Array.from(trainRows, (r) => (this.truth ? this.truth[r] : NaN));
     if (this.task === 'regression') return doubtfulByResidual(truth, Float64Array.from(trainRows, (r) => oob.predicted[r])).rows;
-    const margin = Float64Array.from(trainRows, (r) => this.answer(r).margin ?? NaN);
+    // The margins alone, one pass over the trees per row: the full answers would cost far more on a large table.
+    const m = this.membership;
+    const K = this.K;
+    const counts = new Int32Array(K);
+    const margin = Float64Array.from(trainRows, (r, k) => {
+      const pos = m.trainPos[r];
+      if (pos < 0) return NaN;
+      counts.fill(0);
+      let trees = 0;
+      for (let t = 0; t < this.trees; t++) {
+        if (m.inBag[t * m.trainCount + pos] !== 0) continue;
+        const c = this.vote(t, r);
+        if (c >= 0 && c < K) counts[c]++;
+        trees++;
+      }
+      return voteMargin(counts, truth[k], trees);
+    });
     return doubtfulByMargin(margin);
   }
 
