@@ -51,7 +51,7 @@ export function fitReport(s: FitSummary, seconds: { load: number; fit: number },
   const regression = s.task === 'regression';
   const imp = Object.keys(s.importance.impurity).sort((a, b) => (s.importance.permutation[b] ?? 0) - (s.importance.permutation[a] ?? 0));
   const rise = (v: number | undefined) => (regression ? value(v) : num(v, 4));
-  out += `\nImportance (permutation: rise in out-of-bag ${regression ? 'mean squared error' : 'error'} when the column is shuffled)\n`;
+  out += `\nImportance (permutation: rise in out-of-bag ${regression ? `mean squared error, in ${s.target}²,` : 'error (share of rows misclassified)'} when the column is shuffled)\n`;
   out += table([
     ['feature', 'impurity', 'permutation', '± spread'],
     ...imp.map((f) => [f, num(s.importance.impurity[f]), rise(s.importance.permutation[f]), rise(s.importance.permutationSpread[f])]),
