@@ -104,7 +104,13 @@ export async function pickContextMenu(page: Page, labels: string[], timeoutMs = 
     await page.mouse.up();
   }
   // Menu containers (one more per open submenu) stay in the DOM, emptied and hidden.
-  await page.locator('.context-view.monaco-menu-container').filter({ visible: true }).first().waitFor({ state: 'hidden', timeout: timeoutMs });
+  const open = page.locator('.context-view.monaco-menu-container').filter({ visible: true }).first();
+  // A loaded clean-clone run once left the menu open after the press, its entry still focused: the menu acts
+  // on an item only when it closes, so while it is open nothing ran, and Enter on the focused entry is safe.
+  if (!(await open.waitFor({ state: 'hidden', timeout: Math.min(3_000, timeoutMs) }).then(() => true, () => false))) {
+    await page.keyboard.press('Enter');
+    await open.waitFor({ state: 'hidden', timeout: timeoutMs });
+  }
 }
 
 function exactly(text: string): RegExp {
