@@ -7,7 +7,6 @@ import type { LoadResult } from '../core/csv/types';
 import { cellText, findColumn, type Column } from '../core/data/table';
 import { checkedDraws } from '../core/forest/checked-draws';
 import type { Forest } from '../core/forest/forest';
-import { trainingRowsIn } from '../core/forest/membership';
 import type { Membership } from '../core/forest/predict';
 import { membershipOf, type RowRole } from '../core/forest/row-votes';
 import { knowsTraining } from '../core/open/open';
@@ -44,10 +43,9 @@ export function trainingOf(forest: Forest, loaded: LoadResult, encoded: Float64A
     const dropped = loaded.dropped.find((d) => d.name === forest.schema.target.name);
     return { unknown: `its column "${forest.schema.target.name}" was left out${dropped ? ` (${dropped.reason})` : ''}.` };
   }
-  const checked = checkedDraws(forest, table, encoded, loaded.fingerprint, []);
-  if (typeof checked === 'string') return { unknown: checked };
-  const rows = trainingRowsIn(forest, table, loaded.fingerprint);
-  if ('unknown' in rows) return { unknown: `${rows.unknown}.` };
+  // The checked draws are the recovered ones: no second draw from the seed.
+  const rows = checkedDraws(forest, table, encoded, loaded.fingerprint, []);
+  if (typeof rows === 'string') return { unknown: rows };
   return { view: { membership: membershipOf(rows.trainRows, table.rowCount, rows.inBag), holdout: new Set(rows.holdoutRows ?? []) } };
 }
 

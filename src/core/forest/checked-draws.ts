@@ -9,16 +9,16 @@ import { findColumn, type Table } from '../data/table';
 import { outOfBagTrees } from './bootstrap';
 import { rowWeights } from './fit';
 import type { Forest } from './forest';
-import { trainingRowsIn } from './membership';
+import { trainingRowsIn, type TrainingRows } from './membership';
 import { leafOf, levelCounts } from './predict';
+import { membershipOf } from './row-votes';
 import { codesFor } from './target';
 
 /** Row walks spent checking covers: whole trees until this many (at least one tree), so a large file stays quick. */
 const CHECK_WALKS = 4_000_000;
 
-export interface CheckedDraws {
-  /** Table rows the forest was trained on, in training order. */
-  readonly trainRows: Int32Array;
+/** The recovered training rows and draws (see membership.ts), once checked against the trees. */
+export interface CheckedDraws extends TrainingRows {
   /**
    * Per asked-for table row, the trees that never drew it (ascending); null for a row the forest was not
    * trained on (held out, or without a target), which no tree drew.
@@ -66,8 +66,7 @@ export function checkedDraws(forest: Forest, table: Table, x: Float64Array, fing
       }
     }
   }
-  const position = new Int32Array(table.rowCount).fill(-1);
-  trainRows.forEach((r, i) => (position[r] = i));
+  const position = membershipOf(trainRows, table.rowCount, inBag).trainPos;
   const outOfBag = tableRows.map((r) => (position[r] < 0 ? null : outOfBagTrees(inBag, T, n, position[r])));
-  return { trainRows, outOfBag, checkedTrees };
+  return { ...recovered, outOfBag, checkedTrees };
 }

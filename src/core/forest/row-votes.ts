@@ -6,6 +6,7 @@
 //
 // Everything here reads the flat arrays core's scoring produced, so a hover costs O(trees).
 
+import { outOfBagTrees } from './bootstrap';
 import { doubtfulByMargin, doubtfulByResidual, type Doubt } from './doubtful';
 import type { Task } from './params';
 import type { Membership, Prediction } from './predict';
@@ -122,9 +123,7 @@ export class RowVotes {
     const m = this.membership;
     const pos = this.trainingIndex(r);
     if (!m || pos < 0) return undefined;
-    const out: number[] = [];
-    for (let t = 0; t < this.trees; t++) if (m.inBag[t * m.trainCount + pos] === 0) out.push(t);
-    return out;
+    return Array.from(outOfBagTrees(m.inBag, this.trees, m.trainCount, pos));
   }
 
   role(r: number): RowRole {
