@@ -1,5 +1,6 @@
 // The CSV loader's public entry points.
 
+import { gzipFileSource, sniffFormat } from './gzip';
 import { loadFromSource } from './loader';
 import { fileSource, textSource } from './sources';
 import type { LoadOptions, LoadResult } from './types';
@@ -8,7 +9,7 @@ export { DataError, DEFAULT_MAX_LEVELS, DEFAULT_MISSING_TOKENS } from './types';
 export type { LoadOptions, LoadResult } from './types';
 
 /**
- * Reads a CSV file into typed columns, streaming it (the text is never held whole) and never writing to it.
+ * Reads a CSV file (plain or gzip-compressed) into typed columns, streaming it (the text is never held whole) and never writing to it.
  *
  * - Header row first; delimiter detected among , ; TAB | unless given; UTF-8 with or without BOM; any of
  *   LF, CRLF, CR line ends; RFC 4180 quoting (delimiters and line breaks inside quotes). Cells are trimmed;
@@ -20,7 +21,10 @@ export type { LoadOptions, LoadResult } from './types';
  *   where they apply. Lines are 1-based physical lines; `table.lineOfRow[i]` is where data row i starts.
  * - `signal` stops the load; it then rejects with a DOMException named 'AbortError'.
  */
-export function loadCsv(path: string, options?: LoadOptions): Promise<LoadResult> {
+export async function loadCsv(path: string, options?: LoadOptions): Promise<LoadResult> {
+  // By content, not by name: a .gz (or a gzip file under any name) is decompressed as it streams.
+  const format = await sniffFormat(path);
+  if (format === 'gzip') return loadFromSource(gzipFileSource(path), options);
   return loadFromSource(fileSource(path), options);
 }
 
