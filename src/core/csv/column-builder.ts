@@ -108,6 +108,25 @@ export class ColumnBuilder {
     this.textHash[slot] = hashText(s);
   }
 
+  /** A cell that is a number already (a typed file's column): what `add` does once a cell has parsed, NaN missing. */
+  addNumber(v: number, slot: number): void {
+    if (slot >= this.filled) this.filled = slot + 1;
+    this.values[slot] = v;
+    if (v !== v) {
+      if (this.codes !== null) this.codes[slot] = -1;
+      if (this.textHash !== null) this.textHash[slot] = NaN;
+      if (this.dates !== null) this.dates[slot] = NaN;
+      return;
+    }
+    this.numbers++;
+    if (this.datesPossible) this.stopDates();
+    if (this.state === OPEN) {
+      const code = this.exactText ? this.textCode(String(v)) : this.numberCode(v);
+      if (this.codes !== null) this.codes[slot] = code;
+    }
+    if (this.textHash !== null) this.textHash[slot] = NaN;
+  }
+
   /** Whether the cell in `slot` holds text (not a number, not missing). */
   isText(slot: number): boolean {
     const v = this.values[slot];

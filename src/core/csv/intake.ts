@@ -45,7 +45,8 @@ export class Intake {
     this.reservoir = config.sample ? new Reservoir(config.sample.rows, config.sample.seed) : null;
   }
 
-  readonly onRecord = (fields: string[], line: number): void => {
+  /** One record: text cells from a CSV, or from a typed file text and numbers (a number is never cleaned; NaN is missing). */
+  readonly onRecord = (fields: readonly (string | number)[], line: number): void => {
     if (this.failure !== null) return;
     if (this.header === null) {
       this.takeHeader(fields, line);
@@ -57,7 +58,8 @@ export class Intake {
     }
     this.rowsRead++;
     const t = this.targetIndex;
-    if (t >= 0 && this.config.cleaner.clean(fields[t]).length === 0) {
+    const targetCell = t >= 0 ? fields[t] : 0;
+    if (t >= 0 && (typeof targetCell === 'number' ? targetCell !== targetCell : this.config.cleaner.clean(targetCell).length === 0)) {
       if (this.missingTarget++ === 0) this.firstMissingTargetLine = line;
       return;
     }
@@ -73,7 +75,10 @@ export class Intake {
     const builders = this.builders;
     for (let j = 0; j < builders.length; j++) {
       const b = builders[j];
-      if (b !== null) b.add(fields[j], slot);
+      if (b === null) continue;
+      const cell = fields[j];
+      if (typeof cell === 'number') b.addNumber(cell, slot);
+      else b.add(cell, slot);
     }
   };
 
@@ -90,9 +95,9 @@ export class Intake {
     for (const b of this.builders) b?.grow(capacity);
   }
 
-  private takeHeader(raw: string[], line: number): void {
+  private takeHeader(raw: readonly (string | number)[], line: number): void {
     const { label } = this.config;
-    const names = raw.map((n) => n.trim());
+    const names = raw.map((n) => String(n).trim());
     this.headerLine = line;
     for (let j = 0; j < names.length; j++) {
       if (names[j] === '') {

@@ -2,6 +2,7 @@
 
 import { gzipFileSource, sniffFormat } from './gzip';
 import { loadFromSource } from './loader';
+import { loadParquet } from './parquet/load';
 import { fileSource, textSource } from './sources';
 import type { LoadOptions, LoadResult } from './types';
 
@@ -9,7 +10,7 @@ export { DataError, DEFAULT_MAX_LEVELS, DEFAULT_MISSING_TOKENS } from './types';
 export type { LoadOptions, LoadResult } from './types';
 
 /**
- * Reads a CSV file (plain or gzip-compressed) into typed columns, streaming it (the text is never held whole) and never writing to it.
+ * Reads a CSV file (plain or gzip-compressed) or a Parquet file (src/core/csv/parquet) into typed columns, streaming it (the text is never held whole) and never writing to it.
  *
  * - Header row first; delimiter detected among , ; TAB | unless given; UTF-8 with or without BOM; any of
  *   LF, CRLF, CR line ends; RFC 4180 quoting (delimiters and line breaks inside quotes). Cells are trimmed;
@@ -25,6 +26,7 @@ export async function loadCsv(path: string, options?: LoadOptions): Promise<Load
   // By content, not by name: a .gz (or a gzip file under any name) is decompressed as it streams.
   const format = await sniffFormat(path);
   if (format === 'gzip') return loadFromSource(gzipFileSource(path), options);
+  if (format === 'parquet') return loadParquet(path, options);
   return loadFromSource(fileSource(path), options);
 }
 

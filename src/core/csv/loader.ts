@@ -182,7 +182,7 @@ export async function loadFromSource(source: ByteSource, options: LoadOptions = 
   });
 }
 
-interface FinishConfig {
+export interface FinishConfig {
   readonly label: string;
   readonly target?: string;
   readonly columnTypes: Readonly<Record<string, ColumnKind | 'exclude'>>;
@@ -200,7 +200,8 @@ function gatherLines(lineOfSlot: Int32Array, order: Int32Array | null, n: number
   return lines;
 }
 
-function finishLoad(intake: Intake, config: FinishConfig): LoadResult {
+/** The table from everything an intake took in; shared by the CSV and Parquet readers. */
+export function finishLoad(intake: Intake, config: FinishConfig): LoadResult {
   const { label, target, columnTypes, maxLevels } = config;
   const header = intake.header;
   if (header === null) throw new DataError(`${label} is empty: there is no header row.`);
