@@ -4,7 +4,8 @@ import type { Forest } from '../../core/forest/forest';
 import { predictInWorkers } from '../../core/forest/parallel-predict';
 import { encodeTable, predictEncoded, type Prediction } from '../../core/forest/predict';
 import { targetCodes } from '../../core/forest/target';
-import { loadForScoring, predictionColumns, writePredictions, type AddedColumns, type IntervalCells } from '../../core/forest/score-file';
+import { loadForScoring, predictionColumns, type AddedColumns, type IntervalCells } from '../../core/forest/score-file';
+import { writeScored } from '../../core/forest/score-formats';
 import { classificationScores, regressionScores } from '../../core/metrics/scores';
 import { dataRowOf, scoresSummary } from '../../core/summary/fit';
 import type { ScoresSummary } from '../../core/summary/types';
@@ -26,7 +27,7 @@ the all-trees columns look better than the forest is on rows the trees were fitt
 
 Options:
 ${optionList([
-  ['--out OUT.csv', "write the input columns plus the prediction, each class's probability (or the value)\nand the share of trees that agree (or the spread of the trees' values); never the input file"],
+  ['--out OUT.csv', "write the input columns plus the prediction, each class's probability (or the value)\nand the share of trees that agree (or the spread of the trees' values); never the input file;\nOUT.parquet writes Parquet, any other name CSV (DATA may be CSV, .csv.gz or Parquet)"],
   ['--interval LEVEL', 'regression: add a prediction interval at this level, such as 0.9 (quantile regression\nforest, Meinshausen 2006); needs --training'],
   ['--training TRAIN.csv', "the file the forest was fitted on (checked against the model's fingerprint)"],
   ['--json', 'print one JSON object: rows, columns, timings, and the predictions unless --out is given'],
@@ -91,7 +92,7 @@ export async function runPredict(argv: string[]): Promise<void> {
   if (out) {
     const rowOf = new Map<number, number>();
     for (let i = 0; i < table.rowCount; i++) rowOf.set(dataRowOf(table, i), i);
-    await writePredictions(dataPath, out, loaded.delimiter, added, (k) => rowOf.get(k + 1) ?? -1).catch((e) => {
+    await writeScored(dataPath, out, loaded.delimiter, added, textColumns, (k) => rowOf.get(k + 1) ?? -1).catch((e) => {
       throw writeFailure(e, out);
     });
   }

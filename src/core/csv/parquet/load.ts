@@ -2,19 +2,18 @@
 // reader's own intake and column builders, so kinds, drop rules, samples and overrides are the same.
 
 import { open, stat } from 'node:fs/promises';
-import type { AsyncBuffer, Compressors, FileMetaData } from 'hyparquet' with { 'resolution-mode': 'import' };
+import type { AsyncBuffer, FileMetaData } from 'hyparquet' with { 'resolution-mode': 'import' };
 import { CellCleaner } from '../cells';
 import { Intake } from '../intake';
 import { finishLoad } from '../loader';
 import { describeReadError } from '../sources';
 import { DataError, DEFAULT_MAX_LEVELS, DEFAULT_MISSING_TOKENS, type LoadOptions, type LoadResult } from '../types';
-import { count, plural, q } from '../wording';
+import { plural, q } from '../wording';
+import { readChunk, reason, type Hyparquet } from './chunk';
 import { checkChunks, digestFile, rangeReader } from './file';
 import { planColumns, TEXT_DATES, toCell, type CellMode, type ColumnPlan } from './schema';
 
 const DEFAULT_SEED = 1;
-
-type Hyparquet = typeof import('hyparquet', { with: { 'resolution-mode': 'import' } });
 
 function abortError(label: string): DOMException {
   return new DOMException(`Loading ${label} was stopped.`, 'AbortError');
@@ -25,10 +24,6 @@ function inRows(text: string): string {
   return text.replace(/\bon line (\d+)/g, 'in row $1').replace(/\bline (\d+)/g, 'row $1');
 }
 
-function reason(err: unknown): string {
-  const m = err instanceof Error ? err.message : String(err);
-  return m.replace(/^parquet /, '').replace(/\.$/, '');
-}
 
 async function readMetadata(hp: Hyparquet, file: AsyncBuffer, label: string): Promise<FileMetaData> {
   if (file.byteLength < 12) throw new DataError(`${label} is too short to be a Parquet file (${plural(file.byteLength, 'byte')}).`);
@@ -95,7 +90,7 @@ export async function loadParquet(path: string, options: LoadOptions = {}): Prom
       const cells: ArrayLike<unknown>[] = [];
       for (const plan of read) {
         if (signal?.aborted) throw abortError(label);
-        cells.push(await readChunk(hp, compressors, file, meta, plan.name, g, rowStart, rows, label));
+        cells.push(await readChunk({ hp, compressors, file, metadata: meta, label, parsers: TEXT_DATES }, plan.name, g, rowStart, rows));
       }
       for (let i = 0; i < rows; i++) {
         for (let c = 0; c < read.length; c++) fields[readIndex[c]] = toCell(read[c].mode, cells[c][i]);
@@ -125,48 +120,4 @@ export async function loadParquet(path: string, options: LoadOptions = {}): Prom
   } finally {
     await handle.close();
   }
-}
-
-/** One column chunk of one row group, decoded; any failure is one sentence naming both. */
-async function readChunk(
-  hp: Hyparquet,
-  compressors: Compressors,
-  file: AsyncBuffer,
-  metadata: FileMetaData,
-  name: string,
-  group: number,
-  rowStart: number,
-  rows: number,
-  label: string,
-): Promise<ArrayLike<unknown>> {
-  const out = new Array<unknown>(rows);
-  let filled = 0;
-  try {
-    await hp.parquetRead({
-      file,
-      metadata,
-      columns: [name],
-      rowStart,
-      rowEnd: rowStart + rows,
-      compressors,
-      parsers: TEXT_DATES,
-      onChunk: ({ columnData, rowStart: at }) => {
-        // Chunks may reach outside the requested rows; keep only this group's.
-        for (let k = 0; k < columnData.length; k++) {
-          const i = at + k - rowStart;
-          if (i >= 0 && i < rows) {
-            out[i] = columnData[k];
-            filled++;
-          }
-        }
-      },
-    });
-  } catch (err) {
-    if (err instanceof DataError) throw err;
-    throw new DataError(`${label}: column ${q(name)} in row group ${group + 1} could not be decoded (${reason(err)}); the file is damaged or truncated.`);
-  }
-  if (filled < rows) {
-    throw new DataError(`${label}: column ${q(name)} in row group ${group + 1} holds ${count(filled)} values for ${plural(rows, 'row')}; the file is damaged.`);
-  }
-  return out;
 }
