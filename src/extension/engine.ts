@@ -22,6 +22,7 @@ export { encodeTable, SchemaMismatchError } from '../core/forest/predict';
 export { Scorer } from '../core/forest/scorer';
 export { saveModel, loadModel } from '../core/model/file';
 export { predictionColumns, writePredictions } from '../core/forest/score-file';
+export { writeScored } from '../core/forest/score-formats';
 // Explanations. The slow ones (contributions, dependence, intervals) run in src/extension/workers.
 export {
   ContributionExplainer,

@@ -28,17 +28,17 @@ describe('extension manifest', () => {
     for (const c of contributed) assert.equal(c.category, 'Copse');
   });
 
-  it('offers fit, open and predict on .csv and .tsv files in the explorer and the editor title', () => {
+  it('offers fit, open and predict on .csv, .tsv, their .gz copies and .parquet files in the explorer and the editor title', () => {
     for (const menu of ['explorer/context', 'editor/title']) {
       const items = pkg.contributes.menus[menu];
       for (const id of ['copse.fit', 'copse.openModel', 'copse.predictToFile']) {
         const item = items.find((i) => i.command === id);
         assert.ok(item, `${id} in ${menu}`);
-        const re = /resourceExtname =~ \/(.*)\/i/.exec(item.when);
+        const re = /resourceFilename =~ \/(.*)\/i/.exec(item.when);
         assert.ok(re, item.when);
-        const ext = new RegExp(re[1], 'i');
-        for (const ok of ['.csv', '.TSV']) assert.match(ok, ext);
-        for (const no of ['.json', '.csvx', '.txt']) assert.doesNotMatch(no, ext);
+        const name = new RegExp(re[1], 'i');
+        for (const ok of ['a.csv', 'b.TSV', 'c.csv.gz', 'd.tsv.GZ', 'e.parquet']) assert.match(ok, name);
+        for (const no of ['a.json', 'a.csvx', 'a.txt', 'a.gz', 'a.parquet.json', 'a.csv.gz.txt']) assert.doesNotMatch(no, name);
       }
     }
   });

@@ -3,12 +3,14 @@
 
 import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { encodeTable, predictionColumns, writePredictions } from '../engine';
+import { encodeTable, predictionColumns, writeScored } from '../engine';
 import { samePath } from '../editor/csvDocuments';
 import { guarded, readCsv, requireFile, resolveCsv } from '../fit/fitFlow';
 import { COMMANDS, type Host } from './host';
 
 export function suggestedOutputPath(input: string): string {
+  // A compressed CSV is scored into plain CSV; Parquet into Parquet.
+  if (/\.gz$/i.test(input)) input = input.slice(0, -3);
   const ext = path.extname(input) || '.csv';
   return path.join(path.dirname(input), `${path.basename(input, ext)}.predictions${ext}`);
 }
@@ -30,7 +32,7 @@ export function registerPredictToFile(host: Host): vscode.Disposable {
       const out = await vscode.window.showSaveDialog({
         title: 'Copse: write the predictions to',
         defaultUri: vscode.Uri.file(suggestedOutputPath(inputPath)),
-        filters: { 'Delimited text': [path.extname(inputPath).slice(1) || 'csv'] },
+        filters: /\.parquet$/i.test(inputPath) ? { Parquet: ['parquet'], 'Delimited text': ['csv'] } : { 'Delimited text': [path.extname(suggestedOutputPath(inputPath)).slice(1) || 'csv'], Parquet: ['parquet'] },
       });
       if (!out) return;
       const outPath = requireFile(out);
@@ -50,11 +52,12 @@ export function registerPredictToFile(host: Host): vscode.Disposable {
       // The same writer as `copse predict --out`: records copied as they stand, written atomically.
       const rowOf = new Map<number, number>();
       for (let i = 0; i < table.rowCount; i++) rowOf.set(table.rowNumber ? table.rowNumber[i] : i + 1, i);
-      await writePredictions(inputPath, outPath, delimiter, added, (k) => rowOf.get(k + 1) ?? -1);
+      const textColumns = session.forest.schema.target.task === 'classification' ? [0] : [];
+      await writeScored(inputPath, outPath, delimiter, added, textColumns, (k) => rowOf.get(k + 1) ?? -1);
       ctx.log.info(`Predicted ${prediction.rows} rows of ${inputPath} into ${outPath} (${added.names.join(', ')}) in ${Math.round(performance.now() - started)} ms.`);
       const openIt = 'Open';
       const answer = await vscode.window.showInformationMessage(`Copse: wrote ${prediction.rows} predictions to ${path.basename(outPath)}.`, openIt);
-      if (answer === openIt) await vscode.window.showTextDocument(vscode.Uri.file(outPath));
+      if (answer === openIt) await vscode.commands.executeCommand('vscode.open', vscode.Uri.file(outPath));
     }),
   );
 }

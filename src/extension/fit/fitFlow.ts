@@ -31,7 +31,7 @@ export async function resolveCsv(uri: vscode.Uri | undefined, title: string): Pr
   const picked = await vscode.window.showOpenDialog({
     title,
     canSelectMany: false,
-    filters: { 'Delimited text': ['csv', 'tsv', 'txt'], 'All files': ['*'] },
+    filters: { Tables: ['csv', 'tsv', 'txt', 'gz', 'parquet'], 'All files': ['*'] },
   });
   return picked?.[0];
 }
