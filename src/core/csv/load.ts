@@ -25,8 +25,8 @@ export type { LoadOptions, LoadResult } from './types';
 export async function loadCsv(path: string, options?: LoadOptions): Promise<LoadResult> {
   // By content, not by name: a .gz (or a gzip file under any name) is decompressed as it streams.
   const format = await sniffFormat(path);
-  if (format === 'gzip') return loadFromSource(gzipFileSource(path), options);
-  if (format === 'parquet') return loadParquet(path, options);
+  if (format === 'gzip') return { ...(await loadFromSource(gzipFileSource(path), options)), format };
+  if (format === 'parquet') return { ...(await loadParquet(path, options)), format };
   return loadFromSource(fileSource(path), options);
 }
 

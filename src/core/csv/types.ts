@@ -34,6 +34,8 @@ export interface LoadResult {
   /** sha256 of the file's bytes, hex. */
   readonly fingerprint: string;
   readonly header: readonly string[];
+  /** What the file was: text (a CSV, or text in memory), gzip-compressed text, or Parquet. Absent means text. */
+  readonly format?: 'text' | 'gzip' | 'parquet';
 }
 
 export const DEFAULT_MAX_LEVELS = 1000;

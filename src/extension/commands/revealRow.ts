@@ -22,6 +22,11 @@ export async function revealRow(ctx: CopseContext, dataRow: number, panelColumn?
     void vscode.window.showInformationMessage(`Copse: row ${dataRow} is not among the rows the forest was fitted on.`);
     return;
   }
+  if (s.source.load.format === 'parquet' || s.source.load.format === 'gzip') {
+    // No text lines to open (Parquet) or none the editor can show (compressed): the row's votes stand in.
+    await vscode.commands.executeCommand(COMMANDS.showRowVotes, { row: dataRow });
+    return;
+  }
   const line = s.table.lineOfRow[t] - 1;
   const doc = await vscode.workspace.openTextDocument(vscode.Uri.file(s.source.path));
   const at = new vscode.Range(line, 0, line, 0);

@@ -30,6 +30,7 @@ describe('gzip-compressed text', () => {
       const before = snapshot(file);
       const r = await loadCsv(file, { target: 'label' });
       assert.deepEqual(r.table, plain.table, name);
+      assert.equal(r.format, 'gzip', `${name}: callers learn there are no editor lines to open`);
       assert.deepEqual(r.notes, plain.notes, name);
       assert.deepEqual(r.dropped, plain.dropped, name);
       assert.equal(r.fingerprint, plain.fingerprint, `${name}: the fingerprint is of the text, so a forest knows its training rows in either form`);

@@ -52,6 +52,7 @@ describe('Parquet input', function () {
       label: 'boolean',
     });
     assert.equal(r.table.rowCount, ROWS);
+    assert.equal(r.format, 'parquet');
     assert.deepEqual(numeric(r, 'small_int').slice(0, 3), [0, 1, 2]);
     assert.deepEqual(numeric(r, 'price').slice(5, 7), [1.25, 1.5]); // 5/4 and 6/4 to two places
     assert.deepEqual(texts(r, 'wood').slice(0, 3), [null, 'ash', 'elm']);
