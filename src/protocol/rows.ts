@@ -43,3 +43,6 @@ export interface SuspectRow {
   /** The out-of-bag trees' class code, or their mean value. */
   oobPredicted: number;
 }
+
+// The rows table's page requests and replies; their shapes live in core beside the model that answers them.
+export type { RowsTablePage, RowsTableQuery, RowsTableRequest, RowsTableRow, RowsTableSortKey } from '../core/summary/rows-table-types';
