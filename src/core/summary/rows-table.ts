@@ -55,9 +55,12 @@ export class RowsTable {
       for (let i = 0; i < this.n; i++) if (r.oobTrees[i] > 0) this.predicted[i] = value[i];
       const { rows, scale } = doubtfulByResidual(r.truth, value);
       for (const d of rows) this.doubtful[d.index] = 1;
-      // The residual in doubtful.ts's robust standard deviations, the scale its cut is on.
+      // The modified z-score doubtful.ts cuts on: the residual less their median, in robust standard deviations.
+      const finite = Array.from(r.truth, (y, i) => y - value[i]).filter(Number.isFinite).sort((a, b) => a - b);
+      const h = finite.length >> 1;
+      const centre = finite.length % 2 ? finite[h] : (finite[h - 1] + finite[h]) / 2;
       for (let i = 0; i < this.n; i++) {
-        if (r.oobTrees[i] > 0 && scale > 0) this.score[i] = (r.truth[i] - value[i]) / scale;
+        if (r.oobTrees[i] > 0 && scale > 0) this.score[i] = (r.truth[i] - value[i] - centre) / scale;
       }
     }
   }
