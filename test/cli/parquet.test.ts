@@ -87,6 +87,6 @@ describe('copse on Parquet and gzip files', function () {
     const gzToParquet = path.join(dir, 'from-gz.parquet');
     assert.equal(copse('predict', model, gz, '--out', gzToParquet).code, 0);
     const fromGz = await hp.parquetReadObjects({ file: await hp.asyncBufferFromFile(gzToParquet) });
-    assert.deepEqual(fromGz.map((row) => row.predicted_outcome), rows.map((row) => row.predicted_outcome));
+    assert.deepEqual(fromGz.map((row): unknown => row.predicted_outcome), rows.map((row): unknown => row.predicted_outcome));
   });
 });

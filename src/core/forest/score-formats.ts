@@ -142,11 +142,11 @@ async function toParquet(batches: AsyncGenerator<Batch>, tmp: string, added: Add
       });
       writer = new hw.ParquetWriter({ writer: hw.fileWriter(tmp), schema, codec: 'SNAPPY' });
     }
-    writer.write({ columnData, rowGroupSize: BATCH_ROWS });
+    await writer.write({ columnData, rowGroupSize: BATCH_ROWS });
     first += batch.rows;
   }
   if (writer === null) throw new Error('the input has no rows to write');
-  writer.finish();
+  await writer.finish();
 }
 
 async function toCsv(batches: AsyncGenerator<Batch>, tmp: string, added: AddedColumns, rowOfRecord: (k: number) => number): Promise<void> {
@@ -177,7 +177,9 @@ function cellText(v: unknown, element?: SchemaElement): string {
     const iso = v.toISOString();
     return element?.converted_type === 'DATE' || element?.logical_type?.type === 'DATE' ? iso.slice(0, 10) : iso;
   }
-  return String(v);
+  if (typeof v === 'string') return v;
+  if (typeof v === 'number' || typeof v === 'bigint' || typeof v === 'boolean') return String(v);
+  return JSON.stringify(v) ?? '';
 }
 
 function closeSink(sink: WriteStream): Promise<void> {

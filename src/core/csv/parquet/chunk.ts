@@ -1,10 +1,11 @@
 // One column chunk of one row group, decoded on its own: memory stays at one chunk, and a failure can name both.
 
+import type * as HyparquetModule from 'hyparquet' with { 'resolution-mode': 'import' };
 import type { AsyncBuffer, Compressors, FileMetaData, ParquetParsers } from 'hyparquet' with { 'resolution-mode': 'import' };
 import { DataError } from '../types';
 import { count, plural, q } from '../wording';
 
-export type Hyparquet = typeof import('hyparquet', { with: { 'resolution-mode': 'import' } });
+export type Hyparquet = typeof HyparquetModule;
 
 export interface ChunkReading {
   readonly hp: Hyparquet;

@@ -12,7 +12,8 @@ export type CellMode = 'number' | 'text' | 'boolean' | 'date';
 
 export type ColumnPlan = { readonly name: string; readonly mode: CellMode } | { readonly name: string; readonly unsupported: string };
 
-function leafMode(e: SchemaElement): CellMode | string {
+/** A cell mode, or what the column holds when Copse cannot read it. */
+function leafMode(e: SchemaElement): string {
   const logical = e.logical_type?.type;
   const converted = e.converted_type;
   if (logical === 'DATE' || logical === 'TIMESTAMP' || converted === 'DATE' || converted === 'TIMESTAMP_MILLIS' || converted === 'TIMESTAMP_MICROS') {
@@ -72,17 +73,23 @@ export const TEXT_DATES = {
   timestampFromNanoseconds: (ns: bigint): string => isoDate(Number(ns / 1_000_000n)),
 };
 
+/** Text for a value that is not one of the kinds its column promised (a writer's oddity), rather than a crash. */
+function asText(v: unknown): string {
+  if (typeof v === 'string') return v;
+  if (typeof v === 'number' || typeof v === 'bigint' || typeof v === 'boolean') return String(v);
+  if (v instanceof Date) return Number.isNaN(v.getTime()) ? '' : v.toISOString();
+  return JSON.stringify(v) ?? '';
+}
+
 /** A decoded Parquet value as a cell: a number (NaN missing) or text ('' missing), as CellMode says. */
 export function toCell(mode: CellMode, v: unknown): string | number {
   if (v === null || v === undefined) return mode === 'number' ? NaN : '';
   switch (mode) {
     case 'number':
-      return typeof v === 'bigint' ? Number(v) : typeof v === 'number' ? v : Number(v);
+      return typeof v === 'number' ? v : typeof v === 'bigint' ? Number(v) : Number(asText(v));
     case 'boolean':
-      return v === true ? 'true' : v === false ? 'false' : String(v);
-    case 'date':
-      return v instanceof Date ? (Number.isNaN(v.getTime()) ? '' : v.toISOString()) : String(v);
+      return v === true ? 'true' : v === false ? 'false' : asText(v);
     default:
-      return typeof v === 'string' ? v : String(v);
+      return asText(v);
   }
 }
