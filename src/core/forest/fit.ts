@@ -48,6 +48,11 @@ export interface FitOptions {
    * at once on a thread that must stay responsive (the editor), rather than drawing them again from the seed.
    */
   readonly keepInBag?: boolean;
+  /**
+   * The rows to train on and the rows to score, as table rows with a target (cross-validation's folds),
+   * instead of the seeded `holdout` split.
+   */
+  readonly split?: { readonly train: Int32Array; readonly holdout: Int32Array };
 }
 
 export interface Importance {
@@ -68,6 +73,8 @@ export interface FitReport {
   readonly oob: Scores;
   readonly test?: Scores;
   readonly testPrediction?: Prediction;
+  /** The holdout or test rows' truth, in testPrediction's order: class codes (-1: unknown) or values (NaN). */
+  readonly testTruth?: Float64Array;
   readonly curve: Float64Array;
   readonly importance: Importance;
   /** Training rows the forest doubts (index: the training row), most doubtful first. */
@@ -95,7 +102,7 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
   }
 
   const holdoutCount = options.holdout ? Math.max(1, Math.floor(encoded.rows.length * options.holdout)) : 0;
-  const { train, holdout } = splitRows(encoded.rows, holdoutCount, params.seed);
+  const { train, holdout } = options.split ?? splitRows(encoded.rows, holdoutCount, params.seed);
   const trainY = targetOf(encoded, train);
   const { infos, notes } = describeFeatures(featureColumns, train);
   const schema: Schema = { features: infos, target: { name: options.target, task, classes: encoded.classes } };
@@ -146,13 +153,16 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
   const oob = fold.scores(encoded.classes ?? []);
   let test: Scores | undefined;
   let testPrediction: Prediction | undefined;
+  let testTruth: Float64Array | undefined;
   if (holdout) {
-    ({ scores: test, prediction: testPrediction } = await scoreRows(forest, table, holdout, targetOf(encoded, holdout)));
+    testTruth = targetOf(encoded, holdout);
+    ({ scores: test, prediction: testPrediction } = await scoreRows(forest, table, holdout, testTruth));
   } else if (options.test) {
     const testTarget = findColumn(options.test, options.target);
     if (!testTarget) throw new RangeError(`The test data has no column "${options.target}".`);
     const truth = task === 'classification' ? codesFor(testTarget, encoded.classes!) : Float64Array.from(testTarget.kind === 'numeric' ? testTarget.values : []);
     const all = Int32Array.from({ length: options.test.rowCount }, (_, i) => i);
+    testTruth = truth;
     ({ scores: test, prediction: testPrediction } = await scoreRows(forest, options.test, all, truth));
   }
   const fitNotes = [...notes];
@@ -165,6 +175,7 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
     oob,
     test,
     testPrediction,
+    testTruth,
     curve: fold.curve,
     importance: fold.importance(),
     suspects: fold.suspects(),

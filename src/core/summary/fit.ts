@@ -3,8 +3,10 @@ import { cautions } from '../checks/cautions';
 import { findColumn, type Column, type Table } from '../data/table';
 import type { FitReport } from '../forest/fit';
 import { resolveFeaturesPerSplit } from '../forest/params';
+import { evaluateProbabilities } from '../metrics/evaluation';
+import { predictionPairs } from '../metrics/residual-plot';
 import { argmaxAt } from '../metrics/scores';
-import { byName, residualSummary, scoresSummary, suspectRows } from './parts';
+import { byName, residualSummary, scoresSummary, suspectRows, type ScoresExtra } from './parts';
 import type { FitSummary } from './types';
 
 export { byName, dataRowOf, residualSummary, scoresSummary } from './parts';
@@ -68,8 +70,8 @@ export function summarizeFit(report: FitReport, table: Table, extra: FitSummaryE
       classWeight: p.classWeight,
       seed: p.seed,
     },
-    oob: scoresSummary(oob, classes, residuals),
-    test: report.test ? scoresSummary(report.test, classes) : undefined,
+    oob: scoresSummary(oob, classes, residuals, oobExtra(report, classes)),
+    test: report.test ? scoresSummary(report.test, classes, undefined, testExtra(report, classes)) : undefined,
     testFrom: report.test ? (extra.testFrom ?? (report.holdoutRows ? 'holdout' : 'test')) : undefined,
     importance: {
       impurity: byName(names, report.importance.impurity),
@@ -91,4 +93,20 @@ export function summarizeFit(report: FitReport, table: Table, extra: FitSummaryE
     warnings: [...(extra.warnings ?? [])],
     fitSeconds: report.seconds.fit,
   };
+}
+
+/** Ranking and calibration of the out-of-bag probabilities, or predicted against actual, over rows with out-of-bag trees. */
+function oobExtra(report: FitReport, classes: readonly string[]): ScoresExtra {
+  const { truth, oobProba, oobValue, oobTrees } = report.rows;
+  const has = (i: number) => oobTrees[i] > 0;
+  if (oobProba) return { evaluation: evaluateProbabilities(truth, oobProba, classes, has) };
+  return oobValue ? { diagnostics: predictionPairs(truth, oobValue, has) } : {};
+}
+
+function testExtra(report: FitReport, classes: readonly string[]): ScoresExtra {
+  const p = report.testPrediction;
+  const truth = report.testTruth;
+  if (!p || !truth) return {};
+  if (p.proba) return { evaluation: evaluateProbabilities(truth, p.proba, classes) };
+  return { diagnostics: predictionPairs(truth, p.predicted) };
 }

@@ -10,6 +10,8 @@ import type { Forest } from '../forest/forest';
 import type { TrainingRows } from '../forest/membership';
 import type { Prediction } from '../forest/predict';
 import { membershipOf, RowVotes } from '../forest/row-votes';
+import { evaluateProbabilities } from '../metrics/evaluation';
+import { predictionPairs } from '../metrics/residual-plot';
 import { classificationScores, regressionScores, type Scores } from '../metrics/scores';
 import { byName, residualSummary, scoresSummary, suspectRows } from './parts';
 import type { FitSummary, ScoresSummary } from './types';
@@ -127,9 +129,9 @@ function scoresOn(forest: Forest, truth: Float64Array, predicted: Float64Array, 
     const proba = new Float64Array(picked.length * K);
     picked.forEach((r, j) => proba.set(predicted.subarray(r * K, r * K + K), j * K));
     s = classificationScores(y, proba, classes);
-    return scoresSummary(s, classes);
+    return scoresSummary(s, classes, undefined, { evaluation: evaluateProbabilities(y, proba, classes) });
   }
   const v = Float64Array.from(picked, (r) => predicted[r]);
   s = regressionScores(y, v);
-  return scoresSummary(s, classes, residuals ? residualSummary(y, v) : undefined);
+  return scoresSummary(s, classes, residuals ? residualSummary(y, v) : undefined, { diagnostics: predictionPairs(y, v) });
 }

@@ -1,11 +1,20 @@
 // Pieces every summary is built from, whether of a fresh fit or of a forest opened against a file.
 import type { Table } from '../data/table';
 import type { Doubt } from '../forest/doubtful';
+import type { Evaluation } from '../metrics/evaluation';
+import type { RegressionDiagnostics } from '../metrics/residual-plot';
 import type { Scores } from '../metrics/scores';
 import type { ResidualSummary, ScoresSummary, SuspectRow } from './types';
 
-export function scoresSummary(s: Scores, labels: readonly string[] = [], residuals?: ResidualSummary): ScoresSummary {
-  if (s.kind === 'regression') return { rows: s.rows, r2: s.r2, mae: s.mae, rmse: s.rmse, residuals };
+export interface ScoresExtra {
+  /** Classification: ranking and calibration figures of the same rows' probabilities. */
+  readonly evaluation?: Evaluation;
+  readonly diagnostics?: RegressionDiagnostics;
+}
+
+export function scoresSummary(s: Scores, labels: readonly string[] = [], residuals?: ResidualSummary, extra: ScoresExtra = {}): ScoresSummary {
+  if (s.kind === 'regression') return { rows: s.rows, r2: s.r2, mae: s.mae, rmse: s.rmse, residuals, ...(extra.diagnostics ? { diagnostics: extra.diagnostics } : {}) };
+  const e = extra.evaluation;
   return {
     rows: s.rows,
     accuracy: s.accuracy,
@@ -13,6 +22,21 @@ export function scoresSummary(s: Scores, labels: readonly string[] = [], residua
     logLoss: s.logLoss,
     perClass: s.perClass,
     confusion: { labels, counts: s.confusion },
+    ...(e ? evaluationPart(e, labels) : {}),
+  };
+}
+
+function evaluationPart(e: Evaluation, labels: readonly string[]): Partial<ScoresSummary> {
+  const two = labels.length === 2;
+  const aucByClass = Object.create(null) as Record<string, number>;
+  for (const c of e.curves) aucByClass[c.label] = c.auc;
+  return {
+    auc: e.auc,
+    ...(two || e.curves.length === 0 ? {} : { aucByClass }),
+    averagePrecision: e.averagePrecision,
+    brier: e.brier,
+    ...(two ? { positiveClass: labels[1] } : {}),
+    ...(e.curves.length ? { curves: { byClass: e.curves, ...(e.thresholds ? { thresholds: e.thresholds } : {}) } } : {}),
   };
 }
 

@@ -3,6 +3,9 @@
 // panel without computing anything). Every number a user reads about a fit is in here, computed once.
 
 import type { CautionKind } from '../checks/cautions';
+import type { ClassCurves } from '../metrics/evaluation';
+import type { RegressionDiagnostics } from '../metrics/residual-plot';
+import type { ThresholdPreset, ThresholdTable } from '../metrics/thresholds';
 
 export type FeatureKind = 'numeric' | 'categorical' | 'boolean';
 
@@ -27,6 +30,36 @@ export interface ScoresSummary {
   readonly rmse?: number;
   /** Regression: label − prediction over the scored rows. */
   readonly residuals?: ResidualSummary;
+  /** Area under the ROC curve: two classes, the second class's; more, the mean of each class's against the rest. */
+  readonly auc?: number;
+  /** More than two classes: each class's ROC area against the rest. */
+  readonly aucByClass?: Readonly<Record<string, number>>;
+  /** Two classes: one number, for the second class; more: one per class against the rest. */
+  readonly averagePrecision?: number | Readonly<Record<string, number>>;
+  /** Two classes: squared error of the second class's probability; more: summed over classes (see core/metrics/calibration.ts). */
+  readonly brier?: number;
+  /** Two classes: the class the curves, areas and thresholds are read for. */
+  readonly positiveClass?: string;
+  /** ROC, precision-recall and calibration curves (thinned for size), and for two classes the threshold tallies. */
+  readonly curves?: ScoreCurves;
+  /** Regression: predicted against actual and the prediction interval's coverage. */
+  readonly diagnostics?: RegressionDiagnostics;
+}
+
+export interface ScoreCurves {
+  readonly byClass: readonly ClassCurves[];
+  readonly thresholds?: ThresholdTable & { readonly presets: readonly ThresholdPreset[] };
+}
+
+/** k-fold cross-validation: each fold's holdout scores (without curves), and their mean and spread. */
+export interface CrossValidationSummary {
+  readonly folds: readonly ScoresSummary[];
+  readonly repeats: number;
+  readonly foldCount: number;
+  readonly stratified: boolean;
+  /** Over every fold of every repeat: the mean and sample standard deviation of each score. */
+  readonly mean: Readonly<Record<string, number | Readonly<Record<string, number>>>>;
+  readonly sd: Readonly<Record<string, number | Readonly<Record<string, number>>>>;
 }
 
 /** A training row the forest doubts (see core/forest/doubtful.ts). */
@@ -73,6 +106,8 @@ export interface FitSummary {
   readonly test?: ScoresSummary;
   /** Where `test` came from: rows held out of the fit, a separate test file, or the file shown. */
   readonly testFrom?: 'holdout' | 'test' | 'file';
+  /** Present when cross-validation was asked for. */
+  readonly cv?: CrossValidationSummary;
   readonly importance: {
     /** Mean decrease in impurity, each tree's scaled to sum 1, averaged, summing to 1. */
     readonly impurity: Record<string, number>;
