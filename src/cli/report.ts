@@ -2,6 +2,7 @@
 // rounded for reading here; the JSON keeps every digit.
 import { formatFixed, formatNumber, formatShare } from '../core/format';
 import type { FitSummary, ScoresSummary } from '../core/summary/types';
+import { crossValidationLines, evaluationLine, thresholdLines } from './report-evaluation';
 
 export const CAUTION =
   'A quick forest is an exploratory model: validate it before any decision that affects people, and follow local rules and qualified review where health, money or safety are at stake.';
@@ -44,10 +45,12 @@ export function fitReport(s: FitSummary, seconds: { load: number; fit: number },
   for (const n of s.notes) out += `Note: ${n}\n`;
   for (const w of s.warnings) out += `Warning: ${w}\n`;
   if (s.cautions.length) out += `\nCautions:\n${s.cautions.map((c) => `  ${c.message}`).join('\n')}\n`;
-  out += s.oob ? `\nOut-of-bag  ${scoreLine(s.oob)}\n` : `\nOut-of-bag  n/a: ${s.oobUnavailable ?? 'not computed'}\n`;
-  if (s.test) out += `Held out    ${scoreLine(s.test)}\n`;
+  out += s.oob ? `\nOut-of-bag  ${scoreLine(s.oob)}\n${evaluationLine(s.oob)}` : `\nOut-of-bag  n/a: ${s.oobUnavailable ?? 'not computed'}\n`;
+  if (s.test) out += `Held out    ${scoreLine(s.test)}\n${evaluationLine(s.test)}`;
+  out += crossValidationLines(s.cv, s.task);
   const c = s.oob?.confusion;
   if (c) out += confusionTable(c.labels, c.counts);
+  out += thresholdLines(s);
   const regression = s.task === 'regression';
   const imp = Object.keys(s.importance.impurity).sort((a, b) => (s.importance.permutation[b] ?? 0) - (s.importance.permutation[a] ?? 0));
   const rise = (v: number | undefined) => (regression ? value(v) : num(v, 4));

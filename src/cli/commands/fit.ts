@@ -2,7 +2,9 @@ import { MAX_CLASSES, ROWS_PER_CLASS, targetDoubt } from '../../core/checks/targ
 import { loadCsv } from '../../core/csv/load';
 import type { LoadOptions } from '../../core/csv/types';
 import { findColumn, type ColumnKind, type Table } from '../../core/data/table';
-import { fitForest } from '../../core/forest/fit';
+import { fitForest, type FitOptions } from '../../core/forest/fit';
+import { crossValidate } from '../../core/summary/cross-validation';
+import type { CrossValidationSummary } from '../../core/summary/types';
 import { inferTask } from '../../core/forest/target';
 import { parseFeaturesPerSplit, type FeaturesPerSplit, type ForestParams, type Task } from '../../core/forest/params';
 import { summarizeFit } from '../../core/summary/fit';
@@ -29,6 +31,8 @@ const FIT_ENTRIES: readonly HelpEntry[] = [
   ['--workers N', 'worker threads (default: one per core)'],
   ['--holdout F', 'hold out this fraction of rows and score the forest on them'],
   ['--test TEST.csv', 'score the forest on a separate file with the same columns'],
+  ['--folds K', 'also estimate the scores by K-fold cross-validation: K more forests with the same settings,\neach scored on the rows it left out (stratified by class, shuffled by the seed)'],
+  ['--repeats R', 'with --folds: run the K folds R times, each with its own shuffle (default 1)'],
   ['--exclude A,B', 'leave these columns out'],
   ['--type COLUMN=KIND', 'read COLUMN as numeric, categorical or boolean (repeatable)'],
   ['--missing TOKENS', 'comma-separated cell values that mean missing (default: empty,NA,N/A,NaN,null,?,-)'],
@@ -69,6 +73,8 @@ const OPTIONS: Options = {
   missing: { type: 'string' },
   'sample-rows': { type: 'string' },
   'no-importance': { type: 'boolean' },
+  folds: { type: 'string' },
+  repeats: { type: 'string' },
   save: { type: 'string' },
   json: { type: 'boolean' },
   'many-classes': { type: 'boolean' },
@@ -145,6 +151,9 @@ export async function runFit(argv: string[]): Promise<void> {
     ]);
   }
   const exclude = list(args, 'exclude');
+  const folds = wholeNumber(args, 'folds', 2);
+  const repeats = wholeNumber(args, 'repeats', 1);
+  if (repeats !== undefined && folds === undefined) throw new UsageError('--repeats needs --folds K.', 'fit');
 
   const t0 = performance.now();
   const loaded = await loadCsv(dataPath, loadOptions);
@@ -189,13 +198,28 @@ export async function runFit(argv: string[]): Promise<void> {
   await writer?.finish().catch((e) => {
     throw writeFailure(e, savePath!);
   });
+  const cv = folds === undefined ? undefined : await crossValidation(loaded.table, { target, task, params, exclude, workers: wholeNumber(args, 'workers', 1) }, folds, repeats, json);
   const suspectLimit = Math.max(SUSPECTS_IN_JSON, listed ?? 0);
-  const summary = summarizeFit(report, loaded.table, { file: dataPath, rowsRead: loaded.rowsRead, sampled: loadOptions.sampleRows !== undefined, notes: loaded.notes, warnings: loaded.warnings, suspectLimit });
+  const fitted = summarizeFit(report, loaded.table, { file: dataPath, rowsRead: loaded.rowsRead, sampled: loadOptions.sampleRows !== undefined, notes: loaded.notes, warnings: loaded.warnings, suspectLimit });
+  const summary = cv ? { ...fitted, cv } : fitted;
   const seconds = { load: loadSeconds, fit: report.seconds.fit };
   if (json) {
     process.stdout.write(JSON.stringify({ ...summary, seconds, model: savePath ?? null }, null, 2) + '\n');
   } else {
     process.stdout.write(fitReport(summary, seconds, savePath, { list: listed }));
+  }
+}
+
+async function crossValidation(table: Table, fit: FitOptions, folds: number, repeats: number | undefined, quiet: boolean): Promise<CrossValidationSummary> {
+  const bar = quiet ? undefined : progressBar(`Cross-validating (${folds} folds${repeats && repeats > 1 ? ` × ${repeats}` : ''})`);
+  try {
+    return await crossValidate(table, fit, { folds, repeats, onProgress: (d, t) => bar?.update(d, t) });
+  } catch (e) {
+    // Too few rows for the folds asked for is a usage error, not a failure.
+    if (e instanceof RangeError && /folds/.test(e.message)) throw new UsageError(`--folds: ${e.message}`, 'fit');
+    throw e;
+  } finally {
+    bar?.end();
   }
 }
 

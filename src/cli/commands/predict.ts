@@ -10,7 +10,8 @@ import { classificationScores, regressionScores } from '../../core/metrics/score
 import { dataRowOf, scoresSummary } from '../../core/summary/fit';
 import type { ScoresSummary } from '../../core/summary/types';
 import { knowsTraining } from '../../core/open/open';
-import { flag, fraction, parse, text, UsageError, type Options } from '../args';
+import { withThreshold } from '../../core/forest/threshold-prediction';
+import { flag, fraction, parse, text, UsageError, type Options, type Parsed } from '../args';
 import { DEBUG_ENTRY, optionList } from '../help';
 import { MODEL_ENTRIES, MODEL_OPTIONS, openForData } from '../model';
 import { checkOutput, writeFailure } from '../output';
@@ -29,6 +30,7 @@ Options:
 ${optionList([
   ['--out OUT.csv', "write the input columns plus the prediction, each class's probability (or the value)\nand the share of trees that agree (or the spread of the trees' values); never the input file;\nOUT.parquet writes Parquet, any other name CSV (DATA may be CSV, .csv.gz or Parquet)"],
   ['--interval LEVEL', 'regression: add a prediction interval at this level, such as 0.9 (quantile regression\nforest, Meinshausen 2006); needs --training'],
+  ['--threshold P', "two classes: give the second class when its probability exceeds P (default: the larger\nprobability, as P = 0.5); copse fit's report suggests thresholds chosen on out-of-bag rows"],
   ['--training TRAIN.csv', "the file the forest was fitted on (checked against the model's fingerprint)"],
   ['--json', 'print one JSON object: rows, columns, timings, and the predictions unless --out is given'],
   ...MODEL_ENTRIES,
@@ -37,13 +39,14 @@ ${optionList([
 Without --out or --json, the predictions are printed as CSV, one line per data row.
 `;
 
-const OPTIONS: Options = { out: { type: 'string' }, json: { type: 'boolean' }, interval: { type: 'string' }, training: { type: 'string' }, ...MODEL_OPTIONS };
+const OPTIONS: Options = { out: { type: 'string' }, json: { type: 'boolean' }, interval: { type: 'string' }, threshold: { type: 'string' }, training: { type: 'string' }, ...MODEL_OPTIONS };
 
 export async function runPredict(argv: string[]): Promise<void> {
   const args = parse('predict', argv, OPTIONS, 2);
   if (flag(args, 'help')) return void process.stdout.write(PREDICT_HELP);
   const [modelPath, dataPath] = args.positionals;
   const level = fraction(args, 'interval');
+  const threshold = thresholdOf(args);
   const training = text(args, 'training');
   const out = text(args, 'out');
   if (level !== undefined && !training) throw new UsageError('--interval needs --training TRAIN.csv, the file the forest was fitted on.', 'predict');
@@ -54,6 +57,9 @@ export async function runPredict(argv: string[]): Promise<void> {
     ]);
   }
   const { forest, notes } = await openForData(modelPath, dataPath, args, 'predict');
+  if (threshold !== undefined && forest.schema.target.classes?.length !== 2) {
+    throw new UsageError(`--threshold is for forests of two classes; this one ${forest.schema.target.task === 'regression' ? 'predicts a number' : `has ${forest.schema.target.classes!.length} classes`}.`, 'predict');
+  }
   if (level !== undefined && forest.schema.target.task !== 'regression') throw new UsageError('--interval is for regression forests; this one classifies.', 'predict');
   if (level !== undefined && !knowsTraining(forest)) {
     throw new UsageError('--interval needs the rows the forest was trained on and how each tree drew them; an imported forest does not carry them.', 'predict');
@@ -66,7 +72,8 @@ export async function runPredict(argv: string[]): Promise<void> {
   const own = trainingOf(forest, loaded, x);
   const t1 = performance.now();
   // On its own training file one walk gives both answers (on this thread); elsewhere every core scores.
-  const prediction = own.view ? predictEncoded(forest, x, table.rowCount, own.view.membership) : await predictInWorkers(forest, x, table.rowCount);
+  const scored = own.view ? predictEncoded(forest, x, table.rowCount, own.view.membership) : await predictInWorkers(forest, x, table.rowCount);
+  const prediction = threshold === undefined ? scored : withThreshold(scored, threshold);
   let interval: IntervalCells | undefined;
   if (level !== undefined) {
     const index = await quantileIndexFromTrainingFile(forest, training!);
@@ -78,7 +85,7 @@ export async function runPredict(argv: string[]): Promise<void> {
   let textColumns = forest.schema.target.task === 'classification' ? [0] : [];
   let outOfBag: ScoresSummary | null = null;
   if (own.view) {
-    outOfBag = outOfBagScores(forest, prediction, targetCodes(forest, table));
+    outOfBag = outOfBagScores(forest, prediction, targetCodes(forest, table), threshold !== undefined);
     ({ added, textColumns } = withOutOfBag(forest, prediction, own.view, added, textColumns, loaded.header));
     const all = added.names.filter((n) => !n.startsWith('oob_') && n !== 'row_role').join(', ');
     warnings.push(
@@ -106,7 +113,7 @@ export async function runPredict(argv: string[]): Promise<void> {
           return entry;
         });
     const seconds = { load: (t1 - t0) / 1000, predict: (t2 - t1) / 1000 };
-    process.stdout.write(JSON.stringify({ rows: prediction.rows, columns: added.names, output: out ?? null, warnings, outOfBag, seconds, predictions: rows }, null, 2) + '\n');
+    process.stdout.write(JSON.stringify({ rows: prediction.rows, columns: added.names, output: out ?? null, threshold: threshold ?? null, warnings, outOfBag, seconds, predictions: rows }, null, 2) + '\n');
     return;
   }
   for (const w of warnings) process.stderr.write(`Warning: ${w}\n`);
@@ -119,17 +126,26 @@ export async function runPredict(argv: string[]): Promise<void> {
   process.stdout.write(csv);
 }
 
+/** --threshold P: a probability strictly between 0 and 1, or 0 or 1 themselves (flag every row with any chance, or none). */
+function thresholdOf(args: Parsed): number | undefined {
+  const v = text(args, 'threshold');
+  if (v === undefined) return undefined;
+  const n = Number(v);
+  if (v.trim() === '' || !(n >= 0 && n <= 1)) throw new UsageError(`--threshold takes a probability between 0 and 1, such as 0.3; got "${v}".`, 'predict');
+  return n;
+}
+
 function headlineScore(s: ScoresSummary): string {
   const what = s.accuracy !== undefined ? `accuracy ${(s.accuracy * 100).toFixed(1)}%` : `R² ${value(s.r2)}`;
   return `out-of-bag ${what} over ${s.rows} rows`;
 }
 
 /** The out-of-bag score over the training rows, as the fit reported it: the same trees and the same rows. */
-function outOfBagScores(forest: Forest, p: Prediction, truth: Float64Array): ScoresSummary | null {
+function outOfBagScores(forest: Forest, p: Prediction, truth: Float64Array, thresholded: boolean): ScoresSummary | null {
   const oob = p.oob!;
   const has = (i: number) => oob.trees[i] > 0 && !Number.isNaN(truth[i]);
   const classes = forest.schema.target.classes;
-  if (classes) return scoresSummary(classificationScores(truth, oob.proba!, classes, has), classes);
+  if (classes) return scoresSummary(classificationScores(truth, oob.proba!, classes, has, thresholded ? oob.predicted : undefined), classes);
   return scoresSummary(regressionScores(truth, oob.predicted, has));
 }
 

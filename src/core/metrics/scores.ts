@@ -42,7 +42,7 @@ const EPS = 1e-15;
  * proba: rows * K probabilities (each row summing to 1); include[i] = false leaves row i out
  * (e.g. a row no tree had out-of-bag).
  */
-export function classificationScores(truth: ArrayLike<number>, proba: ArrayLike<number>, labels: readonly string[], include?: (i: number) => boolean): ClassificationScores {
+export function classificationScores(truth: ArrayLike<number>, proba: ArrayLike<number>, labels: readonly string[], include?: (i: number) => boolean, decided?: ArrayLike<number>): ClassificationScores {
   const K = labels.length;
   const confusion = labels.map(() => new Array<number>(K).fill(0));
   let rows = 0;
@@ -51,7 +51,8 @@ export function classificationScores(truth: ArrayLike<number>, proba: ArrayLike<
   for (let i = 0; i < truth.length; i++) {
     if (include && !include(i)) continue;
     const y = truth[i];
-    const pred = argmaxAt(proba, i * K, K);
+    // decided: answers at a decision threshold (metrics/thresholds.ts) instead of the larger probability.
+    const pred = decided ? decided[i] : argmaxAt(proba, i * K, K);
     confusion[y][pred]++;
     rows++;
     if (pred === y) correct++;

@@ -126,3 +126,14 @@ export function thresholdPresets(table: ThresholdTable, target = PRESET_TARGET):
     { kind: 'precision', target, threshold: precise.length ? precise[0].threshold : null },
   ];
 }
+
+/**
+ * Class codes (0 or 1) at a threshold from rows * 2 probabilities: 1 when the second class's probability
+ * exceeds it. A row whose `keep` entry is NaN (no answer, e.g. no out-of-bag tree) stays NaN.
+ */
+export function decideAt(proba: ArrayLike<number>, threshold: number, keep?: ArrayLike<number>): Float64Array {
+  const rows = proba.length / 2;
+  const out = new Float64Array(rows);
+  for (let i = 0; i < rows; i++) out[i] = keep && Number.isNaN(keep[i]) ? NaN : proba[i * 2 + 1] > threshold ? 1 : 0;
+  return out;
+}
