@@ -22,6 +22,8 @@ import { RegionMapView } from './map/view';
 import { ContributionsView } from './sections/contributions';
 import { CurveView } from './sections/curve';
 import { DependenceView } from './sections/dependence';
+import { DiagnosticsView } from './sections/diagnostics';
+import { RankingView } from './sections/evaluation';
 import { ImportanceView } from './sections/importance';
 import { SweepView } from './sections/sweep';
 import { SummaryView } from './sections/summary';
@@ -67,6 +69,8 @@ const sweepView = new SweepView({
   refit: (featuresPerSplit) => post({ type: 'sweepRefit', featuresPerSplit }),
 });
 const suspectsView = new SuspectsView((row) => post({ type: 'revealRow', row }));
+const rankingView = new RankingView();
+const diagnosticsView = new DiagnosticsView();
 
 const title = h('h1', {}, 'Copse');
 const statusText = h('span', { class: 'status-text' });
@@ -76,6 +80,8 @@ const warnings = h('ul', { class: 'warnings', testid: 'warnings' });
 const warningsTitle = h('h2', {}, 'Worth checking');
 const curveSection = section('curve-section', 'Out-of-bag error as trees are added', curveView.root);
 const importanceSection = section('importance-section', 'What the forest leans on', importanceView.root);
+const rankingSection = section('evaluation-section', 'Ranking, calibration and the decision threshold', rankingView.root);
+const diagnosticsSection = section('diagnostics-section', 'Predictions against the truth', diagnosticsView.root);
 
 function build(): void {
   const summarySection = h('section', { class: 'card', testid: 'summary' }, h('h2', {}, 'Fit at a glance'), summaryView.root);
@@ -88,6 +94,8 @@ function build(): void {
       h('p', { class: 'caution', testid: 'caution', attrs: { role: 'note' } }, CAUTION),
       // Scores first: how well the forest does decides how much any map or explanation below is worth.
       summarySection,
+      rankingSection,
+      diagnosticsSection,
       h(
         'div',
         { class: 'columns' },
@@ -125,6 +133,7 @@ function applyTheme(): void {
   contributionsView.setTheme(theme);
   dependenceView.setTheme(theme);
   sweepView.setTheme(theme);
+  rankingView.setTheme(theme);
   drawCharts();
 }
 
@@ -132,7 +141,10 @@ function drawCharts(): void {
   const show = summary !== null && summary.curve.length > 0;
   curveSection.classList.toggle('hidden', !show);
   importanceSection.classList.toggle('hidden', summary === null || summary.importance.length === 0);
+  rankingSection.classList.toggle('hidden', summary === null || !RankingView.shows(summary));
+  diagnosticsSection.classList.toggle('hidden', summary === null || !DiagnosticsView.of(summary));
   if (!summary) return;
+  if (DiagnosticsView.of(summary)) diagnosticsView.draw(summary, theme);
   if (show) curveView.draw(summary, theme);
   if (summary.importance.length > 0) importanceView.draw(summary, theme);
 }
@@ -149,6 +161,7 @@ function showSummary(s: FitSummary): void {
   suspectsView.setSummary(s);
   contributionsView.setSummary(s);
   dependenceView.setSummary(s);
+  rankingView.setSummary(s);
   clear(warnings);
   warningsTitle.textContent = s.warnings.length > 0 ? `Worth checking (${s.warnings.length})` : 'Worth checking';
   if (s.warnings.length === 0) append(warnings, h('li', { class: 'muted none' }, 'Nothing flagged for this fit.'));

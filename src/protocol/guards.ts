@@ -29,7 +29,8 @@ function isScores(v: unknown): boolean {
       isNum(v.balancedAccuracy) &&
       isNumOrNull(v.logLoss) &&
       isArr(v.perClass, (c) => isObj(c) && isStr(c.label) && isNumOrNull(c.precision) && isNumOrNull(c.recall) && isInt(c.support)) &&
-      isArr(v.confusion, isNumArr)
+      isArr(v.confusion, isNumArr) &&
+      (v.evaluation === undefined || (isObj(v.evaluation) && Array.isArray(v.evaluation.curves)))
     );
   }
   if (v.kind === 'regression') {
@@ -38,7 +39,8 @@ function isScores(v: unknown): boolean {
       isNum(v.r2) &&
       isNum(v.mae) &&
       isNum(v.rmse) &&
-      (r === null || (isObj(r) && isNum(r.min) && isNum(r.q1) && isNum(r.median) && isNum(r.q3) && isNum(r.max)))
+      (r === null || (isObj(r) && isNum(r.min) && isNum(r.q1) && isNum(r.median) && isNum(r.q3) && isNum(r.max))) &&
+      (v.diagnostics === undefined || (isObj(v.diagnostics) && Array.isArray(v.diagnostics.pairs)))
     );
   }
   return false;

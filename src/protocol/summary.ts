@@ -1,6 +1,10 @@
 // The fit summary as the panel receives it: core's summary (src/core/summary) reshaped in one place,
 // src/extension/summary/panel.ts, into plain JSON with null for missing numbers.
 
+import type { EvaluationView, RegressionDiagnosticsView } from './evaluation';
+
+export * from './evaluation';
+
 export type TaskKind = 'classification' | 'regression';
 export type FeatureKind = 'numeric' | 'categorical' | 'boolean';
 
@@ -33,6 +37,8 @@ export interface ClassificationScoreSummary {
   perClass: ClassScore[];
   /** confusion[truth][predicted], counts. */
   confusion: number[][];
+  /** ROC and precision-recall curves, calibration and (two classes) threshold tallies; absent from older summaries. */
+  evaluation?: EvaluationView;
 }
 
 /** Five-number summary of truth - prediction. */
@@ -51,6 +57,8 @@ export interface RegressionScoreSummary {
   mae: number;
   rmse: number;
   residuals: ResidualSummary | null;
+  /** Absent from older summaries. */
+  diagnostics?: RegressionDiagnosticsView;
 }
 
 export type ScoreSummary = ClassificationScoreSummary | RegressionScoreSummary;

@@ -88,14 +88,18 @@ export function rocPoints(c: BinaryCurve, limit = CURVE_POINTS): RocPoint[] {
   return thin(all, limit, (p) => [p.falsePositiveRate, p.truePositiveRate]);
 }
 
-/** Precision against recall, highest threshold first, at most `limit` points. */
+/**
+ * Precision against recall, highest threshold first, at most `limit` points; it starts, as scikit-learn's
+ * `precision_recall_curve` ends, at recall 0 and precision 1 (threshold +Infinity: no row flagged).
+ */
 export function precisionRecallPoints(c: BinaryCurve, limit = CURVE_POINTS): PrecisionRecallPoint[] {
   if (c.positives === 0) return [];
-  const all = Array.from(c.thresholds, (threshold, j) => ({
+  const start: PrecisionRecallPoint = { threshold: Infinity, recall: 0, precision: 1 };
+  const all = [start, ...Array.from(c.thresholds, (threshold, j) => ({
     threshold,
     recall: c.truePositives[j] / c.positives,
     precision: c.truePositives[j] / (c.truePositives[j] + c.falsePositives[j]),
-  }));
+  }))];
   return thin(all, limit, (p) => [p.recall, p.precision]);
 }
 

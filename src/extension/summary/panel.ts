@@ -3,6 +3,7 @@
 
 import type { FitSummary as PanelSummary, ScoreSummary } from '../../protocol/messages';
 import type { CoreFitSummary, CoreScoresSummary } from '../engine';
+import { panelDiagnostics, panelEvaluation } from './evaluation';
 
 export interface PanelExtras {
   /** Names this fit for the panel (see FitSummary.fit). */
@@ -61,10 +62,16 @@ function panelScores(s: CoreScoresSummary, task: PanelSummary['task']): ScoreSum
       logLoss: finiteOrNull(s.logLoss),
       perClass: (s.perClass ?? []).map((c) => ({ label: c.label, precision: finiteOrNull(c.precision), recall: finiteOrNull(c.recall), support: c.support })),
       confusion: (s.confusion?.counts ?? []).map((r) => r.slice()),
+      ...optional('evaluation', panelEvaluation(s, s.confusion?.labels ?? [])),
     };
   }
   if (!Number.isFinite(s.r2) || !Number.isFinite(s.mae) || !Number.isFinite(s.rmse)) return null;
-  return { kind: 'regression', rows: s.rows, r2: s.r2!, mae: s.mae!, rmse: s.rmse!, residuals: s.residuals ?? null };
+  return { kind: 'regression', rows: s.rows, r2: s.r2!, mae: s.mae!, rmse: s.rmse!, residuals: s.residuals ?? null, ...optional('diagnostics', panelDiagnostics(s)) };
+}
+
+/** Absent rather than undefined, so the summary reads back from JSON (the reload store) as it was. */
+function optional<K extends string, V>(key: K, v: V | undefined): { [k in K]?: V } {
+  return (v === undefined ? {} : { [key]: v }) as { [k in K]?: V };
 }
 
 function finiteOrNull(v: number | null | undefined): number | null {
