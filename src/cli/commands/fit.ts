@@ -4,6 +4,7 @@ import type { LoadOptions } from '../../core/csv/types';
 import { findColumn, type ColumnKind, type Table } from '../../core/data/table';
 import { fitForest, type FitOptions } from '../../core/forest/fit';
 import { crossValidate } from '../../core/summary/cross-validation';
+import { COVERAGE_BUDGET } from '../../core/summary/interval-check';
 import type { CrossValidationSummary } from '../../core/summary/types';
 import { inferTask } from '../../core/forest/target';
 import { parseFeaturesPerSplit, type FeaturesPerSplit, type ForestParams, type Task } from '../../core/forest/params';
@@ -183,7 +184,8 @@ export async function runFit(argv: string[]): Promise<void> {
     onProgress: (d, t) => bar?.update(d, t),
     fingerprint: loaded.fingerprint,
     dropped: loaded.dropped,
-    keepTrees: holdout !== undefined || test !== undefined,
+    // Small fits keep them too, for the out-of-bag check of regression's prediction interval (core/summary/interval-check.ts).
+    keepTrees: holdout !== undefined || test !== undefined || loaded.table.rowCount * (params.trees ?? 100) <= COVERAGE_BUDGET,
     onTree: savePath
       ? (tree, _, head) => {
           writer ??= new ModelWriter(savePath, head, head.params.trees);

@@ -185,7 +185,7 @@ export async function quantileIndexFromTrainingFile(forest: Forest, file: string
  * Quantiles of the forest's conditional distribution for `rows` encoded rows: out[i * probabilities.length + q].
  * The quantile at a is the smallest training target whose cumulative weight reaches a (Meinshausen 2006).
  */
-export function predictQuantiles(index: QuantileIndex, x: ArrayLike<number>, rows: number, probabilities: readonly number[]): Float64Array {
+export function predictQuantiles(index: QuantileIndex, x: ArrayLike<number>, rows: number, probabilities: readonly number[], useTree?: (row: number, tree: number) => boolean): Float64Array {
   for (const a of probabilities) if (!(a >= 0 && a <= 1)) throw new RangeError(`quantile levels must lie in [0, 1]; got ${a}`);
   const { forest, sortedY } = index;
   const p = forest.schema.features.length;
@@ -200,7 +200,11 @@ export function predictQuantiles(index: QuantileIndex, x: ArrayLike<number>, row
   const slack = 1e-12 * T;
   for (let i = 0; i < rows; i++) {
     let m = 0;
+    let used = 0;
     for (let t = 0; t < T; t++) {
+      // useTree: only some trees speak for this row (its out-of-bag trees, for an honest interval).
+      if (useTree && !useTree(i, t)) continue;
+      used++;
       const leaf = leafOf(forest.trees[t], counts, x, i * p);
       const begin = index.start[t][leaf];
       const end = index.start[t][leaf + 1];
@@ -216,7 +220,7 @@ export function predictQuantiles(index: QuantileIndex, x: ArrayLike<number>, row
     let cumulative = 0;
     let j = 0;
     for (const [a, q] of byLevel) {
-      const goal = a * T - slack;
+      const goal = a * used - slack;
       while (j < m - 1 && cumulative + weight[seen[j]] < goal) cumulative += weight[seen[j++]];
       out[i * Q + q] = m > 0 ? sortedY[seen[j]] : NaN;
     }

@@ -6,6 +6,7 @@ import { resolveFeaturesPerSplit } from '../forest/params';
 import { evaluateProbabilities } from '../metrics/evaluation';
 import { predictionPairs } from '../metrics/residual-plot';
 import { argmaxAt } from '../metrics/scores';
+import { outOfBagCoverage } from './interval-check';
 import { byName, residualSummary, scoresSummary, suspectRows, type ScoresExtra } from './parts';
 import type { FitSummary } from './types';
 
@@ -70,7 +71,7 @@ export function summarizeFit(report: FitReport, table: Table, extra: FitSummaryE
       classWeight: p.classWeight,
       seed: p.seed,
     },
-    oob: scoresSummary(oob, classes, residuals, oobExtra(report, classes)),
+    oob: scoresSummary(oob, classes, residuals, oobExtra(report, table, classes)),
     test: report.test ? scoresSummary(report.test, classes, undefined, testExtra(report, classes)) : undefined,
     testFrom: report.test ? (extra.testFrom ?? (report.holdoutRows ? 'holdout' : 'test')) : undefined,
     importance: {
@@ -96,11 +97,13 @@ export function summarizeFit(report: FitReport, table: Table, extra: FitSummaryE
 }
 
 /** Ranking and calibration of the out-of-bag probabilities, or predicted against actual, over rows with out-of-bag trees. */
-function oobExtra(report: FitReport, classes: readonly string[]): ScoresExtra {
+function oobExtra(report: FitReport, table: Table, classes: readonly string[]): ScoresExtra {
   const { truth, oobProba, oobValue, oobTrees } = report.rows;
   const has = (i: number) => oobTrees[i] > 0;
   if (oobProba) return { evaluation: evaluateProbabilities(truth, oobProba, classes, has) };
-  return oobValue ? { diagnostics: predictionPairs(truth, oobValue, has) } : {};
+  if (!oobValue) return {};
+  const interval = outOfBagCoverage(report, table);
+  return { diagnostics: { ...predictionPairs(truth, oobValue, has), ...(interval ? { interval } : {}) } };
 }
 
 function testExtra(report: FitReport, classes: readonly string[]): ScoresExtra {
