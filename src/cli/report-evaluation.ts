@@ -24,7 +24,7 @@ export function thresholdLines(s: FitSummary): string {
   const t = s.oob?.curves?.thresholds;
   if (!t) return '';
   const held = s.test?.curves?.thresholds;
-  let out = `\nThresholds for "${s.oob!.positiveClass}" chosen on out-of-bag rows (a row is flagged when its probability exceeds it; copse predict --threshold applies one):\n`;
+  let out = `\nThresholds for "${s.oob?.positiveClass ?? ''}" chosen on out-of-bag rows (a row is flagged when its probability exceeds it; copse predict --threshold applies one):\n`;
   for (const p of t.presets) {
     const what = p.kind === 'balanced-accuracy' ? 'best balanced accuracy' : `${p.kind} at least ${num(p.target, 2)}`;
     if (p.threshold === null) {

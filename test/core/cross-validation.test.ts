@@ -32,10 +32,10 @@ describe('folds', () => {
     const f = make();
     assert.deepEqual(f, make());
     const sizes = [0, 1, 2, 3, 4].map((k) => f.filter((x) => x === k).length);
-    assert.ok(Math.max(...sizes) - Math.min(...sizes) <= 1, `sizes ${sizes}`);
+    assert.ok(Math.max(...sizes) - Math.min(...sizes) <= 1, `sizes ${sizes.join(',')}`);
     for (const c of [0, 1, 2]) {
       const per = [0, 1, 2, 3, 4].map((k) => Array.from(f).filter((x, i) => x === k && classOf(i) === c).length);
-      assert.ok(Math.max(...per) - Math.min(...per) <= 1, `class ${c}: ${per}`);
+      assert.ok(Math.max(...per) - Math.min(...per) <= 1, `class ${c}: ${per.join(',')}`);
     }
   });
 

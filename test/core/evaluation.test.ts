@@ -112,7 +112,10 @@ describe('thresholds for two classes', () => {
       let tp = 0;
       let fp = 0;
       c.truth.forEach((y, i) => {
-        if (proba[i * 2 + 1] > t.threshold) (y === 1 ? tp++ : fp++);
+        if (proba[i * 2 + 1] > t.threshold) {
+          if (y === 1) tp++;
+          else fp++;
+        }
       });
       assert.deepEqual([t.truePositives, t.falsePositives], [tp, fp], `at ${t.threshold}`);
     }

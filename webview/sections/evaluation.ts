@@ -88,7 +88,7 @@ export class RankingView {
 
   setTheme(theme: Theme): void {
     this.theme = theme;
-    this.threshold.setTheme(theme);
+    this.threshold.setTheme();
     this.draw();
   }
 
@@ -132,7 +132,7 @@ export class RankingView {
       data: {
         datasets: [
           ...e.curves.map((c) => ({ ...line(c, c.precisionRecall, `${c.label} (AP ${fixed(c.averagePrecision, 3)})`), stepped: 'after' as const })),
-          ...(two && e.curves[0]?.baseRate !== null ? [dashed([{ x: 0, y: e.curves[0].baseRate! }, { x: 1, y: e.curves[0].baseRate! }], 'chance: the share of the class')] : []),
+          ...(two && e.curves[0]?.baseRate !== null ? [dashed([{ x: 0, y: e.curves[0].baseRate }, { x: 1, y: e.curves[0].baseRate }], 'chance: the share of the class')] : []),
         ],
       },
       options: { responsive: true, maintainAspectRatio: false, parsing: false, plugins: { legend, tooltip: { enabled: false } }, scales: axes('recall', 'precision') },

@@ -64,7 +64,7 @@ export async function crossValidate(table: Table, fit: FitOptions, cv: CrossVali
   for (const key of keys) {
     const values = folds.map((f) => (f as unknown as Record<string, unknown>)[key]);
     if (values.every((v) => typeof v === 'number')) {
-      const s = spreadOf(values as number[]);
+      const s = spreadOf(values);
       mean[key] = s.mean;
       sd[key] = s.sd;
     } else if (values.every((v) => v && typeof v === 'object')) {
