@@ -21,6 +21,7 @@ import { MapMatrixView } from './map/matrix';
 import { RegionMapView } from './map/view';
 import { ContributionsView } from './sections/contributions';
 import { CurveView } from './sections/curve';
+import { CrossValidationPanel } from './sections/cross-validation';
 import { DependenceView } from './sections/dependence';
 import { DiagnosticsView } from './sections/diagnostics';
 import { RankingView } from './sections/evaluation';
@@ -71,6 +72,7 @@ const sweepView = new SweepView({
 const suspectsView = new SuspectsView((row) => post({ type: 'revealRow', row }));
 const rankingView = new RankingView();
 const diagnosticsView = new DiagnosticsView();
+const cvView = new CrossValidationPanel();
 
 const title = h('h1', {}, 'Copse');
 const statusText = h('span', { class: 'status-text' });
@@ -82,6 +84,7 @@ const curveSection = section('curve-section', 'Out-of-bag error as trees are add
 const importanceSection = section('importance-section', 'What the forest leans on', importanceView.root);
 const rankingSection = section('evaluation-section', 'Ranking, calibration and the decision threshold', rankingView.root);
 const diagnosticsSection = section('diagnostics-section', 'Predictions against the truth', diagnosticsView.root);
+const cvSection = section('cv-section', 'Cross-validation', cvView.root);
 
 function build(): void {
   const summarySection = h('section', { class: 'card', testid: 'summary' }, h('h2', {}, 'Fit at a glance'), summaryView.root);
@@ -96,6 +99,7 @@ function build(): void {
       summarySection,
       rankingSection,
       diagnosticsSection,
+      cvSection,
       h(
         'div',
         { class: 'columns' },
@@ -162,6 +166,8 @@ function showSummary(s: FitSummary): void {
   contributionsView.setSummary(s);
   dependenceView.setSummary(s);
   rankingView.setSummary(s);
+  cvView.set(s);
+  cvSection.classList.toggle('hidden', !CrossValidationPanel.of(s));
   clear(warnings);
   warningsTitle.textContent = s.warnings.length > 0 ? `Worth checking (${s.warnings.length})` : 'Worth checking';
   if (s.warnings.length === 0) append(warnings, h('li', { class: 'muted none' }, 'Nothing flagged for this fit.'));

@@ -55,6 +55,8 @@ export { cautions, type Caution, type CautionKind } from '../core/checks/caution
 export { sampleRows } from '../core/data/sample';
 export { RowVotes, membershipOf, targetTolerance, voteEntropy, voteMargin, type GroupAnswer, type RowAnswer, type RowRole, type VoteTally } from '../core/forest/row-votes';
 export type { Membership } from '../core/forest/predict';
+export { crossValidate } from '../core/summary/cross-validation';
+export type { CrossValidationSummary } from '../core/summary/types';
 export type { FitSummary as CoreFitSummary, ScoresSummary as CoreScoresSummary, SuspectRow as CoreSuspectRow } from '../core/summary/types';
 export { summarizeFit } from '../core/summary/fit';
 export { summarizeOpened } from '../core/summary/opened';

@@ -65,3 +65,12 @@ export interface RegressionDiagnosticsView {
   rows: number;
   interval: { level: number; coverage: number; rows: number; meanWidth: number } | null;
 }
+
+/** k-fold cross-validation: each score's value per fold, and its mean and sample sd over folds. */
+export interface CrossValidationView {
+  foldCount: number;
+  repeats: number;
+  stratified: boolean;
+  /** Scores in the order shown: accuracy, balancedAccuracy, auc, brier, logLoss; or r2, mae, rmse. */
+  scores: Array<{ key: string; perFold: Array<number | null>; mean: number | null; sd: number | null }>;
+}

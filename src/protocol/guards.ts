@@ -74,6 +74,7 @@ export function isFitSummary(v: unknown): v is FitSummary {
     isNumOrNull(v.fitSeconds) &&
     isStr(v.fit) &&
     (v.suspectCount === null || isInt(v.suspectCount)) &&
+    (v.cv === undefined || (isObj(v.cv) && Array.isArray(v.cv.scores))) &&
     (v.permutationOn === undefined || v.permutationOn === 'out-of-bag' || v.permutationOn === 'file') &&
     (v.oobUnavailable === undefined || isStr(v.oobUnavailable)) &&
     (v.permutationNote === undefined || isStr(v.permutationNote))

@@ -1,7 +1,7 @@
 // The fit summary as the panel receives it: core's summary (src/core/summary) reshaped in one place,
 // src/extension/summary/panel.ts, into plain JSON with null for missing numbers.
 
-import type { EvaluationView, RegressionDiagnosticsView } from './evaluation';
+import type { CrossValidationView, EvaluationView, RegressionDiagnosticsView } from './evaluation';
 
 export * from './evaluation';
 
@@ -105,4 +105,6 @@ export interface FitSummary {
   permutationOn?: 'out-of-bag' | 'file';
   /** Set when out-of-bag figures cannot exist for this forest: why, as a sentence, shown in their place. */
   oobUnavailable?: string;
+  /** Present when the fit was cross-validated (the adjust step's folds). */
+  cv?: CrossValidationView;
 }

@@ -45,4 +45,14 @@ describe('extension fit choices', () => {
     assert.equal(describeChoice({ ...c, holdout: 0 }, 'holdout'), 'none (out-of-bag estimate only)');
     assert.equal(describeChoice({ ...c, exclude: ['a', 'b'] }, 'exclude'), 'a, b');
   });
+
+  it('takes cross-validation folds from 2 to 20, with 0, none or empty meaning none', () => {
+    for (const t of ['0', 'none', '']) assert.deepEqual(parseChoice('folds', t), { ok: true, value: 0 });
+    assert.deepEqual(parseChoice('folds', '5'), { ok: true, value: 5 });
+    assert.equal(parseChoice('folds', '1').ok, false);
+    assert.equal(parseChoice('folds', '21').ok, false);
+    const c = choicesFrom(training, 'species', 'classification');
+    assert.equal(describeChoice(c, 'folds'), 'none');
+    assert.match(describeChoice({ ...c, folds: 5 }, 'folds'), /^5 \(fits 5 more forests/);
+  });
 });

@@ -6,15 +6,19 @@ import * as assert from 'node:assert/strict';
 import * as path from 'node:path';
 import { loadCsv } from '../../src/core/csv/load';
 import { fitForest } from '../../src/core/forest/fit';
+import { crossValidate } from '../../src/core/summary/cross-validation';
 import { summarizeFit } from '../../src/core/summary/fit';
 import { panelSummary } from '../../src/extension/summary/panel';
 import type { FitSummary } from '../../src/protocol/messages';
 import { PanelPage, ROOT } from './harness';
 
-async function summaryOf(file: string, target: string, id: string, holdout?: number): Promise<FitSummary> {
+async function summaryOf(file: string, target: string, id: string, holdout?: number, folds?: number): Promise<FitSummary> {
   const { table } = await loadCsv(path.join(ROOT, file), { target });
-  const report = await fitForest(table, { target, params: { trees: 60, seed: 3 }, workers: 2, holdout, permutationImportance: false });
-  return panelSummary(summarizeFit(report, table, { file: path.basename(file) }), { fit: id, uri: `file:///${file}` });
+  const fit = { target, params: { trees: 60, seed: 3 }, workers: 2, permutationImportance: false };
+  const report = await fitForest(table, { ...fit, holdout });
+  const core = summarizeFit(report, table, { file: path.basename(file) });
+  const cv = folds ? await crossValidate(table, fit, { folds }) : undefined;
+  return panelSummary(cv ? { ...core, cv } : core, { fit: id, uri: `file:///${file}` });
 }
 
 async function cells(p: PanelPage, id: string): Promise<number[]> {
@@ -72,8 +76,13 @@ describe('ranking, calibration and threshold views (headless Chromium)', functio
   });
 
   it('three classes: one curve per class and no threshold control', async () => {
-    const iris = await summaryOf('test/fixtures/open/iris.csv', 'species', 'iris-1');
+    const iris = await summaryOf('test/fixtures/open/iris.csv', 'species', 'iris-1', undefined, 5);
     await p.send({ type: 'summary', summary: iris });
+    // Cross-validation, as the adjust step's folds give it: one column per fold, and core's mean.
+    const cvMean = await p.page.locator('[data-testid=cv-accuracy] td').first().textContent();
+    assert.equal(cvMean, iris.cv!.scores[0].mean!.toFixed(3));
+    assert.equal(await p.page.locator('[data-testid=cv-accuracy] td').count(), 2 + 5);
+    await p.screenshotOf('[data-testid=cv-section]', 'cross-validation-light.png');
     assert.match((await p.page.locator('[data-testid=roc-caption]').textContent())!, /mean AUC/);
     const hidden = await p.page.evaluate<boolean>(`document.querySelector('[data-testid=threshold]').classList.contains('hidden')`);
     assert.ok(hidden);
@@ -85,8 +94,8 @@ describe('ranking, calibration and threshold views (headless Chromium)', functio
   it('regression: predicted against actual and residual plots instead of curves', async () => {
     const loaves = await summaryOf('demo/loaf-rise.csv', 'rise_mm', 'loaf-1');
     await p.send({ type: 'summary', summary: loaves });
-    const state = await p.page.evaluate<boolean[]>(`['evaluation-section','diagnostics-section'].map((id) => document.querySelector('[data-testid=' + id + ']').classList.contains('hidden'))`);
-    assert.deepEqual(state, [true, false]);
+    const state = await p.page.evaluate<boolean[]>(`['evaluation-section','diagnostics-section','cv-section'].map((id) => document.querySelector('[data-testid=' + id + ']').classList.contains('hidden'))`);
+    assert.deepEqual(state, [true, false, true]);
     await p.screenshotOf('[data-testid=diagnostics-section]', 'diagnostics-dark.png');
     assert.deepEqual(p.errors, []);
   });

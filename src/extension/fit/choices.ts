@@ -17,9 +17,11 @@ export interface FitChoices {
   /** Fraction of rows held out of training; 0 for none (the out-of-bag score is then the estimate). */
   readonly holdout: number;
   readonly exclude: readonly string[];
+  /** k-fold cross-validation after the fit: K more forests (absent or 0: none). */
+  readonly folds?: number;
 }
 
-export type AdjustKey = 'task' | 'trees' | 'featuresPerSplit' | 'maxDepth' | 'minLeaf' | 'seed' | 'holdout' | 'exclude';
+export type AdjustKey = 'task' | 'trees' | 'featuresPerSplit' | 'maxDepth' | 'minLeaf' | 'seed' | 'holdout' | 'folds' | 'exclude';
 
 export function choicesFrom(t: TrainingSettings, target: string, task: Task): FitChoices {
   return {
@@ -51,6 +53,7 @@ export const ADJUST_LABELS: Record<AdjustKey, string> = {
   minLeaf: 'Smallest leaf (rows)',
   seed: 'Random seed',
   holdout: 'Rows held out for scoring',
+  folds: 'Cross-validation folds',
   exclude: 'Columns left out',
 };
 
@@ -72,6 +75,8 @@ export function describeChoice(c: FitChoices, key: AdjustKey): string {
       return String(c.seed);
     case 'holdout':
       return c.holdout > 0 ? `${Math.round(c.holdout * 1000) / 10}%` : 'none (out-of-bag estimate only)';
+    case 'folds':
+      return c.folds ? `${c.folds} (fits ${c.folds} more forests, each scored on the rows it left out)` : 'none';
     case 'exclude':
       return c.exclude.length ? c.exclude.join(', ') : 'none';
   }
@@ -107,6 +112,9 @@ export function parseChoice(key: Exclude<AdjustKey, 'task' | 'exclude'>, text: s
         return { ok: false, message: (e as Error).message };
       }
     }
+    case 'folds':
+      if (t === '' || t === '0' || /^none$/i.test(t)) return { ok: true, value: 0 };
+      return whole(2, 20);
     case 'holdout': {
       const pct = t.endsWith('%');
       const n = Number(pct ? t.slice(0, -1) : t);

@@ -102,7 +102,7 @@ interface AdjustItem extends vscode.QuickPickItem {
   readonly key?: AdjustKey;
 }
 
-const ORDER: AdjustKey[] = ['task', 'trees', 'featuresPerSplit', 'maxDepth', 'minLeaf', 'seed', 'holdout', 'exclude'];
+const ORDER: AdjustKey[] = ['task', 'trees', 'featuresPerSplit', 'maxDepth', 'minLeaf', 'seed', 'holdout', 'folds', 'exclude'];
 
 /** Lets the user change the fit's choices one at a time; resolves on "Fit now", undefined on dismiss. */
 export async function adjustChoices(
@@ -148,7 +148,7 @@ async function editChoice(c: FitChoices, key: AdjustKey, target: ColumnProfile, 
   }
   const text = await vscode.window.showInputBox({
     title: ADJUST_LABELS[key],
-    value: key === 'holdout' ? String(c.holdout) : key === 'maxDepth' ? (c.maxDepth === null ? 'none' : String(c.maxDepth)) : String(c[key]),
+    value: key === 'holdout' ? String(c.holdout) : key === 'folds' ? String(c.folds ?? 0) : key === 'maxDepth' ? (c.maxDepth === null ? 'none' : String(c.maxDepth)) : String(c[key]),
     prompt: PROMPTS[key],
     validateInput: (t) => {
       const r = parseChoice(key, t);
@@ -167,4 +167,5 @@ const PROMPTS: Record<Exclude<AdjustKey, 'task' | 'exclude'>, string> = {
   minLeaf: 'Fewest training rows a leaf may hold; larger values smooth the regions',
   seed: 'Seed for the bootstrap draws and feature choices; the same seed gives the same forest',
   holdout: 'Share of rows kept out of training and scored at the end, e.g. 20% (0 for none)',
+  folds: 'Estimate the scores by k-fold cross-validation too: 2 to 20 folds, stratified by class (0 for none)',
 };

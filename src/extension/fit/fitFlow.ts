@@ -5,7 +5,7 @@ import { promises as fs, readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import type { CopseContext, FitOrigin } from '../context';
-import { findColumn, fitForest, loadCsv, Scorer, summarizeFit, targetDoubt, type FitReport, type Schema } from '../engine';
+import { crossValidate, findColumn, fitForest, loadCsv, Scorer, summarizeFit, targetDoubt, type CrossValidationSummary, type FitReport, type ForestParams, type Schema, type Table } from '../engine';
 import { isAbort, isUserError, userMessage } from '../errors';
 import { formatBytes, formatSeconds, formatShare } from '../engine';
 import type { PanelHost } from '../panel/panelHost';
@@ -223,9 +223,10 @@ async function runFit(ctx: CopseContext, panel: PanelHost, loaded: LoadedCsv, ch
             panel.status('working', `Fitting: ${done} of ${total} trees`, done / total);
           },
         });
+        const cv = choices.folds && choices.folds >= 2 ? await crossValidation(table, choices, params, settings.training.workers, abort.signal, panel) : undefined;
         progress.report({ message: 'scoring rows for hovers and maps' });
         panel.status('working', 'Scoring rows for hovers and maps…', null);
-        return await install(ctx, loaded, choices, report, abort.signal);
+        return await install(ctx, loaded, choices, report, abort.signal, cv);
       } catch (e) {
         panel.status(isAbort(e) ? 'idle' : 'error', isAbort(e) ? 'Fit cancelled.' : userMessage(e), null);
         throw e;
@@ -240,7 +241,17 @@ async function runFit(ctx: CopseContext, panel: PanelHost, loaded: LoadedCsv, ch
 }
 
 /** Builds the session for a finished fit, makes it active, logs it, and keeps it for the next reload. */
-async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices, report: FitReport, signal: AbortSignal): Promise<void> {
+/** The adjust step's cross-validation: K more forests with the fit's settings, with progress; cancelled with the fit. */
+async function crossValidation(table: Table, c: FitChoices, params: Partial<ForestParams>, workers: number, signal: AbortSignal, panel: PanelHost): Promise<CrossValidationSummary> {
+  panel.status('working', `Cross-validating (${c.folds} folds)…`, 0);
+  const fit = { target: c.target, task: c.task, params, exclude: [...c.exclude], workers: workers > 0 ? workers : undefined, signal };
+  return crossValidate(table, fit, {
+    folds: c.folds!,
+    onProgress: (done, total) => panel.status('working', `Cross-validating: fold ${Math.min(c.folds!, Math.floor((done - 1) / (total / c.folds!)) + 1)} of ${c.folds}, ${done} of ${total} trees`, done / total),
+  });
+}
+
+async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices, report: FitReport, signal: AbortSignal, cv?: CrossValidationSummary): Promise<void> {
   const settings = ctx.settings();
   const { load } = loaded;
   const forest = report.forest;
@@ -255,7 +266,8 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
     );
   }
   warnings.push(...load.warnings);
-  const core = summarizeFit(report, load.table, { file: label, rowsRead: load.rowsRead, sampled: loaded.sampled, testFrom: 'holdout', warnings });
+  const fitted = summarizeFit(report, load.table, { file: label, rowsRead: load.rowsRead, sampled: loaded.sampled, testFrom: 'holdout', warnings });
+  const core = cv ? { ...fitted, cv } : fitted;
   const uri = vscode.Uri.file(loaded.path).toString();
   const summarySeconds = (performance.now() - tSummary) / 1000;
 

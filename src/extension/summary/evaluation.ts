@@ -1,7 +1,7 @@
 // Core's ranking, calibration and regression figures reshaped for the panel: null for missing numbers, a
 // curve's points as x and y. Nothing is computed here.
-import type { EvaluationView, RegressionDiagnosticsView } from '../../protocol/messages';
-import type { CoreScoresSummary } from '../engine';
+import type { CrossValidationView, EvaluationView, RegressionDiagnosticsView } from '../../protocol/messages';
+import type { CoreFitSummary, CoreScoresSummary } from '../engine';
 
 const finite = (v: number | undefined | null): number | null => (v !== undefined && v !== null && Number.isFinite(v) ? v : null);
 
@@ -40,4 +40,22 @@ export function panelDiagnostics(s: CoreScoresSummary): RegressionDiagnosticsVie
   const d = s.diagnostics;
   if (!d) return undefined;
   return { pairs: d.pairs.map((p) => ({ actual: p.actual, predicted: p.predicted })), rows: d.rows, interval: d.interval ? { ...d.interval } : null };
+}
+
+export function panelCrossValidation(s: CoreFitSummary): CrossValidationView | undefined {
+  const cv = s.cv;
+  if (!cv) return undefined;
+  const keys = s.task === 'classification' ? ['accuracy', 'balancedAccuracy', 'auc', 'brier', 'logLoss'] : ['r2', 'mae', 'rmse'];
+  const number = (v: unknown) => (typeof v === 'number' ? finite(v) : null);
+  return {
+    foldCount: cv.foldCount,
+    repeats: cv.repeats,
+    stratified: cv.stratified,
+    scores: keys.map((key) => ({
+      key,
+      perFold: cv.folds.map((f) => number((f as unknown as Record<string, unknown>)[key])),
+      mean: number(cv.mean[key]),
+      sd: number(cv.sd[key]),
+    })),
+  };
 }

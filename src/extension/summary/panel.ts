@@ -3,7 +3,7 @@
 
 import type { FitSummary as PanelSummary, ScoreSummary } from '../../protocol/messages';
 import type { CoreFitSummary, CoreScoresSummary } from '../engine';
-import { panelDiagnostics, panelEvaluation } from './evaluation';
+import { panelCrossValidation, panelDiagnostics, panelEvaluation } from './evaluation';
 
 export interface PanelExtras {
   /** Names this fit for the panel (see FitSummary.fit). */
@@ -42,6 +42,7 @@ export function panelSummary(s: CoreFitSummary, extras: PanelExtras): PanelSumma
     ...(imp.permutationOn ? { permutationOn: imp.permutationOn } : {}),
     ...(!s.oob && s.oobUnavailable ? { oobUnavailable: s.oobUnavailable } : {}),
     ...(imp.permutationMissing ? { permutationNote: imp.permutationMissing } : {}),
+    ...optional('cv', panelCrossValidation(s)),
   };
 }
 
