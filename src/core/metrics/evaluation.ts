@@ -2,7 +2,7 @@
 // what `oob` and `test` carry besides accuracy. Two classes are read for the second class (the positive
 // one); more classes one against the rest, per class, with the ROC area's macro average as the headline.
 import { brierScore, calibrationCurve, type CalibrationBin } from './calibration';
-import { averagePrecision, binaryCurve, precisionRecallPoints, rocAuc, rocPoints, type PrecisionRecallPoint, type RocPoint } from './ranking';
+import { averagePrecision, binaryCurve, CURVE_POINTS, precisionRecallPoints, rocAuc, rocPoints, type PrecisionRecallPoint, type RocPoint } from './ranking';
 import { thresholdPresets, thresholdTable, type ThresholdPreset, type ThresholdTable } from './thresholds';
 
 export interface ClassCurves {
@@ -37,6 +37,8 @@ export function evaluateProbabilities(truth: ArrayLike<number>, proba: ArrayLike
   const rows: number[] = [];
   for (let i = 0; i < truth.length; i++) if ((!include || include(i)) && truth[i] >= 0) rows.push(i);
   const classes = K === 2 ? [1] : labels.map((_, k) => k);
+  // Many classes share one budget of points, so the summary stays small: 200 per curve up to 10 classes.
+  const limit = Math.max(40, Math.min(CURVE_POINTS, Math.floor((10 * CURVE_POINTS) / classes.length)));
   const perClass = classes.map((k) => {
     const p = Float64Array.from(rows, (i) => proba[i * K + k]);
     const positive = Uint8Array.from(rows, (i) => (truth[i] === k ? 1 : 0));
@@ -45,8 +47,8 @@ export function evaluateProbabilities(truth: ArrayLike<number>, proba: ArrayLike
       label: labels[k],
       auc: rocAuc(c),
       averagePrecision: averagePrecision(c),
-      roc: curves ? rocPoints(c) : [],
-      precisionRecall: curves ? precisionRecallPoints(c) : [],
+      roc: curves ? rocPoints(c, limit) : [],
+      precisionRecall: curves ? precisionRecallPoints(c, limit) : [],
       baseRate: rows.length ? c.positives / rows.length : NaN,
       calibration: curves ? { equalWidth: calibrationCurve(p, positive, 'equal-width'), equalCount: calibrationCurve(p, positive, 'equal-count') } : { equalWidth: [], equalCount: [] },
     };
