@@ -11,9 +11,10 @@ import { dataRowOf, scoresSummary } from '../../core/summary/fit';
 import type { ScoresSummary } from '../../core/summary/types';
 import { knowsTraining } from '../../core/open/open';
 import { flag, fraction, parse, text, UsageError, type Options } from '../args';
+import { say, sayError } from '../terminal';
 import { DEBUG_ENTRY, optionList } from '../help';
 import { MODEL_ENTRIES, MODEL_OPTIONS, openForData } from '../model';
-import { checkOutput, writeFailure } from '../output';
+import { checkOutput, oneStdout, toStdout, writeFailure } from '../output';
 import { value } from '../report';
 import { trainingOf, type TrainingView } from '../training';
 
@@ -27,7 +28,7 @@ the all-trees columns look better than the forest is on rows the trees were fitt
 
 Options:
 ${optionList([
-  ['--out OUT.csv', "write the input columns plus the prediction, each class's probability (or the value)\nand the share of trees that agree (or the spread of the trees' values); never the input file;\nOUT.parquet writes Parquet, any other name CSV (DATA may be CSV, .csv.gz or Parquet)"],
+  ['--out OUT.csv', "write the input columns plus the prediction, each class's probability (or the value)\nand the share of trees that agree (or the spread of the trees' values); never the input file;\nOUT.parquet writes Parquet, any other name CSV (DATA may be CSV, .csv.gz or Parquet); - for standard output"],
   ['--interval LEVEL', 'regression: add a prediction interval at this level, such as 0.9 (quantile regression\nforest, Meinshausen 2006); needs --training'],
   ['--training TRAIN.csv', "the file the forest was fitted on (checked against the model's fingerprint)"],
   ['--json', 'print one JSON object: rows, columns, timings, and the predictions unless --out is given'],
@@ -48,6 +49,7 @@ export async function runPredict(argv: string[]): Promise<void> {
   const out = text(args, 'out');
   if (level !== undefined && !training) throw new UsageError('--interval needs --training TRAIN.csv, the file the forest was fitted on.', 'predict');
   if (out) {
+    oneStdout(out, flag(args, 'json'), '--out -');
     await checkOutput(out, '--out', [
       { file: dataPath, what: 'the input file', refusal: `Refusing to write predictions over the input file ${dataPath}; choose another --out.` },
       ...(training ? [{ file: training, what: 'the --training file' }] : []),
@@ -109,9 +111,10 @@ export async function runPredict(argv: string[]): Promise<void> {
     process.stdout.write(JSON.stringify({ rows: prediction.rows, columns: added.names, output: out ?? null, warnings, outOfBag, seconds, predictions: rows }, null, 2) + '\n');
     return;
   }
-  for (const w of warnings) process.stderr.write(`Warning: ${w}\n`);
+  for (const w of warnings) sayError(`Warning: ${w}\n`);
   if (out) {
-    process.stdout.write(`Scored ${prediction.rows} rows into ${out}.\n`);
+    if (toStdout(out)) sayError(`Scored ${prediction.rows} rows.\n`);
+    else say(`Scored ${prediction.rows} rows into ${out}.\n`);
     return;
   }
   let csv = csvLine(['row', ...added.names]);
