@@ -1,6 +1,7 @@
 // How the command line tells an error (src/cli/errors.ts): the user's problems in one sentence with exit 1 or 2,
 // file-system errors in words about the user's own path, and anything else as internal, with exit 70.
 import * as assert from 'node:assert/strict';
+import { spawnSync } from 'node:child_process';
 import { openSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import * as path from 'node:path';
@@ -79,5 +80,13 @@ describe('copse error messages and exit codes', () => {
   it('shows control characters in a message as escapes', () => {
     const said = tell(new DataError('k.csv has no column "\x1b[31mred\x1b]0;owned\x07"'), 'fit');
     assert.equal(said.text, 'copse fit: k.csv has no column "\\x1b[31mred\\x1b]0;owned\\x07"\n');
+  });
+});
+
+describe('copse --help', () => {
+  it('lists every exit code the command line uses', () => {
+    const help = spawnSync(process.execPath, [path.join(__dirname, '..', '..', '..', 'bin/copse.js'), '--help'], { encoding: 'utf8' }).stdout;
+    for (const code of Object.values(EXIT)) assert.match(help, new RegExp(`\\b${code}\\b`), `exit code ${code}`);
+    assert.match(help, /70 +an internal error/);
   });
 });

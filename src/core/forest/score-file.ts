@@ -97,7 +97,10 @@ export async function writePredictions(input: string, out: string, delimiter: st
   const eol = await lineEndingOf(input);
   const sink = new OutputFile(out);
   try {
-    const parser = createReadStream(input).pipe(parse({ ...parserOptions(delimiter), raw: true }));
+    const source = createReadStream(input);
+    const parser = source.pipe(parse({ ...parserOptions(delimiter), raw: true }));
+    // pipe() does not pass a read error on: without this it would be an uncaught 'error' event, not a rejection.
+    source.on('error', (e) => parser.destroy(e));
     let k = -1;
     // Lines are gathered into chunks of about 64 KiB: one write per line would be a system call per record.
     let chunk = '';
