@@ -74,6 +74,9 @@ describe('copse outputs: links, devices, FIFOs, standard output and signals', fu
     assert.equal(p.code, 1, p.stderr);
     assert.match(p.stderr, /Refusing to write predictions over the input file/);
     const before = readFileSync(model);
+    const own = copse(['predict', model, data, '--out', 'model-link.onnx'], dir);
+    assert.equal(own.code, 1, own.stderr);
+    assert.match(own.stderr, /it is the model \(the same file as .*model\.json\)/);
     const t = copse(['export', model, 'model-link.onnx'], dir);
     assert.equal(t.code, 1, t.stderr);
     assert.match(t.stderr, /Refusing to write the ONNX file over the model/);

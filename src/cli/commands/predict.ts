@@ -53,6 +53,7 @@ export async function runPredict(argv: string[]): Promise<void> {
     await checkOutput(out, '--out', [
       { file: dataPath, what: 'the input file', refusal: `Refusing to write predictions over the input file ${dataPath}; choose another --out.` },
       ...(training ? [{ file: training, what: 'the --training file' }] : []),
+      { file: modelPath, what: 'the model' },
     ]);
   }
   const { forest, notes } = await openForData(modelPath, dataPath, args, 'predict');

@@ -74,6 +74,6 @@ export function validateParams(p: ForestParams): void {
   if (!(p.sampleFraction > 0 && p.sampleFraction <= 1)) throw new RangeError(`sample fraction must be in (0, 1]; got ${p.sampleFraction}`);
   if (!Number.isInteger(p.seed)) throw new RangeError(`seed must be a whole number; got ${p.seed}`);
   const classCriterion = p.criterion === 'gini' || p.criterion === 'entropy';
-  if ((p.task === 'classification') !== classCriterion) throw new InputError(`criterion ${p.criterion} does not fit ${p.task}`);
+  if ((p.task === 'classification') !== classCriterion) throw new InputError(`The criterion ${p.criterion} is for ${classCriterion ? 'classification' : 'regression'}, not ${p.task}.`);
   resolveFeaturesPerSplit(p.featuresPerSplit, 1);
 }
