@@ -51,12 +51,14 @@ describe('copse outputs: links, devices, FIFOs, standard output and signals', fu
     const out = copse(['predict', model, data, '--out', path.join(dir, 'scored.csv')], dir);
     assert.equal(out.code, 0, out.stderr);
     expected = readFileSync(path.join(dir, 'scored.csv'), 'utf8');
-  });
-
-  it('refuses to save over the data file through a symbolic link, a hard link or a roundabout path', () => {
+    // Links to the inputs, which every refusal below must see through.
     symlinkSync('train.csv', path.join(dir, 'soft.csv'));
     linkSync(data, path.join(dir, 'hard.csv'));
     mkdirSync(path.join(dir, 'x'));
+    symlinkSync('model.json', path.join(dir, 'model-link.onnx'));
+  });
+
+  it('refuses to save over the data file through a symbolic link, a hard link or a roundabout path', () => {
     const before = readFileSync(data);
     for (const save of ['soft.csv', 'hard.csv', './x/../train.csv', path.join(dir, 'x', '..', 'hard.csv')]) {
       const r = copse(['fit', 'train.csv', '--target', 'outcome', '--trees', '2', '--save', save], dir);
@@ -69,7 +71,6 @@ describe('copse outputs: links, devices, FIFOs, standard output and signals', fu
   });
 
   it('refuses predict --out and export onto a link to their inputs', () => {
-    symlinkSync('model.json', path.join(dir, 'model-link.onnx'));
     const p = copse(['predict', model, data, '--out', 'hard.csv'], dir);
     assert.equal(p.code, 1, p.stderr);
     assert.match(p.stderr, /Refusing to write predictions over the input file/);
