@@ -3,7 +3,7 @@
 // behind by a signal, a failed write or a full disk.
 import * as assert from 'node:assert/strict';
 import { spawn, spawnSync, type StdioOptions } from 'node:child_process';
-import { closeSync, existsSync, linkSync, lstatSync, mkdirSync, mkdtempSync, openSync, readdirSync, readFileSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
+import { closeSync, existsSync, linkSync, lstatSync, mkdirSync, mkdtempSync, openSync, readdirSync, readFileSync, readlinkSync, rmSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import * as path from 'node:path';
 
@@ -34,6 +34,26 @@ function started(args: string[], cwd: string) {
   return { child, done };
 }
 
+/**
+ * The system files these tests write to. A regression that renames over them would, as root, replace the
+ * machine's own /dev/null; so each test ends by checking them, putting back any that changed, and failing.
+ */
+const SYSTEM_OUTPUTS = ['/dev/null', '/dev/full', '/dev/stdout'].filter((f) => existsSync(f));
+const systemState = () => SYSTEM_OUTPUTS.map((f) => ({ f, s: lstatSync(f), link: lstatSync(f).isSymbolicLink() ? readlinkSync(f) : '' }));
+
+function restoreChanged(before: ReturnType<typeof systemState>): string[] {
+  const changed: string[] = [];
+  for (const { f, s, link } of before) {
+    const now = lstatSync(f, { throwIfNoEntry: false });
+    if (now && now.rdev === s.rdev && now.mode === s.mode && (!link || readlinkSync(f) === link)) continue;
+    changed.push(f);
+    rmSync(f, { force: true });
+    if (link) symlinkSync(link, f);
+    else spawnSync('mknod', ['-m', (s.mode & 0o777).toString(8), f, 'c', String(Math.floor(s.rdev / 256)), String(s.rdev % 256)]);
+  }
+  return changed;
+}
+
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const temps = (dir: string) => readdirSync(dir).filter((f) => f.endsWith('.tmp'));
 
@@ -44,7 +64,11 @@ describe('copse outputs: links, devices, FIFOs, standard output and signals', fu
   const model = path.join(dir, 'model.json');
   let expected = '';
 
+  let system: ReturnType<typeof systemState> = [];
+  afterEach(() => assert.deepEqual(restoreChanged(system), [], 'a system device or link was replaced (and has been put back)'));
+
   before(() => {
+    system = systemState();
     writeFileSync(data, readFileSync(kites));
     const r = copse(['fit', data, '--target', 'outcome', '--trees', '10', '--no-importance', '--save', model], dir);
     assert.equal(r.code, 0, r.stderr);
