@@ -2,6 +2,8 @@
 // Only the command asked for is loaded, so help and version answer without reading the engine.
 import { readFileSync } from 'node:fs';
 import * as path from 'node:path';
+import { visible } from '../core/visible';
+import { guardProcess } from './signals';
 
 const HELP = `Usage: copse COMMAND [options]
 
@@ -13,6 +15,16 @@ Commands:
   export   write a saved forest as an ONNX tree ensemble
 
 Run "copse COMMAND --help" for a command's options, "copse --version" for the version.
+
+An output file (--save, --out, export's OUT) may be - for standard output. A symbolic link is written at its
+target, a FIFO or device directly, and an output that leads to one of the command's inputs is refused.
+
+Exit codes:
+  0    done
+  1    a problem with the input: a file, the data, a model, or an output that cannot be written
+  2    a wrong command line (an unknown option, a missing argument, a bad value)
+  70   an internal error: a fault in Copse; run again with --debug and report it
+  130  stopped by Ctrl-C (SIGINT); 143 by SIGTERM; 129 by SIGHUP. Temporary files are removed.
 `;
 
 type Run = (argv: string[]) => Promise<void>;
@@ -53,18 +65,22 @@ export async function main(argv: string[]): Promise<number> {
   }
   const load = Object.hasOwn(COMMANDS, command) ? COMMANDS[command] : undefined;
   if (!load) {
-    process.stderr.write(`copse: unknown command "${command}". Commands: ${Object.keys(COMMANDS).join(', ')}.\n`);
+    process.stderr.write(visible(`copse: unknown command "${command}". Commands: ${Object.keys(COMMANDS).join(', ')}.\n`));
     return 2;
   }
+  const tell = (e: unknown) => {
+    // eslint-disable-next-line @typescript-eslint/no-require-imports -- loaded only on an error, like the commands above.
+    const { describe } = require('./errors') as typeof import('./errors');
+    const said = describe(e, command);
+    return debug ? { text: visible(`${(e as Error)?.stack ?? String(e)}\n`), code: said.code } : said;
+  };
+  guardProcess(tell);
   try {
     await load()(rest);
     return 0;
   } catch (e) {
-    // eslint-disable-next-line @typescript-eslint/no-require-imports -- loaded only on an error, like the commands above.
-    const { describe } = require('./errors') as typeof import('./errors');
-    const said = describe(e, command);
-    if (debug) process.stderr.write(`${(e as Error).stack ?? String(e)}\n`);
-    else process.stderr.write(said.text);
+    const said = tell(e);
+    process.stderr.write(said.text);
     return said.code;
   }
 }

@@ -3,7 +3,9 @@
 // path the user gave, never the temporary file it was being written through.
 import { constants, promises as fs } from 'node:fs';
 import * as path from 'node:path';
-import { OverwriteError } from '../core/forest/score-file';
+import { outputPlace } from '../core/atomic';
+import { reasonOf, systemCode } from '../core/file-errors';
+import { refuseInputAsOutput, type GuardedInput } from '../core/output-guard';
 
 export class OutputError extends Error {
   /** true: found before any work, a wrong command line (exit 2); false: the write itself failed (exit 1). */
@@ -13,57 +15,56 @@ export class OutputError extends Error {
   }
 }
 
-/** One input the output must not replace, and what to call it in the refusal. */
-export interface Guarded {
-  readonly file: string;
-  readonly what: string;
-  /** The whole refusal, when the default wording will not do. */
-  readonly refusal?: string;
-}
-
-async function real(file: string): Promise<string> {
-  return fs.realpath(file).catch(() => path.resolve(file));
-}
+/** One input the output must not replace (core's GuardedInput). */
+export type Guarded = GuardedInput;
 
 /**
- * Throws an OutputError when `out` cannot be written (its folder is missing or read-only, or it is a folder), and
- * an OverwriteError when it is one of the inputs, which writing it would destroy. `flag` names the option.
+ * Throws an OverwriteError (core's one check, shared with the editor) when `out` leads to one of the inputs,
+ * and an OutputError when it cannot be written (its folder is missing or read-only, or it is a folder).
+ * A FIFO, a device and "-" (standard output) are written directly, so only their existence matters.
  */
 export async function checkOutput(out: string, flag: string, inputs: readonly Guarded[] = []): Promise<void> {
-  const target = await real(out);
-  for (const input of inputs) {
-    if ((await real(input.file)) === target) {
-      // Exit 1 like every refusal to write over an input (core's OverwriteError).
-      throw new OverwriteError(input.refusal ?? `Refusing to write ${out}: it is ${input.what}, which would be lost; choose another ${flag} file.`);
-    }
+  await refuseInputAsOutput(out, flag, inputs);
+  let place;
+  try {
+    place = outputPlace(out);
+  } catch (e) {
+    throw new OutputError(`Cannot write ${out}: ${reasonOf(e)}.`);
   }
-  const stat = await fs.stat(out).catch(() => undefined);
-  if (stat?.isDirectory()) throw new OutputError(`Cannot write ${out}: it is a folder; give a file name.`);
-  const dir = path.dirname(path.resolve(out));
+  if (place.direct) return;
+  const via = place.path === path.resolve(out) ? '' : ` (a link to ${place.path})`;
+  const stat = await fs.stat(place.path).catch(() => undefined);
+  if (stat?.isDirectory()) throw new OutputError(`Cannot write ${out}${via}: it is a folder; give a file name.`);
+  const dir = path.dirname(place.path);
+  const shownDir = via ? dir : path.dirname(out);
   const folder = await fs.stat(dir).catch(() => undefined);
-  if (!folder) throw new OutputError(`Cannot write ${out}: the folder ${path.dirname(out)} does not exist.`);
-  if (!folder.isDirectory()) throw new OutputError(`Cannot write ${out}: ${path.dirname(out)} is not a folder.`);
+  if (!folder) throw new OutputError(`Cannot write ${out}${via}: the folder ${shownDir} does not exist.`);
+  if (!folder.isDirectory()) throw new OutputError(`Cannot write ${out}${via}: ${shownDir} is not a folder.`);
   try {
     await fs.access(dir, constants.W_OK);
   } catch {
-    throw new OutputError(`Cannot write ${out}: the folder ${path.dirname(out)} is not writable.`);
+    throw new OutputError(`Cannot write ${out}${via}: the folder ${shownDir} is not writable.`);
   }
 }
 
-const REASONS: Record<string, string> = {
-  ENOENT: 'its folder does not exist',
-  EACCES: 'permission denied',
-  EPERM: 'permission denied',
-  EROFS: 'the file system is read-only',
-  ENOSPC: 'the disk is full',
-  EDQUOT: 'the disk quota is used up',
-  EISDIR: 'it is a folder',
-  ENOTDIR: 'part of the path is not a folder',
-};
-
 /** A file-system error met while writing `out`, told about `out` itself; other errors pass through. */
 export function writeFailure(e: unknown, out: string): unknown {
-  const code = (e as NodeJS.ErrnoException)?.code;
-  if (!code || !(e instanceof Error) || !('syscall' in e)) return e;
-  return new OutputError(`Could not write ${out}: ${REASONS[code] ?? code.toLowerCase()}.`, false);
+  if (!systemCode(e)) return e;
+  const where = toStdout(out) ? 'standard output' : out;
+  return new OutputError(`Could not write ${where}: ${reasonOf(e)}.`, false);
+}
+
+/** True when the output is standard output: "-", or a name for it such as /dev/stdout. */
+export function toStdout(out: string | undefined): boolean {
+  if (out === undefined) return false;
+  try {
+    return outputPlace(out).stdout;
+  } catch {
+    return false;
+  }
+}
+
+/** "--out - and --json" both want standard output: refused before any work. */
+export function oneStdout(out: string | undefined, json: boolean, label: string): void {
+  if (toStdout(out) && json) throw new OutputError(`${label} and --json both write to standard output; give a file name instead of -, or leave out --json.`);
 }

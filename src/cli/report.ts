@@ -1,6 +1,7 @@
 // The readable report of `copse fit`: what a practitioner checks first, in that order. Regression values are
 // rounded for reading here; the JSON keeps every digit.
 import { formatFixed, formatNumber, formatShare } from '../core/format';
+import { visibleValue } from '../core/visible';
 import type { FitSummary, ScoresSummary } from '../core/summary/types';
 import { crossValidationLines, evaluationLine, thresholdLines } from './report-evaluation';
 
@@ -23,7 +24,9 @@ export function scoreLine(s: ScoresSummary): string {
   return `accuracy ${pct(s.accuracy)}  balanced accuracy ${pct(s.balancedAccuracy)}  log loss ${num(s.logLoss)}  (${s.rows} rows)`;
 }
 
-export function table(rows: string[][]): string {
+export function table(cells: string[][]): string {
+  // One value per cell: a line break or tab from the data would break the columns.
+  const rows = cells.map((r) => r.map(visibleValue));
   const widths = rows[0].map((_, j) => Math.max(...rows.map((r) => r[j].length)));
   return rows.map((r) => '  ' + r.map((c, j) => (j === 0 ? c.padEnd(widths[j]) : c.padStart(widths[j]))).join('  ')).join('\n') + '\n';
 }

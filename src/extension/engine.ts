@@ -44,6 +44,8 @@ export { shuffle, stream } from '../core/forest/rng';
 export { openModelFile, isOnnxFile, knowsTraining, nameByPosition, ModelError, type ModelOrigin, type OpenedModel } from '../core/open/open';
 export { saveOnnxFile } from '../core/onnx/save';
 export { writeFileAtomic } from '../core/atomic';
+// The one check every output goes through, the command line's too: never over one of the command's inputs.
+export { refuseInputAsOutput, OverwriteError } from '../core/output-guard';
 export { readHeader } from '../core/csv/header';
 export { withCoverFrom } from '../core/forest/cover';
 export { median } from '../core/data/binning';

@@ -2,7 +2,7 @@
 // file, line and column, so they are shown as they are; anything else is a bug and says where to look.
 
 /** Errors whose message is written for the user (core's input and model errors, our own RangeErrors). */
-const USER_ERRORS = new Set(['DataError', 'SchemaMismatchError', 'ModelError', 'RangeError']);
+const USER_ERRORS = new Set(['DataError', 'SchemaMismatchError', 'ModelError', 'RangeError', 'InputError', 'OverwriteError']);
 
 export function isAbort(e: unknown): boolean {
   return e instanceof Error && e.name === 'AbortError';

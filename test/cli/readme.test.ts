@@ -69,7 +69,7 @@ describe('README.md command-line examples', function () {
       }
       const r = spawnSync(process.execPath, [path.join(root, 'bin/copse.js'), ...args], { cwd, encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
       assert.equal(r.status, 0, `"${example}" exited ${r.status}: ${r.stderr}`);
-      assert.doesNotMatch(r.stderr, /unexpected error|\n\s+at /, example);
+      assert.doesNotMatch(r.stderr, /unexpected error|internal error|\n\s+at /, example);
       for (const i of args.flatMap((a, j) => (a === '--save' || a === '--out' ? [j + 1] : args[0] === 'export' && j === 2 ? [j] : []))) {
         assert.ok(existsSync(path.join(cwd, args[i])), `"${example}" did not write ${args[i]}`);
       }

@@ -7,6 +7,8 @@ import type { Forest } from '../../core/forest/forest';
 import { checkedDraws } from '../../core/forest/checked-draws';
 import { knowsTraining } from '../../core/open/open';
 import { flag, parse, text, UsageError, wholeNumber, type Options } from '../args';
+import { visibleValue } from '../../core/visible';
+import { say, sayError } from '../terminal';
 import { MODEL_HELP, MODEL_OPTIONS, openForData } from '../model';
 import { chooseRows, wantedRows } from '../rows';
 
@@ -128,8 +130,8 @@ export async function runExplain(argv: string[]): Promise<void> {
     process.stdout.write(JSON.stringify({ task: target.task, target: target.name, trees: forest.trees.length, features: names, warnings: [...notes, ...loaded.warnings], rows }, null, 2) + '\n');
     return;
   }
-  for (const w of [...notes, ...loaded.warnings]) process.stderr.write(`Warning: ${w}\n`);
-  process.stdout.write(rows.map((row) => readable(row, chosen, top, T)).join('\n'));
+  for (const w of [...notes, ...loaded.warnings]) sayError(`Warning: ${w}\n`);
+  say(rows.map((row) => readable(row, chosen, top, T)).join('\n'));
 }
 
 /** The forest with only the listed trees, for scoring a row with its out-of-bag trees. */
@@ -169,7 +171,7 @@ function readable(row: ExplainedRow, chosen: string | undefined, top: number, fo
   const signed = signer([...Object.values(phi), output - base]);
   const order = Object.keys(phi).sort((a, b) => Math.abs(phi[b]) - Math.abs(phi[a]) || (a < b ? -1 : 1));
   const shown = order.slice(0, top);
-  const cells = [['feature', 'value', 'contribution'], ...shown.map((f) => [f, row.values[f] === '' ? '(missing)' : row.values[f], signed(phi[f])])];
+  const cells = [['feature', 'value', 'contribution'], ...shown.map((f) => [f, row.values[f] === '' ? '(missing)' : row.values[f], signed(phi[f])])].map((r) => r.map(visibleValue));
   const widths = cells[0].map((_, c) => Math.max(...cells.map((r) => r[c].length)));
   let out = `${head}\n`;
   out += cells.map((r) => '  ' + r.map((c, i) => (i === 0 ? c.padEnd(widths[i]) : c.padStart(widths[i]))).join('  ')).join('\n') + '\n';

@@ -2,8 +2,9 @@ import { loadModel } from '../../core/model/file';
 import { saveOnnxFile } from '../../core/onnx/save';
 import { INPUT_NAME } from '../../core/onnx/metadata';
 import { flag, parse, UsageError, type Options } from '../args';
+import { say, sayError } from '../terminal';
 import { DEBUG_ENTRY, optionList } from '../help';
-import { checkOutput, writeFailure } from '../output';
+import { checkOutput, oneStdout, toStdout, writeFailure } from '../output';
 
 export const EXPORT_HELP = `Usage: copse export MODEL.json OUT.onnx [--json]
 
@@ -17,7 +18,10 @@ name) and "probabilities" [rows, classes]; regression gives "value" [rows, 1]. T
 (copse.schema) lists the features, their levels and the classes.
 
 Options:
-${optionList([['--json', 'print one JSON object: output path, operator, trees, nodes, bytes'], DEBUG_ENTRY])}`;
+${optionList([['--json', 'print one JSON object: output path, operator, trees, nodes, bytes'], DEBUG_ENTRY])}
+
+OUT.onnx may be - for standard output; the summary then goes to standard error.
+`;
 
 const OPTIONS: Options = { json: { type: 'boolean' } };
 
@@ -26,6 +30,7 @@ export async function runExport(argv: string[]): Promise<void> {
   if (flag(args, 'help')) return void process.stdout.write(EXPORT_HELP);
   const [modelPath, outPath] = args.positionals;
   if (/\.onnx$/i.test(modelPath)) throw new UsageError(`${modelPath} looks like an ONNX file already; copse export reads a Copse model (MODEL.json) and writes ONNX.`, 'export');
+  oneStdout(outPath, flag(args, 'json'), 'the output -');
   await checkOutput(outPath, 'output', [
     { file: modelPath, what: 'the model', refusal: `Refusing to write the ONNX file over the model ${modelPath}; choose another output file.` },
   ]);
@@ -48,9 +53,9 @@ export async function runExport(argv: string[]): Promise<void> {
     return;
   }
   const levelled = forest.schema.features.filter((f) => f.kind !== 'numeric').map((f) => `"${f.name}"`);
-  let out = `Wrote ${summary.trees} trees (${summary.nodes} nodes) to ${outPath} as an ONNX ${summary.operator}, ${(size / 1024).toFixed(0)} KiB.\n`;
+  let out = `Wrote ${summary.trees} trees (${summary.nodes} nodes) to ${toStdout(outPath) ? 'standard output' : outPath} as an ONNX ${summary.operator}, ${(size / 1024).toFixed(0)} KiB.\n`;
   out += `Input "${INPUT_NAME}": float [rows, ${forest.schema.features.length}], columns ${summary.input.features.map((f) => `"${f}"`).join(', ')}.\n`;
   if (levelled.length) out += `Give ${levelled.join(', ')} as level codes: the level's position in the model's list (see the file's copse.schema metadata).\n`;
   out += `Outputs: ${summary.outputs.map((o) => `"${o}"`).join(', ')}.\n`;
-  process.stdout.write(out);
+  (toStdout(outPath) ? sayError : say)(out);
 }

@@ -11,8 +11,9 @@ import { parseFeaturesPerSplit, type FeaturesPerSplit, type ForestParams, type T
 import { summarizeFit } from '../../core/summary/fit';
 import { ModelWriter } from '../../core/model/file';
 import { choice, flag, fraction, list, parse, text, UsageError, wholeNumber, type Options, type Parsed } from '../args';
+import { say, sayError } from '../terminal';
 import { DEBUG_ENTRY, optionList, type HelpEntry } from '../help';
-import { checkOutput, writeFailure } from '../output';
+import { checkOutput, oneStdout, toStdout, writeFailure } from '../output';
 import { progressBar } from '../progress';
 import { fitReport, LISTED_ROWS } from '../report';
 
@@ -41,7 +42,7 @@ const FIT_ENTRIES: readonly HelpEntry[] = [
   ['--no-importance', 'skip permutation importance (faster on large files)'],
   ['--many-classes', `fit a class target even when it has more than ${MAX_CLASSES} classes, or fewer than\n${ROWS_PER_CLASS} rows per class on average (refused otherwise: such a target is rarely meant)`],
   ['--list N', `list N doubtful rows in the report instead of ${LISTED_ROWS} (all: every one)`],
-  ['--save MODEL.json', 'save the forest to this file (never the data or test file)'],
+  ['--save MODEL.json', 'save the forest to this file (never the data or test file; - for standard output,\nthe report then goes to standard error)'],
   ['--json', 'print one JSON object instead of the report'],
   DEBUG_ENTRY,
 ];
@@ -146,6 +147,7 @@ export async function runFit(argv: string[]): Promise<void> {
   const savePath = text(args, 'save');
   // Checked before a minute of fitting, not after: a typo in the path, or the data file itself, which would be lost.
   if (savePath) {
+    oneStdout(savePath, json, '--save -');
     await checkOutput(savePath, '--save', [
       { file: dataPath, what: 'the data file' },
       ...(testPath ? [{ file: testPath, what: 'the --test file' }] : []),
@@ -197,19 +199,27 @@ export async function runFit(argv: string[]): Promise<void> {
     throw savePath ? writeFailure(e, savePath) : e;
   });
   bar?.end();
+  // The report (and any cross-validation) is made before the model is renamed into place: a fit that fails never
+  // leaves a model behind.
+  let printed: string;
+  try {
+    const cv = folds === undefined ? undefined : await crossValidation(loaded.table, { target, task, params, exclude, workers: wholeNumber(args, 'workers', 1) }, folds, repeats, json);
+    const suspectLimit = Math.max(SUSPECTS_IN_JSON, listed ?? 0);
+    const fitted = summarizeFit(report, loaded.table, { file: dataPath, rowsRead: loaded.rowsRead, sampled: loadOptions.sampleRows !== undefined, notes: loaded.notes, warnings: loaded.warnings, suspectLimit });
+    const summary = cv ? { ...fitted, cv } : fitted;
+    const seconds = { load: loadSeconds, fit: report.seconds.fit };
+    printed = json ? JSON.stringify({ ...summary, seconds, model: savePath ?? null }, null, 2) + '\n' : fitReport(summary, seconds, toStdout(savePath) ? 'standard output' : savePath, { list: listed });
+  } catch (e) {
+    writer?.abandon();
+    throw e;
+  }
   await writer?.finish().catch((e) => {
     throw writeFailure(e, savePath!);
   });
-  const cv = folds === undefined ? undefined : await crossValidation(loaded.table, { target, task, params, exclude, workers: wholeNumber(args, 'workers', 1) }, folds, repeats, json);
-  const suspectLimit = Math.max(SUSPECTS_IN_JSON, listed ?? 0);
-  const fitted = summarizeFit(report, loaded.table, { file: dataPath, rowsRead: loaded.rowsRead, sampled: loadOptions.sampleRows !== undefined, notes: loaded.notes, warnings: loaded.warnings, suspectLimit });
-  const summary = cv ? { ...fitted, cv } : fitted;
-  const seconds = { load: loadSeconds, fit: report.seconds.fit };
-  if (json) {
-    process.stdout.write(JSON.stringify({ ...summary, seconds, model: savePath ?? null }, null, 2) + '\n');
-  } else {
-    process.stdout.write(fitReport(summary, seconds, savePath, { list: listed }));
-  }
+  // With the model on standard output, the report goes to standard error.
+  if (json) process.stdout.write(printed);
+  else if (toStdout(savePath)) sayError(printed);
+  else say(printed);
 }
 
 async function crossValidation(table: Table, fit: FitOptions, folds: number, repeats: number | undefined, quiet: boolean): Promise<CrossValidationSummary> {

@@ -12,9 +12,10 @@ import type { ScoresSummary } from '../../core/summary/types';
 import { knowsTraining } from '../../core/open/open';
 import { withThreshold } from '../../core/forest/threshold-prediction';
 import { flag, fraction, parse, text, UsageError, type Options, type Parsed } from '../args';
+import { say, sayError } from '../terminal';
 import { DEBUG_ENTRY, optionList } from '../help';
 import { MODEL_ENTRIES, MODEL_OPTIONS, openForData } from '../model';
-import { checkOutput, writeFailure } from '../output';
+import { checkOutput, oneStdout, toStdout, writeFailure } from '../output';
 import { value } from '../report';
 import { trainingOf, type TrainingView } from '../training';
 
@@ -28,7 +29,7 @@ the all-trees columns look better than the forest is on rows the trees were fitt
 
 Options:
 ${optionList([
-  ['--out OUT.csv', "write the input columns plus the prediction, each class's probability (or the value)\nand the share of trees that agree (or the spread of the trees' values); never the input file;\nOUT.parquet writes Parquet, any other name CSV (DATA may be CSV, .csv.gz or Parquet)"],
+  ['--out OUT.csv', "write the input columns plus the prediction, each class's probability (or the value)\nand the share of trees that agree (or the spread of the trees' values); never the input file;\nOUT.parquet writes Parquet, any other name CSV (DATA may be CSV, .csv.gz or Parquet); - for standard output"],
   ['--interval LEVEL', 'regression: add a prediction interval at this level, such as 0.9 (quantile regression\nforest, Meinshausen 2006); needs --training'],
   ['--threshold P', "two classes: give the second class when its probability exceeds P (default: the larger\nprobability, as P = 0.5); copse fit's report suggests thresholds chosen on out-of-bag rows"],
   ['--training TRAIN.csv', "the file the forest was fitted on (checked against the model's fingerprint)"],
@@ -51,9 +52,11 @@ export async function runPredict(argv: string[]): Promise<void> {
   const out = text(args, 'out');
   if (level !== undefined && !training) throw new UsageError('--interval needs --training TRAIN.csv, the file the forest was fitted on.', 'predict');
   if (out) {
+    oneStdout(out, flag(args, 'json'), '--out -');
     await checkOutput(out, '--out', [
       { file: dataPath, what: 'the input file', refusal: `Refusing to write predictions over the input file ${dataPath}; choose another --out.` },
       ...(training ? [{ file: training, what: 'the --training file' }] : []),
+      { file: modelPath, what: 'the model' },
     ]);
   }
   const { forest, notes } = await openForData(modelPath, dataPath, args, 'predict');
@@ -116,9 +119,10 @@ export async function runPredict(argv: string[]): Promise<void> {
     process.stdout.write(JSON.stringify({ rows: prediction.rows, columns: added.names, output: out ?? null, threshold: threshold ?? null, warnings, outOfBag, seconds, predictions: rows }, null, 2) + '\n');
     return;
   }
-  for (const w of warnings) process.stderr.write(`Warning: ${w}\n`);
+  for (const w of warnings) sayError(`Warning: ${w}\n`);
   if (out) {
-    process.stdout.write(`Scored ${prediction.rows} rows into ${out}.\n`);
+    if (toStdout(out)) sayError(`Scored ${prediction.rows} rows.\n`);
+    else say(`Scored ${prediction.rows} rows into ${out}.\n`);
     return;
   }
   let csv = csvLine(['row', ...added.names]);

@@ -5,6 +5,7 @@ import { targetCodes } from '../../core/forest/target';
 import { findColumn } from '../../core/data/table';
 import { RowVotes, type GroupAnswer } from '../../core/forest/row-votes';
 import { flag, parse, type Options } from '../args';
+import { say, sayError } from '../terminal';
 import { DEBUG_ENTRY, optionList } from '../help';
 import { MODEL_ENTRIES, MODEL_OPTIONS, openForData } from '../model';
 import { chooseRows, wantedRows } from '../rows';
@@ -105,8 +106,8 @@ export async function runVotes(argv: string[]): Promise<void> {
     process.stdout.write(JSON.stringify({ task: target.task, target: target.name, trees: votes.trees, warnings, rows }, null, 2) + '\n');
     return;
   }
-  for (const w of warnings) process.stderr.write(`Warning: ${w}\n`);
-  process.stdout.write(rows.map((r) => rowText(r)).join(''));
+  for (const w of warnings) sayError(`Warning: ${w}\n`);
+  say(rows.map((r) => rowText(r)).join(''));
 }
 
 function group(forest: Forest, g: GroupAnswer): GroupJson {

@@ -1,6 +1,7 @@
 // Fits a forest on a table: prepares the binned training data, grows the trees in worker threads, and folds
 // their results in tree order into out-of-bag predictions, the error curve, importances and margins.
 import type { Schema } from '../base/schema';
+import { InputError } from '../base/input-error';
 import { binColumns, describeFeatures } from '../data/binning';
 import { findColumn, type DroppedColumn, type Table } from '../data/table';
 import { classificationScores, regressionScores, type Scores } from '../metrics/scores';
@@ -86,19 +87,19 @@ export interface FitReport {
 export async function fitForest(table: Table, options: FitOptions): Promise<FitReport> {
   const started = performance.now();
   const targetColumn = findColumn(table, options.target);
-  if (!targetColumn) throw new RangeError(`There is no column "${options.target}" to predict.`);
+  if (!targetColumn) throw new InputError(`There is no column "${options.target}" to predict.`);
   const task = options.task ?? inferTask(targetColumn);
   const params = defaultParams(task, options.params);
   validateParams(params);
   if (options.holdout !== undefined && !(options.holdout > 0 && options.holdout < 1)) {
-    throw new RangeError(`holdout must be a fraction between 0 and 1; got ${options.holdout}`);
+    throw new InputError(`holdout must be a fraction between 0 and 1; got ${options.holdout}`);
   }
   const encoded = encodeTarget(targetColumn, task);
   const exclude = new Set(options.exclude ?? []);
   const featureColumns = table.columns.filter((c) => c.name !== options.target && !exclude.has(c.name));
-  if (featureColumns.length === 0) throw new RangeError('No feature columns are left to fit on.');
+  if (featureColumns.length === 0) throw new InputError('No feature columns are left to fit on.');
   if (encoded.classes && encoded.classes.length < 2) {
-    throw new RangeError(`The target "${options.target}" has a single value ("${encoded.classes[0] ?? ''}"), so there is nothing to predict.`);
+    throw new InputError(`The target "${options.target}" has a single value ("${encoded.classes[0] ?? ''}"), so there is nothing to predict.`);
   }
 
   const holdoutCount = options.holdout ? Math.max(1, Math.floor(encoded.rows.length * options.holdout)) : 0;
@@ -159,7 +160,7 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
     ({ scores: test, prediction: testPrediction } = await scoreRows(forest, table, holdout, testTruth));
   } else if (options.test) {
     const testTarget = findColumn(options.test, options.target);
-    if (!testTarget) throw new RangeError(`The test data has no column "${options.target}".`);
+    if (!testTarget) throw new InputError(`The test data has no column "${options.target}".`);
     const truth = task === 'classification' ? codesFor(testTarget, encoded.classes!) : Float64Array.from(testTarget.kind === 'numeric' ? testTarget.values : []);
     const all = Int32Array.from({ length: options.test.rowCount }, (_, i) => i);
     testTruth = truth;
@@ -190,7 +191,7 @@ export async function fitForest(table: Table, options: FitOptions): Promise<FitR
  */
 export function splitRows(rows: Int32Array, holdoutCount: number, seed: number): { train: Int32Array; holdout?: Int32Array } {
   if (holdoutCount <= 0) return { train: rows };
-  if (holdoutCount >= rows.length) throw new RangeError('The holdout leaves no rows to train on.');
+  if (holdoutCount >= rows.length) throw new InputError('The holdout leaves no rows to train on.');
   const order = rows.slice();
   shuffle(order, stream(seed, 'holdout'));
   return { train: order.subarray(holdoutCount).slice().sort(), holdout: order.subarray(0, holdoutCount).slice().sort() };

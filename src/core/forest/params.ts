@@ -1,6 +1,7 @@
 // Training parameters, in our own names. Defaults follow common practice for random forests (Breiman 2001).
 
 import type { Criterion, Task } from '../base/task';
+import { InputError } from '../base/input-error';
 
 // Defined in base/task.ts (the tree grower needs them too); named here as well for this module's callers.
 export type { Criterion, Task };
@@ -73,6 +74,6 @@ export function validateParams(p: ForestParams): void {
   if (!(p.sampleFraction > 0 && p.sampleFraction <= 1)) throw new RangeError(`sample fraction must be in (0, 1]; got ${p.sampleFraction}`);
   if (!Number.isInteger(p.seed)) throw new RangeError(`seed must be a whole number; got ${p.seed}`);
   const classCriterion = p.criterion === 'gini' || p.criterion === 'entropy';
-  if ((p.task === 'classification') !== classCriterion) throw new RangeError(`criterion ${p.criterion} does not fit ${p.task}`);
+  if ((p.task === 'classification') !== classCriterion) throw new InputError(`The criterion ${p.criterion} is for ${classCriterion ? 'classification' : 'regression'}, not ${p.task}.`);
   resolveFeaturesPerSplit(p.featuresPerSplit, 1);
 }

@@ -1,8 +1,8 @@
 // Reading a CSV to score with a saved forest, and writing the input back out with the forest's answers.
 import { parse } from 'csv-parse';
-import { createReadStream, createWriteStream, promises as fs } from 'node:fs';
-import * as path from 'node:path';
-import { tempBeside } from '../atomic';
+import { createReadStream, promises as fs } from 'node:fs';
+import { OutputFile } from '../atomic';
+import { refuseInputAsOutput } from '../output-guard';
 import type { Schema } from '../base/schema';
 import { loadCsv } from '../csv/load';
 import type { LoadResult } from '../csv/types';
@@ -66,7 +66,7 @@ function round(v: number): string {
   return Number.isFinite(v) ? String(Number(v.toFixed(6))) : '';
 }
 
-export class OverwriteError extends Error {}
+export { OverwriteError } from '../output-guard';
 
 /** The file's own line ending, from its first line break (LF when there is none). */
 async function lineEndingOf(file: string): Promise<string> {
@@ -93,26 +93,31 @@ function recordText(raw: string): string {
  * `rowOfRecord` maps the k-th data record (0-based) to its table row, or -1 for a record the table lacks.
  */
 export async function writePredictions(input: string, out: string, delimiter: string, added: AddedColumns, rowOfRecord: (k: number) => number = (k) => k): Promise<void> {
-  const [a, b] = await Promise.all([fs.realpath(input), fs.realpath(out).catch(() => path.resolve(out))]);
-  if (a === b) throw new OverwriteError(`Refusing to write predictions over the input file ${input}; choose another --out.`);
+  await refuseInputAsOutput(out, '--out', [{ file: input, what: 'the input file', refusal: `Refusing to write predictions over the input file ${input}; choose another --out.` }]);
   const eol = await lineEndingOf(input);
-  const tmp = tempBeside(out);
-  const sink = createWriteStream(tmp, { flags: 'wx' });
+  const sink = new OutputFile(out);
   try {
-    const parser = createReadStream(input).pipe(parse({ ...parserOptions(delimiter), raw: true }));
+    const source = createReadStream(input);
+    const parser = source.pipe(parse({ ...parserOptions(delimiter), raw: true }));
+    // pipe() does not pass a read error on: without this it would be an uncaught 'error' event, not a rejection.
+    source.on('error', (e) => parser.destroy(e));
     let k = -1;
+    // Lines are gathered into chunks of about 64 KiB: one write per line would be a system call per record.
+    let chunk = '';
     for await (const { raw } of parser as AsyncIterable<{ raw: string }>) {
       const r = k < 0 ? -1 : rowOfRecord(k);
       const cells = k < 0 ? added.names : r < 0 ? added.names.map(() => '') : added.cells(r);
       k++;
-      const line = recordText(raw) + delimiter + cells.map((c) => csvField(c, delimiter)).join(delimiter) + eol;
-      if (!sink.write(line)) await new Promise<void>((resolve) => sink.once('drain', () => resolve()));
+      chunk += recordText(raw) + delimiter + cells.map((c) => csvField(c, delimiter)).join(delimiter) + eol;
+      if (chunk.length >= 65536) {
+        await sink.write(chunk);
+        chunk = '';
+      }
     }
-    await new Promise<void>((resolve, reject) => sink.end((e?: Error | null) => (e ? reject(e) : resolve())));
-    await fs.rename(tmp, out);
+    await sink.write(chunk);
+    await sink.commit();
   } catch (e) {
-    sink.destroy();
-    await fs.rm(tmp, { force: true });
+    sink.abandon();
     throw e;
   }
 }

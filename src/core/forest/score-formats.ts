@@ -3,17 +3,19 @@
 
 import { parse } from 'csv-parse';
 import { createReadStream, createWriteStream, promises as fs, type WriteStream } from 'node:fs';
+import { tmpdir } from 'node:os';
 import * as path from 'node:path';
 import { createGunzip } from 'node:zlib';
 import type { SchemaElement } from 'hyparquet' with { 'resolution-mode': 'import' };
-import { tempBeside } from '../atomic';
+import { OutputFile, outputPlace, releaseTemp, tempBeside } from '../atomic';
+import { refuseInputAsOutput } from '../output-guard';
 import { sniffFormat } from '../csv/gzip';
 import { readChunk, type Hyparquet } from '../csv/parquet/chunk';
 import { rangeReader } from '../csv/parquet/file';
 import { planColumns } from '../csv/parquet/schema';
 import { parserOptions } from '../csv/record-parser';
 import { csvLine } from '../csv/write';
-import { OverwriteError, writePredictions, type AddedColumns } from './score-file';
+import { writePredictions, type AddedColumns } from './score-file';
 
 const BATCH_ROWS = 65_536;
 
@@ -42,16 +44,30 @@ export async function writeScored(
 ): Promise<void> {
   const format = await sniffFormat(input);
   if (format === 'text' && !writesParquet(out)) return writePredictions(input, out, delimiter, added, rowOfRecord);
-  const [a, b] = await Promise.all([fs.realpath(input), fs.realpath(out).catch(() => path.resolve(out))]);
-  if (a === b) throw new OverwriteError(`Refusing to write predictions over the input file ${input}; choose another --out.`);
+  await refuseInputAsOutput(out, '--out', [{ file: input, what: 'the input file', refusal: `Refusing to write predictions over the input file ${input}; choose another --out.` }]);
   const batches = format === 'parquet' ? parquetBatches(input) : textBatches(input, delimiter, format === 'gzip');
-  const tmp = tempBeside(out);
+  // A link is written at its target; a device, a FIFO or standard output gets the finished file copied in, so
+  // the temporary file is made in the system's temporary folder, never beside a device (see core/atomic.ts).
+  const place = outputPlace(out);
+  const tmp = tempBeside(place.direct ? path.join(tmpdir(), `copse-scored${path.extname(out)}`) : place.path);
   try {
     if (writesParquet(out)) await toParquet(batches, tmp, added, new Set(textColumns), rowOfRecord);
     else await toCsv(batches, tmp, added, rowOfRecord);
-    await fs.rename(tmp, out);
-  } catch (e) {
+    if (place.direct) await copyInto(tmp, out);
+    else await fs.rename(tmp, place.path);
+  } finally {
     await fs.rm(tmp, { force: true });
+    releaseTemp(tmp);
+  }
+}
+
+async function copyInto(tmp: string, out: string): Promise<void> {
+  const sink = new OutputFile(out);
+  try {
+    for await (const chunk of createReadStream(tmp)) await sink.write(chunk as Buffer);
+    await sink.commit();
+  } catch (e) {
+    sink.abandon();
     throw e;
   }
 }

@@ -1,4 +1,5 @@
 // Turns the target column into class codes or values, and decides the task when the user has not.
+import { InputError } from '../base/input-error';
 import { cellText, findColumn, type Column, type Table } from '../data/table';
 import type { Forest } from './forest';
 import type { Task } from './params';
@@ -32,7 +33,7 @@ export function encodeTarget(column: Column, task: Task): EncodedTarget {
   for (let i = 0; i < n; i++) if (cellText(column, i) !== '') keep.push(i);
   const rows = Int32Array.from(keep);
   if (task === 'regression') {
-    if (column.kind !== 'numeric') throw new RangeError(`The target "${column.name}" is not numeric, so it cannot be fitted as a regression.`);
+    if (column.kind !== 'numeric') throw new InputError(`The target "${column.name}" is not numeric, so it cannot be fitted as a regression.`);
     return { rows, y: Float64Array.from(keep, (i) => column.values[i]) };
   }
   let classes: string[];

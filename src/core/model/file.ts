@@ -2,9 +2,10 @@
 // Line 1 holds the format, schema, settings and training facts and says how many trees follow; each further line
 // is one tree. A full-depth forest on millions of rows runs to gigabytes, more than one JavaScript string can
 // hold, so a model is written and read a tree at a time. Version 1 files (one JSON document) are still read.
-import { closeSync, createReadStream, openSync, promises as fs, rmSync, writeSync } from 'node:fs';
+import { createReadStream } from 'node:fs';
 import { createInterface } from 'node:readline';
-import { tempBeside } from '../atomic';
+import { OutputFile } from '../atomic';
+import { reasonOf, systemCode } from '../file-errors';
 import type { ColumnKind, DroppedColumn } from '../data/table';
 import type { Forest, ForestHead, TrainingInfo } from '../forest/forest';
 import { validateParams, type ForestParams } from '../forest/params';
@@ -45,13 +46,11 @@ export function serializeModel(forest: Forest): string {
  * readers never see half a model, and the trees need not all be in memory at once.
  */
 export class ModelWriter {
-  private readonly tmp: string;
-  private fd: number | undefined;
+  private readonly out: OutputFile;
   private written = 0;
 
-  constructor(private readonly path: string, head: ForestHead, private readonly trees: number) {
-    this.tmp = tempBeside(path);
-    this.fd = openSync(this.tmp, 'wx');
+  constructor(path: string, head: ForestHead, private readonly trees: number) {
+    this.out = new OutputFile(path);
     try {
       this.line(headLine(head, trees));
     } catch (e) {
@@ -76,26 +75,16 @@ export class ModelWriter {
       this.abandon();
       throw new RangeError(`The model was opened for ${this.trees} trees; ${this.written} were written.`);
     }
-    try {
-      closeSync(this.fd!);
-      this.fd = undefined;
-      await fs.rename(this.tmp, this.path);
-    } catch (e) {
-      this.abandon();
-      throw e;
-    }
+    await this.out.commit();
   }
 
   /** Removes the temporary file; the target is untouched. */
   abandon(): void {
-    if (this.fd !== undefined) closeSync(this.fd);
-    this.fd = undefined;
-    rmSync(this.tmp, { force: true });
+    this.out.abandon();
   }
 
   private line(text: string): void {
-    if (this.fd === undefined) throw new Error('The model file is closed.');
-    writeSync(this.fd, text + '\n');
+    this.out.writeSync(text + '\n');
   }
 }
 
@@ -112,7 +101,7 @@ export async function loadModel(path: string): Promise<Forest> {
     for await (const line of lines) parser.line(line);
   } catch (e) {
     if (e instanceof ModelError) throw e;
-    throw new ModelError(`Cannot read the model ${path}: ${(e as Error).message}`);
+    throw new ModelError(`Cannot read the model ${path}: ${systemCode(e) ? `${reasonOf(e)}.` : (e as Error).message}`);
   }
   return parser.end();
 }

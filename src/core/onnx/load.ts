@@ -1,5 +1,6 @@
 // Reading an ONNX file from disk, and giving a foreign model's positional features the names of a CSV's columns.
 import { promises as fs } from 'node:fs';
+import { reasonOf, systemCode } from '../file-errors';
 import type { Forest } from '../forest/forest';
 import { ModelError } from '../model/validate';
 import { DEFAULT_LIMITS } from './ensemble';
@@ -15,7 +16,7 @@ export async function loadOnnxFile(path: string, options: ImportOptions = {}): P
     bytes = await fs.readFile(path);
   } catch (e) {
     if (e instanceof ModelError) throw e;
-    throw new ModelError(`Cannot read the model ${path}: ${(e as Error).message}`);
+    throw new ModelError(`Cannot read the model ${path}: ${systemCode(e) ? `${reasonOf(e)}.` : (e as Error).message}`);
   }
   return readOnnx(bytes, path, options);
 }

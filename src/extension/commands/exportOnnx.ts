@@ -2,7 +2,7 @@
 
 import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { saveOnnxFile } from '../engine';
+import { refuseInputAsOutput, saveOnnxFile } from '../engine';
 import { guarded } from '../fit/fitFlow';
 import { suggestedModelPath } from './saveModel';
 import { COMMANDS, type Host } from './host';
@@ -22,6 +22,7 @@ export function registerExportOnnx(host: Host): vscode.Disposable {
       });
       if (!uri) return;
       if (uri.scheme !== 'file') throw new RangeError('Copse exports forests to local files only.');
+      await refuseInputAsOutput(uri.fsPath, 'ONNX', [{ file: s.source.path, what: 'the CSV file the forest is shown on' }]);
       const bytes = await saveOnnxFile(uri.fsPath, s.forest);
       host.ctx.log.info(`Exported the forest (${s.forest.trees.length} trees, ${bytes} bytes) to ${uri.fsPath} as ONNX; the encoding is stated in the file's metadata.`);
       void vscode.window.showInformationMessage(`Copse: exported the forest to ${path.basename(uri.fsPath)}.`);

@@ -3,8 +3,7 @@
 
 import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { encodeTable, predictionColumns, writeScored } from '../engine';
-import { samePath } from '../editor/csvDocuments';
+import { encodeTable, predictionColumns, refuseInputAsOutput, writeScored } from '../engine';
 import { guarded, readCsv, requireFile, resolveCsv } from '../fit/fitFlow';
 import { COMMANDS, type Host } from './host';
 
@@ -36,9 +35,11 @@ export function registerPredictToFile(host: Host): vscode.Disposable {
       });
       if (!out) return;
       const outPath = requireFile(out);
-      if (samePath(outPath, inputPath)) {
-        throw new RangeError('Copse writes predictions to a new file and never over its input; choose another name.');
-      }
+      // Through links too: the same check as the command line's (core/output-guard.ts).
+      await refuseInputAsOutput(outPath, 'output', [
+        { file: inputPath, what: 'the input file', refusal: `Copse writes predictions to a new file and never over its input ${path.basename(inputPath)}; choose another name.` },
+        { file: session.source.path, what: "the forest's CSV file" },
+      ]);
       const loaded = await readCsv(ctx, inputPath, { everyRow: true, forest: session.forest.schema });
       if (!loaded) return;
       const started = performance.now();

@@ -2,7 +2,7 @@
 
 import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { saveModel } from '../engine';
+import { refuseInputAsOutput, saveModel } from '../engine';
 import { guarded } from '../fit/fitFlow';
 import { COMMANDS, type Host } from './host';
 
@@ -28,6 +28,7 @@ export function registerSaveModel(host: Host): vscode.Disposable {
       });
       if (!uri) return;
       if (uri.scheme !== 'file') throw new RangeError('Copse saves forests to local files only.');
+      await refuseInputAsOutput(uri.fsPath, 'model', [{ file: s.source.path, what: `the CSV file the forest is shown on` }]);
       await saveModel(uri.fsPath, s.forest);
       host.ctx.log.info(`Saved the forest (${s.forest.trees.length} trees) to ${uri.fsPath}.`);
       void vscode.window.showInformationMessage(`Copse: saved the forest to ${path.basename(uri.fsPath)}.`);
