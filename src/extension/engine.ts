@@ -41,7 +41,7 @@ export {
 } from '../core/explain/index';
 export { shuffle, stream } from '../core/forest/rng';
 // Opening models from either file kind, and what an imported forest needs before it can be explained.
-export { openModelFile, isOnnxFile, knowsTraining, nameByPosition, ModelError, type ModelOrigin, type OpenedModel } from '../core/open/open';
+export { openModelFile, isOnnxFile, knowsTraining, nameByPosition, namedByPosition, ModelError, type ModelOrigin, type OpenedModel } from '../core/open/open';
 export { saveOnnxFile } from '../core/onnx/save';
 export { writeFileAtomic } from '../core/atomic';
 export { readHeader } from '../core/csv/header';
