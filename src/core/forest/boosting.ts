@@ -54,5 +54,5 @@ export function storedLeaf(raw: number, trees: number, base: number): number {
 
 /** How a report names the score contributions are in. */
 export function rawScoreName(link: Link): string {
-  return link === 'logistic' ? 'log-odds' : link === 'softmax' ? 'raw class score (log-odds scale)' : 'value';
+  return link === 'logistic' ? 'log-odds' : link === 'softmax' ? 'raw class score' : 'value';
 }
