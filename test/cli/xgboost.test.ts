@@ -2,7 +2,8 @@
 // scripts/xgboost_reference.py recorded beside each model in test/fixtures/xgboost/).
 import * as assert from 'node:assert/strict';
 import { spawnSync } from 'node:child_process';
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import * as path from 'node:path';
 import type { Expected } from '../core/xgboost/helpers';
 
@@ -92,5 +93,15 @@ describe('copse commands on XGBoost models (reference: XGBoost 1.7.4)', function
       const sum = r.trees.reduce((s, t) => s + t.raw, 0);
       assert.ok(Math.abs(0.5 + sum - last) <= 1e-9 * Math.abs(last) + 1e-9, 'base 0.5 plus the raw outputs is the total');
     });
+  });
+
+  it('export writes an ONNX file that scores as the XGBoost model does', () => {
+    const dir = mkdtempSync(path.join(tmpdir(), 'copse-cli-xgb-'));
+    const onnx = path.join(dir, 'binary.onnx');
+    const r = copse('export', model('binary'), onnx);
+    assert.equal(r.code, 0, r.stderr);
+    const bin = expected('binary');
+    const out = json<{ predictions: Array<Record<string, number>> }>('predict', onnx, path.join(root, bin.csv));
+    out.predictions.forEach((p, i) => assert.ok(Math.abs(p.probability_1 - bin.predict[i][0]) <= 1e-4, `row ${i + 1}: ${p.probability_1} vs ${bin.predict[i][0]}`));
   });
 });
