@@ -20,6 +20,8 @@ export { inBagCounts, outOfBagTrees } from '../core/forest/bootstrap';
 export type { Prediction } from '../core/forest/predict';
 export { encodeTable, SchemaMismatchError } from '../core/forest/predict';
 export { Scorer } from '../core/forest/scorer';
+export { rawScoreName } from '../core/forest/boosting';
+export { treeOutputs } from '../core/forest/tree-outputs';
 export { saveModel, loadModel } from '../core/model/file';
 export { predictionColumns, writePredictions } from '../core/forest/score-file';
 export { writeScored } from '../core/forest/score-formats';

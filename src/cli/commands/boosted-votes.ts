@@ -78,7 +78,7 @@ function rowText(r: BoostedRow, scale: string, positive: string | undefined): st
   const base = typeof r.base === 'number' ? r.base : positive ? r.base[positive] : undefined;
   const total = typeof r.rawScore === 'number' ? r.rawScore : positive ? r.rawScore[positive] : undefined;
   if (base !== undefined && total !== undefined) out += `  ${r.trees.length} trees add raw scores (${scale}${of}): base ${signed(base)}, total ${signed(total)}\n`;
-  else out += `  ${r.trees.length} trees each add a raw score (${scale}) to one class; totals ${Object.entries(r.rawScore).map(([c, v]) => `"${c}" ${signed(v)}`).join(', ')}\n`;
+  else out += `  ${r.trees.length} trees each add a raw score (${scale}) to one class; totals ${Object.entries(r.rawScore as Record<string, number>).map(([c, v]) => `"${c}" ${signed(v)}`).join(', ')}\n`;
   const cells = [['tree', ...(r.trees.some((t) => t.class !== undefined) ? ['class'] : []), 'adds', 'running total']];
   for (const t of r.trees) cells.push([String(t.tree), ...(t.class !== undefined ? [t.class] : []), signed(t.raw), signed(t.cumulative)]);
   const widths = cells[0].map((_, c) => Math.max(...cells.map((row) => row[c].length)));

@@ -164,11 +164,12 @@ function whole(v: unknown, what: string, min: number, max: number, fail: (why: s
 
 /** "5E-1" in 1.x and 2.0; "[5E-1]" (a list with one entry per target) in later 2.x files. */
 function parseBaseScore(v: unknown, fail: (why: string) => never): number {
-  const text = String(v ?? '0.5').trim().replace(/^\[(.*)\]$/, '$1');
+  if (v !== undefined && typeof v !== 'string' && typeof v !== 'number') fail('its base_score is neither text nor a number');
+  const text = (v === undefined ? '0.5' : String(v)).trim().replace(/^\[(.*)\]$/, '$1');
   const parts = text.split(',');
   if (parts.length !== 1) fail(`its base_score has ${parts.length} entries; Copse reads models with one target`);
   const n = Number(parts[0]);
-  if (parts[0].trim() === '' || !Number.isFinite(n)) fail(`its base_score "${String(v)}" is not a number`);
+  if (parts[0].trim() === '' || !Number.isFinite(n)) fail(`its base_score "${text}" is not a number`);
   return Math.fround(n);
 }
 

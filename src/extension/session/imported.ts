@@ -71,7 +71,8 @@ export function forestForTable(forest: Forest, table: Table, x: Float64Array): F
     return f.kind === 'numeric' && Number.isNaN(f.reference) && column?.kind === 'numeric' ? { ...f, reference: median(column.values) } : f;
   });
   const typical = { ...forest, schema: { ...forest.schema, features } };
-  return withCoverFrom(typical, x, table.rowCount);
+  // An XGBoost file carries each node's hessian sum, the covers XGBoost's own TreeSHAP weighs by: they stay.
+  return forest.boosting?.source === 'xgboost' ? typical : withCoverFrom(typical, x, table.rowCount);
 }
 
 /**

@@ -7,7 +7,18 @@ import { ModelError } from '../../../src/core/model/validate';
 import { looksLikeXgboostStart, readXgboost, XGBOOST_LIMITS } from '../../../src/core/xgboost/read';
 import { FIXTURES } from './helpers';
 
-type Doc = { learner: Record<string, any>; version: number[] }; // eslint-disable-line @typescript-eslint/no-explicit-any -- edited freely below
+interface Tree {
+  left_children: number[];
+  right_children: number[];
+  split_indices: number[];
+  split_conditions: Array<number | string>;
+  sum_hessian: number[];
+  split_type: number[];
+}
+interface Doc {
+  learner: { objective: { name: string }; gradient_booster: { name: string; model: { trees: Tree[] } } };
+  version: number[];
+}
 
 function model(): Doc {
   return JSON.parse(readFileSync(path.join(FIXTURES, 'binary.model.json'), 'utf8')) as Doc;
