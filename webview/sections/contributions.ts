@@ -78,7 +78,7 @@ export class ContributionsView {
         ? h('span', {}, 'predicted ', h('strong', {}, s?.target ?? 'value'))
         : h('span', {}, c.scale ? `${c.scale} of ` : 'probability of ', h('strong', {}, s?.classes[c.output] ?? `class ${c.output}`));
     // A training row is explained by the trees that never saw it, as its out-of-bag answer is.
-    const whose = c.outOfBag ? [` (explained by the ${count(c.trees)} trees that never saw it): their average `] : [': the forest’s average '];
+    const whose = c.outOfBag ? [` (explained by the ${count(c.trees)} trees that never saw it): their average `] : [c.scale ? ': the boosted ensemble’s average ' : ': the forest’s average '];
     append(
       this.head,
       h('strong', {}, `Row ${c.row}`),
