@@ -16,7 +16,7 @@ interface Tree {
   split_type: number[];
 }
 interface Doc {
-  learner: { objective: { name: string }; gradient_booster: { name: string; model: { trees: Tree[] } } };
+  learner: { objective: { name: string }; gradient_booster: { name: string; model: { trees: Tree[] } }; learner_model_param: { base_score: string } };
   version: number[];
 }
 
@@ -88,6 +88,21 @@ describe('XGBoost JSON models: refusals', () => {
     refused(model(), /20 trees, more than the limit of 5/, { ...XGBOOST_LIMITS, maxTrees: 5 });
     refused(model(), /nodes, more than the limit of 100/, { ...XGBOOST_LIMITS, maxNodes: 100 });
     refused(model(), /more than the limit of 1000 characters|characters, more than the limit of 1000/, { ...XGBOOST_LIMITS, maxBytes: 1000 });
+  });
+
+  it("reads base_score as later 2.x files write it (a list), and refuses one per target for several targets", () => {
+    const d = model();
+    d.version = [2, 1, 0];
+    d.learner.learner_model_param.base_score = '[5E-1]';
+    const a = readXgboost(JSON.stringify(model())).forest;
+    const b = readXgboost(JSON.stringify(d)).forest;
+    assert.deepEqual(b.boosting, a.boosting);
+    assert.deepEqual(Array.from(b.trees[0].value), Array.from(a.trees[0].value));
+    d.learner.learner_model_param.base_score = '[5E-1,2E-1]';
+    refused(d, /base_score has 2 entries/);
+    const e = model();
+    e.version = [3, 0, 0];
+    refused(e, /written by XGBoost 3\.0\.0; Copse reads files from versions 1 and 2/);
   });
 
   it('tells an XGBoost file from a Copse model file by its first bytes', () => {
