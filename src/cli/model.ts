@@ -2,14 +2,14 @@
 // ONNX tree ensemble, with a foreign model's positional features named by the data file's columns on request.
 import { readHeader } from '../core/csv/header';
 import type { Forest } from '../core/forest/forest';
-import { nameByPosition, openModelFile, targetColumn, type ModelOrigin } from '../core/open/open';
+import { nameByPosition, namedByPosition, openModelFile, targetColumn, type ModelOrigin } from '../core/open/open';
 import { list, flag, UsageError, type Options, type Parsed } from './args';
 import type { HelpEntry } from './help';
 
 export const MODEL_OPTIONS: Options = { 'by-position': { type: 'boolean' }, 'leave-out': { type: 'string' } };
 
 export const MODEL_ENTRIES: readonly HelpEntry[] = [
-  ['--by-position', "take DATA.csv's columns in order as the model's features: for an ONNX file whose\nfeatures have no names (f0, f1, ...); the column named like the model's target is left out"],
+  ['--by-position', "take DATA.csv's columns in order as the model's features: for an ONNX or XGBoost file\nwhose features have no names (f0, f1, ...); the column named like the model's target is left out"],
   ['--leave-out LIST', 'with --by-position: comma-separated columns of DATA.csv that are not features'],
 ];
 
@@ -46,7 +46,7 @@ export async function openForData(modelPath: string, dataPath: string, args: Par
     }
     forest = nameByPosition(opened, header, skip);
     notes.push(`Features taken by position from ${dataPath}: ${forest.schema.features.map((f) => f.name).join(', ')}.`);
-  } else if (origin.kind === 'onnx' && origin.names === 'positions') {
+  } else if (namedByPosition(origin)) {
     const { header } = await readHeader(dataPath);
     const unnamed = opened.schema.features.filter((f) => !header.includes(f.name));
     if (unnamed.length) {
@@ -62,5 +62,6 @@ export async function openForData(modelPath: string, dataPath: string, args: Par
     const from = origin.producer ? ` written by ${origin.producer}` : '';
     notes.push(`Imported from an ONNX ${origin.operator}${from}.`, ...origin.notes);
   }
+  if (origin.kind === 'xgboost') notes.push(`Read from an XGBoost ${origin.version} model (objective ${origin.objective}).`, ...origin.notes);
   return { forest, origin, notes };
 }

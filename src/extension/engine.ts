@@ -20,6 +20,8 @@ export { inBagCounts, outOfBagTrees } from '../core/forest/bootstrap';
 export type { Prediction } from '../core/forest/predict';
 export { encodeTable, SchemaMismatchError } from '../core/forest/predict';
 export { Scorer } from '../core/forest/scorer';
+export { rawScoreName } from '../core/forest/boosting';
+export { treeOutputs } from '../core/forest/tree-outputs';
 export { saveModel, loadModel } from '../core/model/file';
 export { predictionColumns, writePredictions } from '../core/forest/score-file';
 export { writeScored } from '../core/forest/score-formats';
@@ -41,7 +43,7 @@ export {
 } from '../core/explain/index';
 export { shuffle, stream } from '../core/forest/rng';
 // Opening models from either file kind, and what an imported forest needs before it can be explained.
-export { openModelFile, isOnnxFile, knowsTraining, nameByPosition, ModelError, type ModelOrigin, type OpenedModel } from '../core/open/open';
+export { openModelFile, isOnnxFile, knowsTraining, nameByPosition, namedByPosition, ModelError, type ModelOrigin, type OpenedModel } from '../core/open/open';
 export { saveOnnxFile } from '../core/onnx/save';
 export { writeFileAtomic } from '../core/atomic';
 // The one check every output goes through, the command line's too: never over one of the command's inputs.

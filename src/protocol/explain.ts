@@ -24,6 +24,10 @@ export interface RowContributions {
   outOfBag: boolean;
   /** Every feature, in the forest's feature order. */
   features: FeatureContribution[];
+  /** A boosted ensemble: base, prediction and contributions are raw scores on this scale ('log-odds', ...). */
+  scale?: string;
+  /** With scale, for a class: its probability, shown beside the raw score. */
+  probability?: number;
 }
 
 /** The global view: mean absolute contribution per feature over a sample of rows, summed over classes. */

@@ -141,7 +141,22 @@ function isRowVotes(v: unknown): v is RowVotes {
     isNum(v.allPredicted) &&
     isNumOrNull(v.label) &&
     isNumArr(v.votes) &&
-    isArr(v.outOfBag, isInt)
+    isArr(v.outOfBag, isInt) &&
+    (v.boosted === undefined || isBoostedTrees(v.boosted))
+  );
+}
+
+function isBoostedTrees(v: unknown): boolean {
+  return (
+    isObj(v) &&
+    isStr(v.scale) &&
+    isArr(v.output, isInt) &&
+    isNumArr(v.raw) &&
+    isNumArr(v.cumulative) &&
+    isNumArr(v.base) &&
+    isNumArr(v.total) &&
+    isNumOrNull(v.probability) &&
+    isInt(v.shown)
   );
 }
 
@@ -158,7 +173,9 @@ function isRowContributions(v: unknown): v is RowContributions {
     isNum(v.prediction) &&
     isInt(v.trees) &&
     typeof v.outOfBag === 'boolean' &&
-    isArr(v.features, (f) => isObj(f) && isStr(f.feature) && isStr(f.value) && isNum(f.contribution))
+    isArr(v.features, (f) => isObj(f) && isStr(f.feature) && isStr(f.value) && isNum(f.contribution)) &&
+    (v.scale === undefined || isStr(v.scale)) &&
+    (v.probability === undefined || isNum(v.probability))
   );
 }
 

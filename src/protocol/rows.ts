@@ -22,6 +22,26 @@ export interface RowVotes {
   outOfBag: number[];
   /** Regression: the central prediction interval at `level` (quantile regression forest); absent otherwise. */
   interval?: PredictionInterval;
+  /** A boosted ensemble: its trees add raw scores rather than vote (votes and agreement then mean nothing). */
+  boosted?: BoostedTrees;
+}
+
+/** Each tree's raw output on one row of a boosted ensemble, and the running total from the base score. */
+export interface BoostedTrees {
+  /** What the raw scores are: 'log-odds', 'raw class score' or 'value'. */
+  scale: string;
+  /** Per tree: the output (class code, 0 for a value) it adds to. */
+  output: number[];
+  raw: number[];
+  /** Per tree: the raw score of its output after it and every earlier tree, base included. */
+  cumulative: number[];
+  /** Per output: the base score and the final raw score. */
+  base: number[];
+  total: number[];
+  /** Classification: the predicted class's probability; null for a value. */
+  probability: number | null;
+  /** The output whose running total the strip follows (class 1 for two classes, else the predicted class). */
+  shown: number;
 }
 
 export interface PredictionInterval {

@@ -76,9 +76,9 @@ export class ContributionsView {
     const what =
       c.output === null
         ? h('span', {}, 'predicted ', h('strong', {}, s?.target ?? 'value'))
-        : h('span', {}, 'probability of ', h('strong', {}, s?.classes[c.output] ?? `class ${c.output}`));
+        : h('span', {}, c.scale ? `${c.scale} of ` : 'probability of ', h('strong', {}, s?.classes[c.output] ?? `class ${c.output}`));
     // A training row is explained by the trees that never saw it, as its out-of-bag answer is.
-    const whose = c.outOfBag ? [` (explained by the ${count(c.trees)} trees that never saw it): their average `] : [': the forest’s average '];
+    const whose = c.outOfBag ? [` (explained by the ${count(c.trees)} trees that never saw it): their average `] : [c.scale ? ': the boosted ensemble’s average ' : ': the forest’s average '];
     append(
       this.head,
       h('strong', {}, `Row ${c.row}`),
@@ -88,7 +88,10 @@ export class ContributionsView {
       h('strong', { testid: 'contributions-base' }, num(c.base)),
       '; this row’s values take it to ',
       h('strong', { testid: 'contributions-prediction' }, num(c.prediction)),
+      // A boosted ensemble is explained in its raw-score space; the probability that score gives stands beside it.
+      c.scale && c.probability !== undefined ? h('span', { testid: 'contributions-probability' }, ` (probability ${num(c.probability)})`) : null,
       '.',
+      c.scale ? h('span', { class: 'muted' }, ` Contributions are in ${c.scale}, the standard for boosted trees.`) : null,
     );
     if (this.theme) append(this.body, this.table(c, this.theme));
   }

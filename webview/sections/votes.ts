@@ -6,6 +6,7 @@ import { append, clear, custom, h } from '../dom';
 import { count, fixed, listed, num, percent } from '../format';
 import { css } from '../palette';
 import type { Theme } from '../theme';
+import { boostedBlock, boostedNote } from './raw-strip';
 import { treeValues, valueScale, type ValueScale } from './tree-values';
 
 export class VotesView {
@@ -62,6 +63,16 @@ export class VotesView {
     }
     const scale = classification ? null : valueScale(this.rows);
     const say = (v: number | null) => (v === null ? 'n/a' : classification ? (summary.classes[v] ?? `class ${v}`) : num(v));
+    // A boosted ensemble's trees add raw scores rather than vote (raw-strip.ts); the section's title says so.
+    const boosted = this.rows[0].boosted;
+    const title = this.root.closest('section')?.querySelector('h2');
+    if (title) title.textContent = boosted ? 'Tree outputs on the selected rows' : 'Tree votes on the selected rows';
+    this.controls.classList.toggle('hidden', !classification || boosted !== undefined);
+    if (boosted) {
+      for (const r of this.rows) append(this.list, boostedBlock(r, summary, theme, this.reveal, this.explain));
+      append(this.note, boostedNote(summary, boosted.scale));
+      return;
+    }
     for (const r of this.rows) append(this.list, this.rowBlock(r, scale, say));
     // Only a full list can be cut short; the host says how many rows were selected in all.
     append(

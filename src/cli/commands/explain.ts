@@ -2,6 +2,7 @@ import { cellText, findColumn } from '../../core/data/table';
 import { ContributionExplainer } from '../../core/explain/contributions';
 import { predictEncoded } from '../../core/forest/predict';
 import { argmaxAt } from '../../core/metrics/scores';
+import { rawScoreName } from '../../core/forest/boosting';
 import { withCoverFrom } from '../../core/forest/cover';
 import type { Forest } from '../../core/forest/forest';
 import { checkedDraws } from '../../core/forest/checked-draws';
@@ -15,7 +16,8 @@ import { chooseRows, wantedRows } from '../rows';
 export const EXPLAIN_HELP = `Usage: copse explain MODEL DATA.csv --rows 1,7,12 [--json]
 
 Shows how much each feature moved a saved forest's prediction on chosen rows of DATA.csv, away from the
-forest's average prediction. The contributions are exact Shapley values of the trees (Lundberg et al. 2020)
+forest's average prediction. For a boosted ensemble (XGBoost, or a summed ONNX ensemble) contributions are in
+its raw-score space (log-odds for classes, the value for regression), with the probability beside. The contributions are exact Shapley values of the trees (Lundberg et al. 2020)
 and add up to the prediction. Rows are counted from 1: the first row after the header is row 1.
 
 When DATA.csv is the file the forest was fitted on, each training row is explained over the trees that
@@ -53,6 +55,8 @@ interface ExplainedRow {
   /** 'out-of-bag': only trees that never drew the row (every tree, for a row the fit did not train on). */
   trees: 'out-of-bag' | 'all';
   treeCount: number;
+  /** Boosted: the raw score (base plus contributions) the link turns into the prediction, per class or the value. */
+  rawScore?: number | Record<string, number>;
 }
 
 export async function runExplain(argv: string[]): Promise<void> {
@@ -80,7 +84,8 @@ export async function runExplain(argv: string[]): Promise<void> {
     if (typeof draws === 'string') notes.push(`${dataPath} is the file the forest was fitted on, but which trees drew each row cannot be told for certain: ${draws} Every row is explained over all trees.`);
     else ownTrees = draws.outOfBag;
   }
-  if (!knowsTraining(forest)) {
+  // An XGBoost file carries its own covers (each node's hessian sum), the weights XGBoost's TreeSHAP uses.
+  if (!knowsTraining(forest) && forest.boosting?.source !== 'xgboost') {
     // Explanations weigh a split's sides by the rows that reached them; an import has no training counts.
     forest = withCoverFrom(forest, encoded, table.rowCount);
     notes.push(`The model carries no training row counts, so each split's sides are weighed by the ${table.rowCount} rows of ${dataPath}.`);
@@ -121,17 +126,29 @@ export async function runExplain(argv: string[]): Promise<void> {
         contributions: Object.fromEntries(classes.map((c, k) => [c, perClass(k)])),
         values,
         ...used,
+        ...(forest.boosting ? { rawScore: Object.fromEntries(classes.map((c, k) => [c, rawOf(phi, base, k, K, p)])) } : {}),
       };
     }
+    if (forest.boosting) return { row: r, line, prediction: pred.predicted[at], base: base[0], contributions: Object.fromEntries(names.map((n, f) => [n, phi[f]])), values, ...used, rawScore: rawOf(phi, base, 0, 1, p) };
     return { row: r, line, prediction: pred.predicted[at], base: base[0], contributions: Object.fromEntries(names.map((n, f) => [n, phi[f]])), values, ...used };
   });
 
+  const scale = forest.boosting ? rawScoreName(forest.boosting.link) : target.task === 'classification' ? 'probability' : 'value';
+  if (forest.boosting) notes.push(`Boosted trees: contributions and "base" are in the raw-score space (${scale}), the standard for boosted models; they add up to "rawScore"${target.task === 'classification' ? ', which the link turns into the probabilities' : ', the prediction'}.`);
   if (flag(args, 'json')) {
-    process.stdout.write(JSON.stringify({ task: target.task, target: target.name, trees: forest.trees.length, features: names, warnings: [...notes, ...loaded.warnings], rows }, null, 2) + '\n');
+    process.stdout.write(JSON.stringify({ task: target.task, target: target.name, trees: forest.trees.length, contributionsIn: scale, features: names, warnings: [...notes, ...loaded.warnings], rows }, null, 2) + '\n');
     return;
   }
   for (const w of [...notes, ...loaded.warnings]) sayError(`Warning: ${w}\n`);
-  say(rows.map((row) => readable(row, chosen, top, T)).join('\n'));
+  // Two classes: the log-odds explained are class 1's (class 0's raw score stays 0), whatever is predicted.
+  const shownClass = chosen ?? (forest.boosting?.link === 'logistic' ? classes[1] : undefined);
+  say(rows.map((row) => readable(row, shownClass, top, T, forest.boosting ? scale : undefined)).join('\n'));
+}
+
+function rawOf(phi: Float64Array, base: Float64Array, k: number, K: number, p: number): number {
+  let s = base[k];
+  for (let f = 0; f < p; f++) s += phi[f * K + k];
+  return s;
 }
 
 /** The forest with only the listed trees, for scoring a row with its out-of-bag trees. */
@@ -146,7 +163,7 @@ function signer(values: number[]): (v: number) => string {
   return (v) => (v >= 0 ? '+' : '') + v.toFixed(decimals);
 }
 
-function readable(row: ExplainedRow, chosen: string | undefined, top: number, forestTrees: number): string {
+function readable(row: ExplainedRow, chosen: string | undefined, top: number, forestTrees: number, raw?: string): string {
   let over = '';
   if (row.trees === 'out-of-bag') {
     over = row.treeCount === forestTrees ? `, over all ${row.treeCount} trees, none of which trained on this row` : `, over the ${row.treeCount} trees that did not train on this row`;
@@ -162,6 +179,11 @@ function readable(row: ExplainedRow, chosen: string | undefined, top: number, fo
     output = row.probabilities[cls];
     phi = (row.contributions as Record<string, Record<string, number>>)[cls];
     head = `${who}: predicted "${row.prediction}"; probability of "${cls}" ${output.toFixed(3)}, against ${base.toFixed(3)} on average`;
+    if (raw) {
+      const p = output;
+      output = (row.rawScore as Record<string, number>)[cls];
+      head = `${who}: predicted "${row.prediction}"; ${raw} of "${cls}" ${output.toFixed(3)} (probability ${p.toFixed(3)}), against ${base.toFixed(3)} on average`;
+    }
   } else {
     base = row.base as number;
     output = row.prediction as number;

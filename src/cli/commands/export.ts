@@ -1,4 +1,4 @@
-import { loadModel } from '../../core/model/file';
+import { openModelFile } from '../../core/open/open';
 import { saveOnnxFile } from '../../core/onnx/save';
 import { INPUT_NAME } from '../../core/onnx/metadata';
 import { flag, parse, UsageError, type Options } from '../args';
@@ -9,7 +9,8 @@ import { checkOutput, oneStdout, toStdout, writeFailure } from '../output';
 export const EXPORT_HELP = `Usage: copse export MODEL.json OUT.onnx [--json]
 
 Writes a saved forest as an ONNX model (ai.onnx.ml TreeEnsembleClassifier or TreeEnsembleRegressor), for
-scoring with any ONNX runtime.
+scoring with any ONNX runtime. MODEL.json may also be an XGBoost JSON model: the boosted ensemble is written
+with its raw scores summed (base_values, post_transform LOGISTIC or SOFTMAX for classes).
 
 The graph reads one float tensor "${INPUT_NAME}" [rows, features], one column per feature in the model's order:
 numeric values as they are; categorical and boolean features as the position of the level in the model's level
@@ -34,7 +35,8 @@ export async function runExport(argv: string[]): Promise<void> {
   await checkOutput(outPath, 'output', [
     { file: modelPath, what: 'the model', refusal: `Refusing to write the ONNX file over the model ${modelPath}; choose another output file.` },
   ]);
-  const forest = await loadModel(modelPath);
+  // A Copse model file or an XGBoost JSON model (a boosted ensemble, written with its link and base scores).
+  const { forest } = await openModelFile(modelPath);
   const size = await saveOnnxFile(outPath, forest).catch((e) => {
     throw writeFailure(e, outPath);
   });

@@ -22,6 +22,8 @@ import { trainingOf, type TrainingView } from '../training';
 export const PREDICT_HELP = `Usage: copse predict MODEL DATA.csv [--out OUT.csv] [--json]
 
 Scores every row of DATA.csv with a saved forest: a Copse model file (.json) or an ONNX tree ensemble (.onnx).
+An XGBoost JSON model (.json, told apart by its content) is scored as XGBoost scores it; boosted trees do
+not vote, so no tree_agreement or tree_spread column is written for them.
 
 When DATA.csv is the file the forest was fitted on, columns starting oob_ give each training row the answer of
 the trees that never drew it (out-of-bag), and row_role says which rows were training or held out. Read those:

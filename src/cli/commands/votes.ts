@@ -9,12 +9,17 @@ import { say, sayError } from '../terminal';
 import { DEBUG_ENTRY, optionList } from '../help';
 import { MODEL_ENTRIES, MODEL_OPTIONS, openForData } from '../model';
 import { chooseRows, wantedRows } from '../rows';
+import { boostedVotes } from './boosted-votes';
 import { labelOf, membershipOfRows, roleName, trainingOf, type Role } from '../training';
 
 export const VOTES_HELP = `Usage: copse votes MODEL DATA.csv --rows 1,7,12 [--json]
 
 Shows how the trees of a saved forest (.json or .onnx) vote on chosen rows of DATA.csv.
 Rows are counted from 1: the first row after the header is row 1.
+
+For a boosted ensemble (an XGBoost .json model, or an ONNX ensemble that sums trees through a link) the trees
+do not vote: each tree's own raw score on the row is shown with the running total from the base score
+(log-odds for two classes, each class's raw score for several, the value for regression).
 
 When DATA.csv is the file the forest was fitted on, a row it trained on is answered first by the trees that
 never drew it (out-of-bag): the honest answer, since the other trees fitted that very row. The answer of all
@@ -67,7 +72,13 @@ export async function runVotes(argv: string[]): Promise<void> {
   const wanted = wantedRows(args, 'votes');
   const [modelPath, dataPath] = args.positionals;
   const { forest, notes } = await openForData(modelPath, dataPath, args, 'votes');
-  const { loaded, tableRows, x, encoded } = await chooseRows(forest, dataPath, wanted, 'votes');
+  const chosen = await chooseRows(forest, dataPath, wanted, 'votes');
+  if (forest.boosting) {
+    // JSON keeps the data as it is; text for people goes through the terminal-safe printer.
+    const text = boostedVotes(forest, chosen, [...notes, ...chosen.loaded.warnings], flag(args, 'json'));
+    return void (flag(args, 'json') ? process.stdout.write(text) : say(text));
+  }
+  const { loaded, tableRows, x, encoded } = chosen;
   const table = loaded.table;
   const training = trainingOf(forest, loaded, encoded);
   // Membership is known over the whole table; the chosen rows look theirs up, and one walk over the trees

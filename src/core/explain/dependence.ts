@@ -7,6 +7,7 @@
 // grid points only at nodes that test the varying feature (grid-walk.ts). (Volumes and pages cited from memory.)
 import { outputCount } from '../base/schema';
 import type { ColumnKind } from '../data/table';
+import { applyLink } from '../forest/boosting';
 import type { Forest } from '../forest/forest';
 import { stream } from '../forest/rng';
 import { Axis, GridWalker } from './grid-walk';
@@ -171,6 +172,9 @@ export function partialDependence(forest: Forest, x: ArrayLike<number>, rows: nu
   }
   const T = forest.trees.length;
   for (let i = 0; i < ice.length; i++) ice[i] /= T;
+  // A boosted classifier's mean is a raw score: each curve point becomes probabilities before curves are averaged.
+  const link = forest.boosting?.link;
+  if (link) for (let i = 0; i < m * G; i++) applyLink(link, ice, i * K, K);
   const average = new Float64Array(G * K);
   for (let s = 0; s < m; s++) for (let i = 0; i < G * K; i++) average[i] += ice[s * G * K + i];
   if (m > 0) for (let i = 0; i < G * K; i++) average[i] /= m;
@@ -215,11 +219,23 @@ export function partialDependence2D(forest: Forest, x: ArrayLike<number>, rows: 
   const values = new Float64Array(cells * K);
   const kinds = forest.schema.features;
   const walker = new GridWalker(forest, new Axis(xFeature, kinds[xFeature].kind === 'numeric', xGrid), new Axis(yFeature, kinds[yFeature].kind === 'numeric', yGrid));
+  const link = forest.boosting?.link;
+  const T = forest.trees.length;
+  const row = link && link !== 'identity' ? new Float64Array(cells * K) : undefined;
   for (const r of used) {
     for (const tree of forest.trees) walker.walk(tree, x, r * p);
-    walker.finishRow(values, 0);
+    if (!row) {
+      walker.finishRow(values, 0);
+      continue;
+    }
+    // Probabilities are averaged over rows, so each row's raw scores go through the link first.
+    row.fill(0);
+    walker.finishRow(row, 0);
+    for (let i = 0; i < row.length; i++) row[i] /= T;
+    for (let c = 0; c < cells; c++) applyLink(link!, row, c * K, K);
+    for (let i = 0; i < row.length; i++) values[i] += row[i];
   }
-  const scale = forest.trees.length * used.length;
+  const scale = (row ? 1 : T) * used.length;
   if (scale > 0) for (let i = 0; i < values.length; i++) values[i] /= scale;
   return { xFeature, yFeature, xGrid, yGrid, outputs: K, values, rows: used };
 }

@@ -1,6 +1,7 @@
 import type { Schema } from '../base/schema';
 import type { DroppedColumn } from '../data/table';
 import type { FlatTree } from '../tree/tree';
+import type { Boosting } from './boosting';
 import type { ForestParams } from './params';
 
 export interface TrainingInfo {
@@ -19,6 +20,8 @@ export interface Forest {
   readonly params: ForestParams;
   readonly trees: readonly FlatTree[];
   readonly training: TrainingInfo;
+  /** Present for a boosted ensemble (XGBoost, a SUM ensemble with a link): see boosting.ts. Absent: a forest. */
+  readonly boosting?: Boosting;
 }
 
 /** Everything of a forest but its trees: known before the first tree is grown, and the model file's first line. */

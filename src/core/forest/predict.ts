@@ -5,6 +5,7 @@ import { levelIndex } from '../data/binning';
 import { cellText, type Column, type Table } from '../data/table';
 import { argmaxAt } from '../metrics/scores';
 import type { FlatTree } from '../tree/tree';
+import { applyLink } from './boosting';
 import type { Forest } from './forest';
 
 export class SchemaMismatchError extends Error {
@@ -165,9 +166,16 @@ export function predictEncoded(forest: Forest, x: ArrayLike<number>, rows: numbe
   }
   const oob = membership ? outOfBagPart(oobSums!, oobTrees!, rows, K, classification) : undefined;
   const predicted = new Float64Array(rows);
+  const link = forest.boosting?.link;
   if (classification) {
     const agreement = new Float64Array(rows);
     for (let i = 0; i < rows * K; i++) sums[i] /= T;
+    // A boosted ensemble's mean is its raw score (boosting.ts); its trees do not vote, so no agreement is claimed.
+    if (link) {
+      for (let i = 0; i < rows; i++) applyLink(link, sums, i * K, K);
+      for (let i = 0; i < rows; i++) predicted[i] = argmaxAt(sums, i * K, K);
+      return { rows, proba: sums, predicted, votes, agreement: agreement.fill(NaN), oob };
+    }
     for (let i = 0; i < rows; i++) predicted[i] = argmaxAt(sums, i * K, K);
     for (let t = 0; t < T; t++) for (let i = 0; i < rows; i++) if (votes[t * rows + i] === predicted[i]) agreement[i]++;
     for (let i = 0; i < rows; i++) agreement[i] /= T;
@@ -177,7 +185,7 @@ export function predictEncoded(forest: Forest, x: ArrayLike<number>, rows: numbe
   for (let i = 0; i < rows; i++) {
     const m = sums[i] / T;
     predicted[i] = m;
-    spread[i] = Math.sqrt(Math.max(0, sq![i] / T - m * m));
+    spread[i] = link ? NaN : Math.sqrt(Math.max(0, sq![i] / T - m * m));
   }
   return { rows, value: predicted, predicted, votes, spread, oob };
 }

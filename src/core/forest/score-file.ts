@@ -40,9 +40,11 @@ export function predictionColumns(forest: Forest, p: Prediction, header: readonl
   const t = forest.schema.target;
   const classification = t.task === 'classification';
   const pct = interval ? `${Math.round(interval.level * 1000) / 10}` : '';
+  // Boosted trees do not vote, so no share of agreeing trees or spread is written for them.
+  const votes = !forest.boosting;
   const wanted = classification
-    ? [`predicted_${t.name}`, ...t.classes!.map((c) => `probability_${c}`), 'tree_agreement']
-    : [`predicted_${t.name}`, 'tree_spread', ...(interval ? [`lower_${pct}`, `upper_${pct}`] : [])];
+    ? [`predicted_${t.name}`, ...t.classes!.map((c) => `probability_${c}`), ...(votes ? ['tree_agreement'] : [])]
+    : [`predicted_${t.name}`, ...(votes ? ['tree_spread'] : []), ...(interval ? [`lower_${pct}`, `upper_${pct}`] : [])];
   const taken = new Set(header);
   const names = wanted.map((name) => {
     let n = name;
@@ -54,9 +56,9 @@ export function predictionColumns(forest: Forest, p: Prediction, header: readonl
     if (classification) {
       const K = t.classes!.length;
       const probs = Array.from({ length: K }, (_, k) => round(p.proba![i * K + k]));
-      return [t.classes![p.predicted[i]], ...probs, round(p.agreement![i])];
+      return votes ? [t.classes![p.predicted[i]], ...probs, round(p.agreement![i])] : [t.classes![p.predicted[i]], ...probs];
     }
-    const base = [String(p.predicted[i]), round(p.spread![i])];
+    const base = votes ? [String(p.predicted[i]), round(p.spread![i])] : [String(p.predicted[i])];
     return interval ? [...base, String(interval.lower[i]), String(interval.upper[i])] : base;
   };
   return { names, cells };

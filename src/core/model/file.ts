@@ -38,6 +38,7 @@ function treeLine(t: FlatTree): string {
 }
 
 export function serializeModel(forest: Forest): string {
+  if (forest.boosting) throw new ModelError('A boosted ensemble is not saved as a Copse model file; keep its own file, or export it to ONNX.');
   return [headLine(forest, forest.trees.length), ...forest.trees.map(treeLine)].join('\n') + '\n';
 }
 
@@ -89,6 +90,8 @@ export class ModelWriter {
 }
 
 export async function saveModel(path: string, forest: Forest): Promise<void> {
+  // The Copse file averages trees; a boosted ensemble's link and base would be lost, and its scores with them.
+  if (forest.boosting) throw new ModelError(`A boosted ensemble is not saved as a Copse model file; keep its own file, or export it to ONNX (${path}).`);
   const writer = new ModelWriter(path, forest, forest.trees.length);
   for (const tree of forest.trees) writer.add(tree);
   await writer.finish();

@@ -3,6 +3,7 @@
 // TreeEnsembleClassifier/Regressor (operator sets 1 to 4) name nodes by (tree id, node id) and keep leaves as
 // LEAF nodes; TreeEnsemble (operator set 5) keeps interior nodes and leaves in separate lists.
 import { Attributes, type Fail } from './attributes';
+import { readBase } from './base-values';
 
 export const MODE = { LEQ: 0, LT: 1, GTE: 2, GT: 3, EQ: 4, NEQ: 5, MEMBER: 6, LEAF: 7 } as const;
 const MODE_NAMES = ['BRANCH_LEQ', 'BRANCH_LT', 'BRANCH_GTE', 'BRANCH_GT', 'BRANCH_EQ', 'BRANCH_NEQ', 'BRANCH_MEMBER', 'LEAF'];
@@ -53,6 +54,8 @@ export interface Ensemble {
   readonly classLabels?: readonly string[];
   /** How the runtime combines the trees: the sum or the mean of their weights, plus base values. */
   readonly aggregate: 'sum' | 'average';
+  /** post_transform: NONE, or the link of a boosted classifier (LOGISTIC, SOFTMAX). */
+  readonly transform: 'NONE' | 'LOGISTIC' | 'SOFTMAX';
   readonly base: Float64Array;
   /** Largest feature index used, plus one. */
   readonly featuresUsed: number;
@@ -70,10 +73,9 @@ function sameLength(fail: Fail, where: string, n: number, lists: Record<string, 
   }
 }
 
-function postTransformNone(fail: Fail, where: string, value: string): void {
-  if (value !== 'NONE') {
-    fail(`${where} applies post_transform ${value}; Copse averages trees and can only take scores as they are (post_transform NONE)`);
-  }
+function postTransform(fail: Fail, where: string, value: string): Ensemble['transform'] {
+  if (value === 'NONE' || value === 'LOGISTIC' || value === 'SOFTMAX') return value;
+  return fail(`${where} applies post_transform ${value}; Copse reads NONE, and LOGISTIC or SOFTMAX on a classifier's summed scores`);
 }
 
 /** TreeEnsembleClassifier or TreeEnsembleRegressor, operator sets 1 to 4. */
@@ -182,7 +184,7 @@ export function readLegacy(attrs: Attributes, classifier: boolean, fail: Fail, w
     else if (fn !== 'SUM') fail(`${where} combines trees by ${fn}; Copse can only take a SUM or an AVERAGE`);
   }
   if (!(outputs >= 1 && outputs <= limits.maxOutputs)) fail(`${where} has ${outputs} outputs, outside 1 to ${limits.maxOutputs}`);
-  postTransformNone(fail, where, attrs.text('post_transform', 'NONE'));
+  const transform = postTransform(fail, where, attrs.text('post_transform', 'NONE'));
 
   const weightStart = new Int32Array(n + 1);
   const owner = new Int32Array(w);
@@ -224,6 +226,7 @@ export function readLegacy(attrs: Attributes, classifier: boolean, fail: Fail, w
     outputs,
     classLabels,
     aggregate,
+    transform,
     base,
     featuresUsed,
     ignored: attrs.unused(),
@@ -231,17 +234,6 @@ export function readLegacy(attrs: Attributes, classifier: boolean, fail: Fail, w
       ? [`${otherStart.length === 1 ? 'Tree' : 'Trees'} ${otherStart.slice(0, 5).join(', ')}${otherStart.length > 5 ? ', ...' : ''} list another node before node 0; Copse starts each tree at node 0, as the operator's numbering implies, while onnxruntime starts at the first node listed.`]
       : [],
   };
-}
-
-function readBase(values: ArrayLike<number> | undefined, outputs: number, fail: Fail, where: string): Float64Array {
-  const base = new Float64Array(outputs);
-  if (!values || values.length === 0) return base;
-  if (values.length !== outputs) fail(`${where} has ${values.length} base values for ${outputs} outputs`);
-  for (let k = 0; k < outputs; k++) {
-    if (!Number.isFinite(values[k])) fail(`${where} base value ${k} is not a finite number`);
-    base[k] = values[k];
-  }
-  return base;
 }
 
 const AGGREGATES = ['AVERAGE', 'SUM', 'MIN', 'MAX'];
@@ -280,7 +272,7 @@ export function readTreeEnsemble(attrs: Attributes, fail: Fail, where: string, l
   const fn = attrs.int('aggregate_function', 1);
   if (fn !== 0 && fn !== 1) fail(`${where} combines trees by ${AGGREGATES[fn] ?? `function ${fn}`}; Copse can only take a SUM or an AVERAGE`);
   const post = attrs.int('post_transform', 0);
-  postTransformNone(fail, where, TRANSFORMS[post] ?? `number ${post}`);
+  const transform = postTransform(fail, where, TRANSFORMS[post] ?? `number ${post}`);
   const rootList = attrs.ints('tree_roots')!;
   if (rootList.length === 0) fail(`${where} has no trees`);
   checkCount(fail, 'The tree count', rootList.length, limits.maxTrees);
@@ -363,6 +355,7 @@ export function readTreeEnsemble(attrs: Attributes, fail: Fail, where: string, l
     roots,
     outputs,
     aggregate: fn === 0 ? 'average' : 'sum',
+    transform,
     base: new Float64Array(outputs),
     featuresUsed,
     ignored: attrs.unused(),

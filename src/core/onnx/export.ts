@@ -6,6 +6,7 @@ import { levelCounts } from '../forest/predict';
 import { ModelError } from '../model/validate';
 import type { FlatTree } from '../tree/tree';
 import { roundDown32 } from './float32';
+import { boostedLeaves, type BoostedLeaves } from './boosted-export';
 import { exportMetadata, INPUT_NAME } from './metadata';
 import { ATTR, DTYPE, encodeModel, type OnnxAttribute, type OnnxModel, type OnnxNode, type OnnxValueInfo } from './proto';
 
@@ -93,9 +94,11 @@ export function exportOnnx(forest: Forest): Uint8Array {
   if (atLeast > MAX_BYTES) throw tooLarge(atLeast);
   const lists = new EnsembleLists();
   const seen = new Uint8Array(K);
-  trees.forEach((tree, t) => addTree(lists, tree, t, counts, classification, K, T, seen));
+  const boosted = forest.boosting ? boostedLeaves(forest) : undefined;
+  trees.forEach((tree, t) => addTree(lists, tree, t, counts, classification, K, T, seen, boosted));
   // A class no leaf votes for still needs one entry, or a runtime may infer fewer classes than the labels list.
-  for (let k = 0; k < K; k++) if (!seen[k]) lists.weight(0, leafId(trees[0]), k, 0);
+  // A boosted two-class ensemble lists class id 0 only: onnxruntime's one-score form, which its LOGISTIC reads.
+  for (let k = 0; k < (boosted?.single ? 1 : K); k++) if (!seen[k]) lists.weight(0, leafId(trees[0]), k, 0);
 
   const estimate = lists.treeIds.length * 36 + lists.weightTree.length * 13;
   if (estimate > MAX_BYTES) throw tooLarge(estimate);
@@ -115,7 +118,8 @@ export function exportOnnx(forest: Forest): Uint8Array {
     ints(`${prefix}_nodeids`, lists.weightNode.values()),
     ints(`${prefix}_ids`, lists.weightTarget.values()),
     floats(`${prefix}_weights`, lists.weightValue.values()),
-    text('post_transform', 'NONE'),
+    text('post_transform', boosted?.transform ?? 'NONE'),
+    ...(boosted ? [floats('base_values', boosted.baseValues)] : []),
   ];
   const rows = { dim_param: 'rows' };
   const input: OnnxValueInfo = tensorInfo(INPUT_NAME, DTYPE.FLOAT, [rows, { dim_value: schema.features.length }]);
@@ -135,7 +139,7 @@ export function exportOnnx(forest: Forest): Uint8Array {
     initializer.push({ name: 'class_names', data_type: DTYPE.STRING, dims: [K], string_data: classes.map((c) => utf8.encode(c)) });
     outputs = [tensorInfo('label', DTYPE.STRING, [rows]), tensorInfo('probabilities', DTYPE.FLOAT, [rows, { dim_value: K }])];
   } else {
-    attributes.push(int('n_targets', 1), text('aggregate_function', 'AVERAGE'));
+    attributes.push(int('n_targets', 1), text('aggregate_function', boosted ? 'SUM' : 'AVERAGE'));
     nodes = [{ op_type: 'TreeEnsembleRegressor', domain: 'ai.onnx.ml', name: 'forest', input: [INPUT_NAME], output: ['value'], attribute: attributes }];
     outputs = [tensorInfo('value', DTYPE.FLOAT, [rows, { dim_value: 1 }])];
   }
@@ -146,7 +150,7 @@ export function exportOnnx(forest: Forest): Uint8Array {
       { domain: 'ai.onnx.ml', version: ML_OPSET },
     ],
     producer_name: 'copse',
-    doc_string: `Random forest of ${T} trees (${schema.target.task} of "${schema.target.name}"), exported by Copse.`,
+    doc_string: `${forest.boosting ? 'Boosted ensemble' : 'Random forest'} of ${T} trees (${schema.target.task} of "${schema.target.name}"), exported by Copse.`,
     graph: { name: 'copse_forest', node: nodes, input: [input], output: outputs, initializer },
     metadata_props: exportMetadata(forest),
   };
@@ -192,7 +196,7 @@ function tooLarge(bytes: number): ModelError {
   );
 }
 
-function addTree(lists: EnsembleLists, tree: FlatTree, t: number, counts: Int32Array, classification: boolean, K: number, T: number, seen: Uint8Array): void {
+function addTree(lists: EnsembleLists, tree: FlatTree, t: number, counts: Int32Array, classification: boolean, K: number, T: number, seen: Uint8Array, boosted?: BoostedLeaves): void {
   const { left, right, feature, threshold, missingLeft, value, cover, catBits } = tree;
   // Chain nodes of level-set splits get ids after the tree's own nodes, so node i keeps id i and the root stays 0.
   let nextId = tree.nodeCount;
@@ -200,7 +204,10 @@ function addTree(lists: EnsembleLists, tree: FlatTree, t: number, counts: Int32A
     const c = cover[i];
     if (left[i] < 0) {
       lists.node(t, i, LEAF, 0, 0, 0, 0, 0, c);
-      if (classification) {
+      if (boosted) {
+        boosted.add(lists, t, i, value);
+        seen.fill(1);
+      } else if (classification) {
         // The operator sums leaf weights over trees; dividing by T makes the sum the forest's average. Zero weights
         // are left out, except with two classes: onnxruntime treats a row that no weight of the second class
         // reached as a one-score binary case and reports [-p, p] instead of [p, 0].

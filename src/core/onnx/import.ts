@@ -7,9 +7,10 @@ import { defaultParams, type ForestParams } from '../forest/params';
 import { checkForest } from '../model/file';
 import { ModelError } from '../model/validate';
 import { Attributes, failWith, type Fail } from './attributes';
+import { boostedEnsemble, boostingOf } from './boosted-import';
 import { checkAcyclic, DEFAULT_LIMITS, readLegacy, readTreeEnsemble, type Ensemble, type Limits } from './ensemble';
 import { expandTree, type ExpandContext } from './expand';
-import { META, META_FORMAT, META_VERSION } from './metadata';
+import { META, META_BOOSTING, META_FORMAT, META_VERSION } from './metadata';
 import { decodeModel, DTYPE, type OnnxGraph, type OnnxModel, type OnnxNode } from './proto';
 
 export { DEFAULT_LIMITS, type Limits } from './ensemble';
@@ -68,10 +69,10 @@ export function readOnnx(bytes: Uint8Array, label = 'the ONNX file', options: Im
   const input = checkInput(graph, node, fail);
   const where = `its ${op} node`;
   const attrs = new Attributes(node, fail, where);
-  const ensemble = op === 'TreeEnsemble' ? readTreeEnsemble(attrs, fail, where, limits) : readLegacy(attrs, op === 'TreeEnsembleClassifier', fail, where, limits);
-  checkAcyclic(ensemble, fail);
-  const notes: string[] = [...ensemble.notes];
-  if (ensemble.ignored.length) notes.push(`Attributes Copse does not read were ignored: ${ensemble.ignored.join(', ')}.`);
+  const read = op === 'TreeEnsemble' ? readTreeEnsemble(attrs, fail, where, limits) : readLegacy(attrs, op === 'TreeEnsembleClassifier', fail, where, limits);
+  checkAcyclic(read, fail);
+  const notes: string[] = [...read.notes];
+  if (read.ignored.length) notes.push(`Attributes Copse does not read were ignored: ${read.ignored.join(', ')}.`);
   const meta = readMetadata(model, fail);
   const others = (graph.node ?? []).filter((n) => n !== node).map((n) => n.op_type ?? '?');
   // A Copse export's own ArgMax and Gather only turn probabilities into a label.
@@ -79,11 +80,14 @@ export function readOnnx(bytes: Uint8Array, label = 'the ONNX file', options: Im
   if (op !== 'TreeEnsemble' && mlOpset >= 5) notes.push(`${op} is deprecated in ai.onnx.ml operator set ${mlOpset}; it was read as operator set 3 defines it.`);
   if (!input.float32) notes.push(`The graph input is ${input.typeName}, so values are compared as they are, not rounded to float32.`);
 
-  const p = input.features ?? ensemble.featuresUsed;
+  const p = input.features ?? read.featuresUsed;
   if (p < 1) fail('its input has no features');
   if (p > limits.maxFeatures) fail(`its input has ${p} features, more than the limit of ${limits.maxFeatures}`);
-  if (ensemble.featuresUsed > p) fail(`it tests feature ${ensemble.featuresUsed - 1}, but its input has ${p} features`);
-  const classification = op === 'TreeEnsembleClassifier' || (op === 'TreeEnsemble' && ensemble.outputs > 1);
+  if (read.featuresUsed > p) fail(`it tests feature ${read.featuresUsed - 1}, but its input has ${p} features`);
+  const classification = op === 'TreeEnsembleClassifier' || (op === 'TreeEnsemble' && read.outputs > 1);
+  // A Copse export of a boosted regression says so in its metadata; SUM with NONE alone is also how forests are written.
+  const { ensemble, link } = boostedEnsemble(read, classification, meta?.boosting?.link === 'identity', fail);
+  if (link) notes.push(`A boosted ensemble: its trees' scores are summed${link === 'identity' ? '' : ` and turned into probabilities by ${read.transform}`}.`);
   if (op === 'TreeEnsembleRegressor' && ensemble.outputs > 1) fail(`it predicts ${ensemble.outputs} targets at once; a Copse forest predicts one`);
   if (classification && ensemble.outputs < 2) fail('its classifier has a single class, so there is nothing to predict');
   if (op === 'TreeEnsemble' && classification) {
@@ -114,7 +118,8 @@ export function readOnnx(bytes: Uint8Array, label = 'the ONNX file', options: Im
   const trees = Array.from(ensemble.roots, (root) => expandTree(ctx, root));
   const params: ForestParams = meta?.params ?? defaultParams(task, { trees: T });
   const training: TrainingInfo = meta?.training ?? { rows: 0, fingerprint: '', dropped: [] };
-  const forest = validate({ schema, params, trees, training }, label, meta !== undefined);
+  const checked = validate({ schema, params, trees, training }, label, meta !== undefined);
+  const forest = link ? { ...checked, boosting: boostingOf(link, ensemble.base, checked.trees, ensemble.outputs) } : checked;
   return { forest, names, operator: op, mlOpset, producer: model.producer_name ?? '', trainingKnown: meta !== undefined, notes };
 }
 
@@ -148,6 +153,7 @@ interface Metadata {
   readonly schema: Schema;
   readonly params: ForestParams;
   readonly training: TrainingInfo;
+  readonly boosting?: { readonly link?: unknown };
 }
 
 /** Copse's own metadata, when the file has it; its fields are checked with the forest by the model validator. */
@@ -170,7 +176,8 @@ function readMetadata(model: OnnxModel, fail: Fail): Metadata | undefined {
     if (typeof v !== 'object' || v === null || Array.isArray(v)) fail(`its metadata ${key} should be a JSON object`);
     return v as Record<string, unknown>;
   };
-  return { schema: json(META.schema) as unknown as Schema, params: json(META.params) as unknown as ForestParams, training: json(META.training) as unknown as TrainingInfo };
+  const boosting = props.has(META_BOOSTING) ? json(META_BOOSTING) : undefined;
+  return { schema: json(META.schema) as unknown as Schema, params: json(META.params) as unknown as ForestParams, training: json(META.training) as unknown as TrainingInfo, boosting };
 }
 
 /** The parts of the metadata the conversion relies on before the validator sees it: counts and classes. */

@@ -16,6 +16,8 @@ export const META = {
   cover: 'copse.cover',
 } as const;
 
+/** Only in a boosted ensemble's export: its link, base scores and the output each tree adds to. */
+export const META_BOOSTING = 'copse.boosting';
 export const META_FORMAT = 'copse-forest';
 export const META_VERSION = 1;
 
@@ -62,5 +64,24 @@ export function exportMetadata(forest: Forest): Array<{ key: string; value: stri
     ],
     [META.cover, 'nodes_hitrates hold the weighted in-bag training rows that reached each node.'],
   ];
-  return entries.map(([key, value]) => ({ key, value }));
+  // A boosted ensemble's link and base scores; the graph's post_transform and base_values say the same to a runtime.
+  if (forest.boosting) {
+    entries.push([META_BOOSTING, JSON.stringify(forest.boosting)]);
+    entries.push([META.outputs, boostedOutputs(forest)]);
+  }
+  // A later entry for the same key (a boosted ensemble's outputs) replaces the forest's.
+  const byKey = new Map(entries);
+  return [...byKey].map(([key, value]) => ({ key, value }));
+}
+
+function boostedOutputs(forest: Forest): string {
+  const link = forest.boosting!.link;
+  if (link === 'identity') return '"value": float tensor [rows, 1], the sum of the trees\' raw scores plus base_values (aggregate_function SUM).';
+  return (
+    '"probabilities": float tensor [rows, classes], the boosted ensemble\'s probabilities: the trees\' raw scores summed per class plus ' +
+    (link === 'logistic'
+      ? 'base_values give the log-odds of the second class (all weights are listed for class id 0, the runtime\'s one-score two-class form), and post_transform LOGISTIC turns them into probabilities.'
+      : 'base_values, through post_transform SOFTMAX.') +
+    ' "label": the class with the highest probability.'
+  );
 }

@@ -8,6 +8,8 @@ import { columnsInOrder, loadOnnxFile, nameFeatures } from '../onnx/load';
 import type { OnnxImport } from '../onnx/import';
 import { loadModel } from '../model/file';
 import { ModelError } from '../model/validate';
+import { loadXgboostFile, isXgboostFile } from '../xgboost/load';
+import type { XgboostImport } from '../xgboost/read';
 
 export type ModelOrigin =
   | { readonly kind: 'copse' }
@@ -17,6 +19,15 @@ export type ModelOrigin =
       readonly names: OnnxImport['names'];
       readonly operator: OnnxImport['operator'];
       readonly producer: string;
+      readonly notes: readonly string[];
+    }
+  | {
+      readonly kind: 'xgboost';
+      /** Feature names came from the file, or are positions (f0, f1, ...). */
+      readonly names: 'file' | 'positions';
+      readonly objective: string;
+      /** The XGBoost version that wrote the file. */
+      readonly version: string;
       readonly notes: readonly string[];
     };
 
@@ -42,12 +53,24 @@ export async function isOnnxFile(path: string): Promise<boolean> {
 }
 
 export async function openModelFile(path: string): Promise<OpenedModel> {
-  if (!(await isOnnxFile(path))) return { forest: await loadModel(path), origin: { kind: 'copse' } };
+  if (!(await isOnnxFile(path))) {
+    // Both are JSON: an XGBoost model is told from a Copse one by its content, whatever the file is called.
+    if (await isXgboostFile(path)) {
+      const x: XgboostImport = await loadXgboostFile(path);
+      return { forest: x.forest, origin: { kind: 'xgboost', names: x.names, objective: x.objective, version: x.version, notes: x.notes } };
+    }
+    return { forest: await loadModel(path), origin: { kind: 'copse' } };
+  }
   const imported = await loadOnnxFile(path);
   return {
     forest: imported.forest,
     origin: { kind: 'onnx', names: imported.names, operator: imported.operator, producer: imported.producer, notes: imported.notes },
   };
+}
+
+/** Whether the model's features are positions (f0, f1, ...) that a CSV's columns must name. */
+export function namedByPosition(origin: ModelOrigin): boolean {
+  return origin.kind !== 'copse' && origin.names === 'positions';
 }
 
 /** Whether the forest knows its training sample: an imported forest does not (its row count is 0). */

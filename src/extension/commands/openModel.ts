@@ -1,4 +1,4 @@
-// "Copse: Open a saved forest": load a model file (Copse's own, or an ONNX tree ensemble), then pick the CSV
+// "Copse: Open a saved forest": load a model file (Copse's own, an XGBoost JSON model or an ONNX tree ensemble), then pick the CSV
 // to look at it against.
 
 import * as path from 'node:path';
@@ -26,7 +26,7 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
         title: 'Copse: open a saved forest',
         canSelectMany: false,
         defaultUri: csvGiven ? vscode.Uri.file(path.dirname(csvGiven.fsPath)) : undefined,
-        filters: { 'Forest (Copse model or ONNX tree ensemble)': ['json', 'onnx'], 'All files': ['*'] },
+        filters: { 'Forest (Copse model, XGBoost JSON model or ONNX tree ensemble)': ['json', 'onnx'], 'All files': ['*'] },
       });
       modelUri = picked?.[0];
     }

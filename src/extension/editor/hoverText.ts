@@ -24,6 +24,8 @@ export interface HoverContext {
   readonly line?: number;
   /** Set when the forest's training rows are not known here (a saved forest against a file read differently). */
   readonly membershipUnknown?: boolean;
+  /** A boosted ensemble: its trees add raw scores, so there are no votes to count and no agreement. */
+  readonly boosted?: boolean;
 }
 
 /** Show at most this many classes in the vote table; the rest are summed so wide targets stay readable. */
@@ -85,6 +87,7 @@ function classification(a: RowAnswer, ctx: HoverContext, out: string[]): void {
     const all = a.all;
     out.push('', `All ${all.tally.trees} trees, including the ${all.tally.trees - h.tally.trees} fitted on this row: ${label(all.predicted)} ${formatShare(all.proba?.[all.predicted] ?? NaN)}`);
   }
+  if (ctx.boosted) return void out.push('', BOOSTED_NOTE);
 
   // Vote table: columns are the classes with the most all-tree votes, so the table stays narrow.
   const counts = a.all.tally.kind === 'classification' ? a.all.tally.counts : [];
@@ -114,6 +117,8 @@ function classification(a: RowAnswer, ctx: HoverContext, out: string[]): void {
   out.push(facts.join(' · '));
 }
 
+const BOOSTED_NOTE = 'Boosted trees: each adds a raw score to a running total rather than voting, so no votes or agreement are shown; the panel shows each tree\'s raw output.';
+
 function topShares(g: GroupAnswer): Array<{ p: number; k: number }> {
   return (g.proba ?? [])
     .map((p, k) => ({ p, k }))
@@ -125,6 +130,7 @@ function regression(a: RowAnswer, ctx: HoverContext, out: string[]): void {
   const h = a.headline;
   out.push(`**${a.lead === 'out-of-bag' ? 'Out-of-bag prediction of' : 'Predicted'} ${escapeMd(ctx.target)}: ${formatNumber(h.predicted)}** (${whose(a)})`);
   if (a.truth !== undefined) out.push('', `Label: ${formatNumber(a.truth)} (${formatSigned(a.truth - h.predicted)} from the ${a.lead === 'out-of-bag' ? 'out-of-bag prediction' : 'prediction'})`);
+  if (ctx.boosted) return void out.push('', BOOSTED_NOTE);
   for (const [name, g] of [
     [a.lead === 'out-of-bag' ? `${h.tally.trees} out-of-bag trees` : '', a.oob],
     [a.lead === 'out-of-bag' ? `All ${a.all.tally.trees} trees, including those fitted on this row` : `All ${a.all.tally.trees} trees`, a.all],

@@ -4,7 +4,7 @@
 
 import { readFileSync } from 'node:fs';
 import type { Forest, ModelOrigin, PermutationImportance, Table, TrainingRows } from '../engine';
-import { findColumn, knowsTraining, median, ModelError, nameByPosition, permutationOnRows, summarizeOpened, targetCodes, withCoverFrom } from '../engine';
+import { findColumn, knowsTraining, median, ModelError, nameByPosition, namedByPosition, permutationOnRows, summarizeOpened, targetCodes, withCoverFrom } from '../engine';
 import { panelSummary } from '../summary/panel';
 import { ExplainClient } from '../workers/explainClient';
 import { COVERS_FROM_FILE, UNAVAILABLE_FOR_IMPORT } from './importText';
@@ -27,7 +27,7 @@ export interface PositionalNaming {
  * naming is needed; a ModelError when the counts cannot match, naming both.
  */
 export function positionalNaming(forest: Forest, origin: ModelOrigin, header: readonly string[], csvLabel: string, modelLabel: string): PositionalNaming | undefined {
-  if (origin.kind !== 'onnx' || origin.names !== 'positions') return undefined;
+  if (!namedByPosition(origin)) return undefined;
   const features = forest.schema.features;
   const columns = new Set(header);
   if (features.every((f) => columns.has(f.name))) return undefined;
@@ -71,7 +71,8 @@ export function forestForTable(forest: Forest, table: Table, x: Float64Array): F
     return f.kind === 'numeric' && Number.isNaN(f.reference) && column?.kind === 'numeric' ? { ...f, reference: median(column.values) } : f;
   });
   const typical = { ...forest, schema: { ...forest.schema, features } };
-  return withCoverFrom(typical, x, table.rowCount);
+  // An XGBoost file carries each node's hessian sum, the covers XGBoost's own TreeSHAP weighs by: they stay.
+  return forest.boosting?.source === 'xgboost' ? typical : withCoverFrom(typical, x, table.rowCount);
 }
 
 /**
@@ -167,8 +168,11 @@ function originNotes(forest: Forest, origin: ModelOrigin, modelLabel: string, cs
     if (!knowsTraining(forest)) return [`Opened from ${modelLabel}, saved from an import: out-of-bag scores, bootstrap membership and prediction intervals are ${UNAVAILABLE_FOR_IMPORT}.`];
     return [`Opened from ${modelLabel}: ${trained}`];
   }
-  const by = origin.producer ? `, written by ${origin.producer}` : '';
-  const head = `Imported from ${modelLabel} (ONNX ${origin.operator}${by})`;
+  const by = origin.kind === 'onnx' && origin.producer ? `, written by ${origin.producer}` : '';
+  const head =
+    origin.kind === 'onnx'
+      ? `Imported from ${modelLabel} (ONNX ${origin.operator}${by})`
+      : `Read from ${modelLabel} (XGBoost ${origin.version}, objective ${origin.objective}, boosted trees: agreement between trees does not apply)`;
   const out: string[] = [];
   if (knowsTraining(forest)) out.push(`${head}, a Copse export: ${trained}`);
   else {

@@ -23,6 +23,7 @@ import { csvLabel, type LoadedCsv } from './csvSource';
 import type { PanelSettings } from '../settings';
 import { mapMatrix, mappableRanking, regionMap } from './maps';
 import { contributionsText, intervalText, rowVotesOf, suspectReason } from './rowText';
+import { explainedClass, withBoostedTrees, withScale } from './boostedRows';
 
 export interface ScorerLike {
   /** With a membership, the prediction also holds each training row's out-of-bag answer (core's predictEncoded). */
@@ -201,6 +202,7 @@ export class ForestSession {
       tolerance: this.task === 'regression' ? this.store.tolerance : undefined,
       importedFrom: this.importedFrom,
       membershipUnknown: !this.knowsMembership && this.importedFrom === undefined,
+      boosted: this.forest.boosting !== undefined,
     };
     return hoverMarkdown(this.store.answer(tableRow), ctx);
   }
@@ -274,7 +276,7 @@ export class ForestSession {
     for (const dataRow of dataRows) {
       const r = this.numbering.tableRow(dataRow);
       if (r === undefined) continue;
-      const votes = rowVotesOf(this.store, r, dataRow);
+      const votes = withBoostedTrees(this.forest, this.encoded, r * this.p, rowVotesOf(this.store, r, dataRow), this.store.answer(r).all.proba);
       const a = level === undefined ? undefined : this.explanations?.cachedInterval(r, level);
       out.push(a && !('unavailable' in a) ? { ...votes, interval: a } : votes);
     }
@@ -287,8 +289,9 @@ export class ForestSession {
     const r = this.numbering.tableRow(dataRow);
     if (r === undefined) throw new RangeError(`Row ${dataRow} is not among the rows the forest was shown against.`);
     const c = await e.rowContributions(r, urgency, signal, this.treesFor(r));
-    const ex = e.explanationOf(c, this.task === 'classification' ? this.store.answer(r).headline.predicted : null);
-    return rowContributionsMessage(this.forest, this.encoded, r * this.p, dataRow, ex);
+    const answer = this.store.answer(r);
+    const ex = e.explanationOf(c, this.task === 'classification' ? explainedClass(this.forest, answer.headline.predicted) : null);
+    return withScale(this.forest, rowContributionsMessage(this.forest, this.encoded, r * this.p, dataRow, ex), answer.all.proba);
   }
 
   /** Mean absolute contribution per feature over a background sample of training rows (see Explanations). */
