@@ -2,6 +2,7 @@
 // as BRANCH_EQ chains share their target) with every index inside its arrays, plus how leaf weights combine.
 // TreeEnsembleClassifier/Regressor (operator sets 1 to 4) name nodes by (tree id, node id) and keep leaves as
 // LEAF nodes; TreeEnsemble (operator set 5) keeps interior nodes and leaves in separate lists.
+import { MAX_CLASSES_STORED, MAX_FEATURES, MAX_TREES } from '../limits';
 import { Attributes, type Fail } from './attributes';
 
 export const MODE = { LEQ: 0, LT: 1, GTE: 2, GT: 3, EQ: 4, NEQ: 5, MEMBER: 6, LEAF: 7 } as const;
@@ -21,11 +22,11 @@ export interface Limits {
 
 export const DEFAULT_LIMITS: Limits = {
   maxBytes: 512 * 2 ** 20,
-  maxTrees: 100_000,
+  maxTrees: MAX_TREES,
   maxNodes: 20_000_000,
   maxForestNodes: 20_000_000,
-  maxFeatures: 100_000,
-  maxOutputs: 65_535,
+  maxFeatures: MAX_FEATURES,
+  maxOutputs: MAX_CLASSES_STORED,
 };
 
 export interface Ensemble {
