@@ -4,7 +4,8 @@ import { predictEncoded } from '../../core/forest/predict';
 import { targetCodes } from '../../core/forest/target';
 import { findColumn } from '../../core/data/table';
 import { RowVotes, type GroupAnswer } from '../../core/forest/row-votes';
-import { flag, parse, type Options } from '../args';
+import { flag, parse, UsageError, type Options } from '../args';
+import { votesSizeProblem } from '../limits';
 import { DEBUG_ENTRY, optionList } from '../help';
 import { MODEL_ENTRIES, MODEL_OPTIONS, openForData } from '../model';
 import { chooseRows, wantedRows } from '../rows';
@@ -66,6 +67,8 @@ export async function runVotes(argv: string[]): Promise<void> {
   const wanted = wantedRows(args, 'votes');
   const [modelPath, dataPath] = args.positionals;
   const { forest, notes } = await openForData(modelPath, dataPath, args, 'votes');
+  const tooMany = votesSizeProblem(wanted.length, forest.trees.length);
+  if (tooMany) throw new UsageError(tooMany, 'votes');
   const { loaded, tableRows, x, encoded } = await chooseRows(forest, dataPath, wanted, 'votes');
   const table = loaded.table;
   const training = trainingOf(forest, loaded, encoded);

@@ -14,6 +14,8 @@ export interface IntakeConfig {
   readonly cleaner: CellCleaner;
   readonly maxLevels: number;
   readonly sample?: { readonly rows: number; readonly seed: number };
+  /** Most columns the header may have (LoadOptions.maxColumns). */
+  readonly maxColumns: number;
 }
 
 const KINDS: readonly string[] = ['numeric', 'categorical', 'boolean', 'exclude'];
@@ -97,8 +99,15 @@ export class Intake {
 
   private takeHeader(raw: readonly (string | number)[], line: number): void {
     const { label } = this.config;
-    const names = raw.map((n) => String(n).trim());
     this.headerLine = line;
+    if (raw.length > this.config.maxColumns) {
+      // Checked before a builder is made: a transposed table or a wrong delimiter costs a sentence, not gigabytes.
+      this.failure = new DataError(
+        `${label} line ${line}: the header has ${count(raw.length)} columns, more than the limit of ${count(this.config.maxColumns)}; check the delimiter, or raise the limit with --max-columns.`,
+      );
+      return;
+    }
+    const names = raw.map((n) => String(n).trim());
     for (let j = 0; j < names.length; j++) {
       if (names[j] === '') {
         const before = j > 0 ? names[j - 1] : '';
