@@ -4,6 +4,7 @@ import type { ColumnKind } from '../data/table';
 import type { CellCleaner } from './cells';
 import { ColumnBuilder } from './column-builder';
 import { Reservoir } from './reservoir';
+import { DEFAULT_MAX_COLUMNS } from '../limits';
 import { DataError } from './types';
 import { count, plural, q, someNames } from './wording';
 
@@ -14,8 +15,8 @@ export interface IntakeConfig {
   readonly cleaner: CellCleaner;
   readonly maxLevels: number;
   readonly sample?: { readonly rows: number; readonly seed: number };
-  /** Most columns the header may have (LoadOptions.maxColumns). */
-  readonly maxColumns: number;
+  /** Most columns the header may have (LoadOptions.maxColumns); default DEFAULT_MAX_COLUMNS. */
+  readonly maxColumns?: number;
 }
 
 const KINDS: readonly string[] = ['numeric', 'categorical', 'boolean', 'exclude'];
@@ -100,10 +101,11 @@ export class Intake {
   private takeHeader(raw: readonly (string | number)[], line: number): void {
     const { label } = this.config;
     this.headerLine = line;
-    if (raw.length > this.config.maxColumns) {
+    const maxColumns = this.config.maxColumns ?? DEFAULT_MAX_COLUMNS;
+    if (raw.length > maxColumns) {
       // Checked before a builder is made: a transposed table or a wrong delimiter costs a sentence, not gigabytes.
       this.failure = new DataError(
-        `${label} line ${line}: the header has ${count(raw.length)} columns, more than the limit of ${count(this.config.maxColumns)}; check the delimiter, or raise the limit with --max-columns.`,
+        `${label} line ${line}: the header has ${count(raw.length)} columns, more than the limit of ${count(maxColumns)}; check the delimiter, or raise the limit with --max-columns.`,
       );
       return;
     }
