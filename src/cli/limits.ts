@@ -67,3 +67,8 @@ export function votesSizeProblem(rows: number, trees: number): string | undefine
   const most = Math.max(1, Math.floor(MAX_ROW_TREE_CELLS / trees));
   return `--rows asks for ${grouped(rows)} rows of ${grouped(trees)} trees' votes each, more than the limit of ${grouped(MAX_ROW_TREE_CELLS)} votes; ask for at most ${grouped(most)} rows at a time.`;
 }
+
+/** The sentence for an option that needs to read the data twice, given standard input or a pipe, read once. */
+export function secondPass(what: string): string {
+  return `${what}, which reads the data a second time; standard input or a pipe can be read only once, so save it to a file first.`;
+}

@@ -114,6 +114,20 @@ describe('input from a pipe', function () {
     assert.doesNotMatch(r.stderr, /ESPIPE/);
   });
 
+  it('scores standard input once, and says plainly when an option would read it twice', () => {
+    const model = path.join(dir, 'k.json');
+    assert.equal(copse(['fit', kites, '--target', 'outcome', '--trees', '4', '--save', model, '--json']).code, 0);
+    const data = readFileSync(kites);
+    const fromPipe = copse(['predict', model, '-'], data);
+    assert.equal(fromPipe.code, 0, fromPipe.stderr);
+    assert.equal(fromPipe.stdout, copse(['predict', model, kites]).stdout);
+    const out = path.join(dir, 'p.csv');
+    const twice = copse(['predict', model, '-', '--out', out], data);
+    assert.equal(twice.code, 2);
+    oneSentence(twice.stderr, /--out copies each row of the data beside its answers, which reads the data a second time; standard input or a pipe can be read only once, so save it to a file first/);
+    assert.equal(existsSync(out), false);
+  });
+
   it('places an error on its line in piped input, and removes its private copy', () => {
     const before = spoolCopies().length;
     const r = copse(['fit', '-', '--target', 'b'], 'a,b\n1,2\n3,"x\n4,5\n');
