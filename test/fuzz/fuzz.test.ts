@@ -8,6 +8,7 @@
 import * as assert from 'node:assert/strict';
 import { readdirSync, readFileSync } from 'node:fs';
 import * as path from 'node:path';
+import { Readable } from 'node:stream';
 import { loadFromSource } from '../../src/core/csv/loader';
 import type { ByteSource } from '../../src/core/csv/sources';
 import { DataError } from '../../src/core/csv/types';
@@ -104,6 +105,12 @@ function bytesSource(bytes: Buffer, label: string): ByteSource {
   };
 }
 
+/** The first lines of an unexpected error's stack, for the failure message. */
+function firstLines(e: unknown): string {
+  const text = e instanceof Error ? (e.stack ?? e.message) : JSON.stringify(e);
+  return (text ?? 'undefined').split('\n').slice(0, 3).join(' | ');
+}
+
 interface Tally {
   cases: number;
   read: number;
@@ -137,7 +144,7 @@ async function run(kind: keyof typeof CASES, read: (bytes: Buffer, label: string
       const outcome = await withinBudget(read(input, name));
       if (!outcome.done) tally.hangs.push(name);
       else if (outcome.error === undefined) tally.read++;
-      else if (!expected(outcome.error)) tally.crashes.push(`${name}: ${String((outcome.error as Error)?.stack ?? outcome.error).split('\n').slice(0, 3).join(' | ')}`);
+      else if (!expected(outcome.error)) tally.crashes.push(`${name}: ${firstLines(outcome.error)}`);
       else {
         tally.refused++;
         const message = (outcome.error as Error).message;
@@ -185,7 +192,7 @@ describe('fuzzing the readers of untrusted files (seeded, counted)', function ()
       async (bytes, label) => {
         // Through the bounded line reader, as a file is read, then the parser.
         const lines: string[] = [];
-        for await (const line of boundedLines((async function* () { yield bytes; })(), label, { maxLineBytes: 32 * 1024, maxBlankBytes: 1024, maxFileBytes: MAX_BYTES })) lines.push(line);
+        for await (const line of boundedLines(Readable.from([bytes]), label, { maxLineBytes: 32 * 1024, maxBlankBytes: 1024, maxFileBytes: MAX_BYTES })) lines.push(line);
         return parseModel(lines.join('\n'), label);
       },
       (e) => e instanceof ModelError,
