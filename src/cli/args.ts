@@ -43,11 +43,18 @@ export function list(p: Parsed, name: string): string[] {
   return typeof v === 'string' ? v.split(',').map((s) => s.trim()).filter(Boolean) : [];
 }
 
-export function wholeNumber(p: Parsed, name: string, min: number): number | undefined {
+/**
+ * A whole number written in plain digits: "1e9", "0x10", "10.5" and "1_000" are refused rather than read as
+ * something the user may not have meant. `max` names the limit in the message, and `over` the flag that lifts it.
+ */
+export function wholeNumber(p: Parsed, name: string, min: number, max?: number, over?: string): number | undefined {
   const v = text(p, name);
   if (v === undefined) return undefined;
-  const n = Number(v);
-  if (!Number.isInteger(n) || n < min) throw new UsageError(`--${name} takes a whole number of at least ${min}; got "${v}".`);
+  const n = /^\+?\d{1,16}$/.test(v.trim()) ? Number(v.trim()) : NaN;
+  if (!Number.isSafeInteger(n) || n < min) throw new UsageError(`--${name} takes a whole number of at least ${min}, written in digits; got "${v}".`);
+  if (max !== undefined && n > max) {
+    throw new UsageError(`--${name} ${v} is more than the limit of ${max.toLocaleString('en-US')}${over ? `; ${over}` : ''}.`);
+  }
   return n;
 }
 

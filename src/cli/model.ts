@@ -1,5 +1,7 @@
 // Commands that score a data file (predict, votes, explain) open the model the same way: a Copse model file or an
 // ONNX tree ensemble, with a foreign model's positional features named by the data file's columns on request.
+import { isOneWayInput } from '../core/csv/pipe-source';
+import { secondPass } from './limits';
 import { readHeader } from '../core/csv/header';
 import type { Forest } from '../core/forest/forest';
 import { nameByPosition, namedByPosition, openModelFile, targetColumn, type ModelOrigin } from '../core/open/open';
@@ -30,6 +32,7 @@ export async function openForData(modelPath: string, dataPath: string, args: Par
   const leaveOut = list(args, 'leave-out');
   if (leaveOut.length && !flag(args, 'by-position')) throw new UsageError('--leave-out goes with --by-position.', command);
   if (flag(args, 'by-position')) {
+    if (isOneWayInput(dataPath)) throw new UsageError(secondPass('--by-position reads the header before the rows'), command);
     const { header } = await readHeader(dataPath);
     const missing = leaveOut.filter((c) => !header.includes(c));
     if (missing.length) throw new UsageError(`--leave-out: ${dataPath} has no column ${missing.map((c) => `"${c}"`).join(', ')}.`, command);

@@ -24,10 +24,17 @@ export function scoreLine(s: ScoresSummary): string {
   return `accuracy ${pct(s.accuracy)}  balanced accuracy ${pct(s.balancedAccuracy)}  log loss ${num(s.logLoss)}  (${s.rows} rows)`;
 }
 
+/** The largest of a list of any length (Math.max(...list) passes each entry as an argument and overflows the stack on long ones). */
+export function largest(values: Iterable<number>): number {
+  let m = -Infinity;
+  for (const v of values) if (v > m) m = v;
+  return m;
+}
+
 export function table(cells: string[][]): string {
   // One value per cell: a line break or tab from the data would break the columns.
   const rows = cells.map((r) => r.map(visibleValue));
-  const widths = rows[0].map((_, j) => Math.max(...rows.map((r) => r[j].length)));
+  const widths = rows[0].map((_, j) => largest(rows.map((r) => r[j].length)));
   return rows.map((r) => '  ' + r.map((c, j) => (j === 0 ? c.padEnd(widths[j]) : c.padStart(widths[j]))).join('  ')).join('\n') + '\n';
 }
 

@@ -10,6 +10,7 @@ import { knowsTraining } from '../../core/open/open';
 import { flag, parse, text, UsageError, wholeNumber, type Options } from '../args';
 import { visibleValue } from '../../core/visible';
 import { say, sayError } from '../terminal';
+import { largest } from '../report';
 import { MODEL_HELP, MODEL_OPTIONS, openForData } from '../model';
 import { chooseRows, wantedRows } from '../rows';
 
@@ -158,8 +159,8 @@ function subForest(forest: Forest, trees: ArrayLike<number>): Forest {
 
 /** Signed, with one number of decimals per row, so the column lines up and the largest shows four digits. */
 function signer(values: number[]): (v: number) => string {
-  const largest = Math.max(...values.map(Math.abs));
-  const decimals = largest > 0 ? Math.min(6, Math.max(0, 3 - Math.floor(Math.log10(largest)))) : 2;
+  const most = largest(values.map(Math.abs));
+  const decimals = most > 0 ? Math.min(6, Math.max(0, 3 - Math.floor(Math.log10(most)))) : 2;
   return (v) => (v >= 0 ? '+' : '') + v.toFixed(decimals);
 }
 
@@ -194,7 +195,7 @@ function readable(row: ExplainedRow, chosen: string | undefined, top: number, fo
   const order = Object.keys(phi).sort((a, b) => Math.abs(phi[b]) - Math.abs(phi[a]) || (a < b ? -1 : 1));
   const shown = order.slice(0, top);
   const cells = [['feature', 'value', 'contribution'], ...shown.map((f) => [f, row.values[f] === '' ? '(missing)' : row.values[f], signed(phi[f])])].map((r) => r.map(visibleValue));
-  const widths = cells[0].map((_, c) => Math.max(...cells.map((r) => r[c].length)));
+  const widths = cells[0].map((_, c) => largest(cells.map((r) => r[c].length)));
   let out = `${head}\n`;
   out += cells.map((r) => '  ' + r.map((c, i) => (i === 0 ? c.padEnd(widths[i]) : c.padStart(widths[i]))).join('  ')).join('\n') + '\n';
   const rest = order.slice(top);

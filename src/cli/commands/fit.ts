@@ -8,6 +8,8 @@ import { COVERAGE_BUDGET } from '../../core/summary/interval-check';
 import type { CrossValidationSummary } from '../../core/summary/types';
 import { inferTask } from '../../core/forest/target';
 import { parseFeaturesPerSplit, type FeaturesPerSplit, type ForestParams, type Task } from '../../core/forest/params';
+import { fitSizeProblem, seedOf } from '../limits';
+import { DEFAULT_MAX_COLUMNS, grouped, MAX_FEATURES, MAX_TREES } from '../../core/limits';
 import { summarizeFit } from '../../core/summary/fit';
 import { ModelWriter } from '../../core/model/file';
 import { choice, flag, fraction, list, parse, text, UsageError, wholeNumber, type Options, type Parsed } from '../args';
@@ -20,7 +22,7 @@ import { fitReport, LISTED_ROWS } from '../report';
 const FIT_ENTRIES: readonly HelpEntry[] = [
   ['--target COLUMN', 'the column to predict (required)'],
   ['--task KIND', 'classification or regression (inferred from the target when absent)'],
-  ['--trees N', 'number of trees (default 100)'],
+  ['--trees N', `number of trees (default 100, at most ${grouped(MAX_TREES)})`],
   ['--features-per-split K', 'features tried at each split: sqrt, third, log2, all, a whole number,\nor a fraction of the features (default sqrt for classification, third for regression)'],
   ['--max-depth N', 'deepest level a tree may grow to (default: no limit)'],
   ['--min-split N', 'fewest rows a node needs to be split (default 2)'],
@@ -29,7 +31,7 @@ const FIT_ENTRIES: readonly HelpEntry[] = [
   ['--sample-fraction F', 'rows drawn per tree, as a fraction of the training rows (default 1)'],
   ['--without-replacement', "draw each tree's rows without replacement instead of a bootstrap sample"],
   ['--class-weight MODE', 'none or balanced (default none)'],
-  ['--seed N', 'seed for every random choice; the same seed gives the same forest (default 1)'],
+  ['--seed N', 'seed for every random choice; the same seed gives the same forest (default 1;\na whole number from -(2^53 - 1) to 2^53 - 1, which a model file keeps exactly)'],
   ['--workers N', 'worker threads (default: one per core)'],
   ['--holdout F', 'hold out this fraction of rows and score the forest on them'],
   ['--test TEST.csv', 'score the forest on a separate file with the same columns'],
@@ -37,9 +39,11 @@ const FIT_ENTRIES: readonly HelpEntry[] = [
   ['--repeats R', 'with --folds: run the K folds R times, each with its own shuffle (default 1)'],
   ['--exclude A,B', 'leave these columns out'],
   ['--type COLUMN=KIND', 'read COLUMN as numeric, categorical or boolean (repeatable)'],
+  ['--decimal-mark C', 'the decimal mark of the file\'s numbers, , or . (the other then separates thousands);\nwithout it a dot is the mark and numbers written with a comma are text'],
   ['--missing TOKENS', 'comma-separated cell values that mean missing (default: empty,NA,N/A,NaN,null,?,-)'],
   ['--sample-rows N', 'fit on a uniform random sample of N rows'],
   ['--no-importance', 'skip permutation importance (faster on large files)'],
+  ['--max-columns N', `read a file with up to N columns (default ${grouped(DEFAULT_MAX_COLUMNS)}, at most ${grouped(MAX_FEATURES + 1)})`],
   ['--many-classes', `fit a class target even when it has more than ${MAX_CLASSES} classes, or fewer than\n${ROWS_PER_CLASS} rows per class on average (refused otherwise: such a target is rarely meant)`],
   ['--list N', `list N doubtful rows in the report instead of ${LISTED_ROWS} (all: every one)`],
   ['--save MODEL.json', 'save the forest to this file (never the data or test file; - for standard output,\nthe report then goes to standard error)'],
@@ -81,6 +85,8 @@ const OPTIONS: Options = {
   json: { type: 'boolean' },
   'many-classes': { type: 'boolean' },
   list: { type: 'string' },
+  'max-columns': { type: 'string' },
+  'decimal-mark': { type: 'string' },
 };
 
 function columnTypes(specs: string[]): Record<string, ColumnKind> {
@@ -109,7 +115,7 @@ export async function runFit(argv: string[]): Promise<void> {
   const set = <K extends keyof ForestParams>(k: K, v: ForestParams[K] | undefined) => {
     if (v !== undefined) (params as Record<string, unknown>)[k] = v;
   };
-  set('trees', wholeNumber(args, 'trees', 1));
+  set('trees', wholeNumber(args, 'trees', 1, MAX_TREES, 'a model file holds at most that many trees'));
   try {
     set('featuresPerSplit', fps === undefined ? undefined : parseFeaturesPerSplit(fps));
   } catch (e) {
@@ -127,11 +133,7 @@ export async function runFit(argv: string[]): Promise<void> {
   }
   if (flag(args, 'without-replacement')) set('replace', false);
   set('classWeight', choice(args, 'class-weight', ['none', 'balanced'] as const));
-  const seed = text(args, 'seed');
-  if (seed !== undefined) {
-    if (!/^-?\d+$/.test(seed)) throw new UsageError(`--seed takes a whole number; got "${seed}".`, 'fit');
-    set('seed', Number(seed));
-  }
+  set('seed', seedOf(text(args, 'seed')));
   const task = choice(args, 'task', ['classification', 'regression'] as const);
   const missing = text(args, 'missing');
   const loadOptions: LoadOptions = {
@@ -140,6 +142,8 @@ export async function runFit(argv: string[]): Promise<void> {
     missingTokens: missing === undefined ? undefined : missing.split(',').map((s) => s.trim()),
     sampleRows: wholeNumber(args, 'sample-rows', 1),
     sampleSeed: params.seed,
+    decimalMark: choice(args, 'decimal-mark', ['.', ','] as const),
+    maxColumns: wholeNumber(args, 'max-columns', 2, MAX_FEATURES + 1, 'a forest reads at most that many features'),
   };
   const json = flag(args, 'json');
   const listed = listCount(args);
@@ -161,6 +165,9 @@ export async function runFit(argv: string[]): Promise<void> {
   const t0 = performance.now();
   const loaded = await loadCsv(dataPath, loadOptions);
   checkTarget(loaded.table, target, task, flag(args, 'many-classes'));
+  // Before any tree is grown or the model file is opened, so a fit too large to finish leaves nothing behind.
+  const tooLarge = fitSizeProblem(loaded.table, target, task, holdout);
+  if (tooLarge) throw new UsageError(tooLarge, 'fit');
   if (params.featuresPerSplit !== undefined) checkFeaturesPerSplit(params.featuresPerSplit, loaded.table, target, exclude);
   let test;
   if (testPath) {

@@ -1,3 +1,5 @@
+import { isOneWayInput } from '../../core/csv/pipe-source';
+import { secondPass } from '../limits';
 import { csvLine } from '../../core/csv/write';
 import { predictInterval, quantileIndexFromTrainingFile } from '../../core/explain/quantiles';
 import type { Forest } from '../../core/forest/forest';
@@ -53,6 +55,7 @@ export async function runPredict(argv: string[]): Promise<void> {
   const training = text(args, 'training');
   const out = text(args, 'out');
   if (level !== undefined && !training) throw new UsageError('--interval needs --training TRAIN.csv, the file the forest was fitted on.', 'predict');
+  if (out && isOneWayInput(dataPath)) throw new UsageError(secondPass('--out copies each row of the data beside its answers'), 'predict');
   if (out) {
     oneStdout(out, flag(args, 'json'), '--out -');
     await checkOutput(out, '--out', [

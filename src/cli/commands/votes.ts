@@ -4,7 +4,8 @@ import { predictEncoded } from '../../core/forest/predict';
 import { targetCodes } from '../../core/forest/target';
 import { findColumn } from '../../core/data/table';
 import { RowVotes, type GroupAnswer } from '../../core/forest/row-votes';
-import { flag, parse, type Options } from '../args';
+import { flag, parse, UsageError, type Options } from '../args';
+import { votesSizeProblem } from '../limits';
 import { say, sayError } from '../terminal';
 import { DEBUG_ENTRY, optionList } from '../help';
 import { MODEL_ENTRIES, MODEL_OPTIONS, openForData } from '../model';
@@ -72,6 +73,8 @@ export async function runVotes(argv: string[]): Promise<void> {
   const wanted = wantedRows(args, 'votes');
   const [modelPath, dataPath] = args.positionals;
   const { forest, notes } = await openForData(modelPath, dataPath, args, 'votes');
+  const tooMany = votesSizeProblem(wanted.length, forest.trees.length);
+  if (tooMany) throw new UsageError(tooMany, 'votes');
   const chosen = await chooseRows(forest, dataPath, wanted, 'votes');
   if (forest.boosting) {
     // JSON keeps the data as it is; text for people goes through the terminal-safe printer.

@@ -1,12 +1,15 @@
 // Cell cleaning: trimming and missing-value tokens, run once per cell before anything else looks at it.
 
+import type { DecimalMark } from './number-marks';
+
 export class CellCleaner {
   private readonly tokens: ReadonlySet<string>;
   private readonly longest: number;
   // Most cells can be ruled out by their first character without hashing the string for a set lookup.
   private readonly firstChars = new Uint8Array(65536);
 
-  constructor(tokens: readonly string[]) {
+  /** @param decimalMark the file's decimal mark when the caller names it (number-marks.ts); undefined: a dot, no grouping. */
+  constructor(tokens: readonly string[], readonly decimalMark?: DecimalMark) {
     const trimmed = tokens.map((t) => t.trim()).filter((t) => t.length > 0);
     this.tokens = new Set(trimmed);
     this.longest = trimmed.reduce((m, t) => Math.max(m, t.length), 0);

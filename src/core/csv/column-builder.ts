@@ -2,6 +2,7 @@
 // column is held as numbers and, once it shows text and while it has few distinct values, as dictionary codes.
 
 import type { CellCleaner } from './cells';
+import { looksCommaNumber, parseWithMark } from './number-marks';
 import { parseDecimal, parseIsoDate } from './numbers';
 
 const PENDING = 0; // no text seen yet: numbers alone describe the column, no dictionary is kept
@@ -31,6 +32,9 @@ export class ColumnBuilder {
   texts = 0;
   /** First text cell admitted, for the stray-text warning. */
   firstText = '';
+  /** Text cells that look like numbers written with a comma, and the first of them (for the loader's note). */
+  commaNumbers = 0;
+  firstCommaNumber = '';
   private state = PENDING;
   private textCodes: Map<string, number> | null = null;
   private numberCodes: Map<number, number> | null = null;
@@ -73,7 +77,8 @@ export class ColumnBuilder {
       if (this.dates !== null) this.dates[slot] = NaN;
       return;
     }
-    const v = parseDecimal(s);
+    const mark = this.cleaner.decimalMark;
+    const v = mark === undefined ? parseDecimal(s) : parseWithMark(s, mark);
     this.values[slot] = v;
     if (v === v) {
       this.numbers++;
@@ -87,6 +92,7 @@ export class ColumnBuilder {
     }
     this.texts++;
     if (this.firstText === '') this.firstText = s;
+    if (mark === undefined && looksCommaNumber(s) && this.commaNumbers++ === 0) this.firstCommaNumber = s;
     if (this.datesPossible) {
       const d = parseIsoDate(s);
       if (d === d) {

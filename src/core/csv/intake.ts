@@ -4,6 +4,7 @@ import type { ColumnKind } from '../data/table';
 import type { CellCleaner } from './cells';
 import { ColumnBuilder } from './column-builder';
 import { Reservoir } from './reservoir';
+import { DEFAULT_MAX_COLUMNS } from '../limits';
 import { DataError } from './types';
 import { count, plural, q, someNames } from './wording';
 
@@ -14,6 +15,8 @@ export interface IntakeConfig {
   readonly cleaner: CellCleaner;
   readonly maxLevels: number;
   readonly sample?: { readonly rows: number; readonly seed: number };
+  /** Most columns the header may have (LoadOptions.maxColumns); default DEFAULT_MAX_COLUMNS. */
+  readonly maxColumns?: number;
 }
 
 const KINDS: readonly string[] = ['numeric', 'categorical', 'boolean', 'exclude'];
@@ -97,8 +100,16 @@ export class Intake {
 
   private takeHeader(raw: readonly (string | number)[], line: number): void {
     const { label } = this.config;
-    const names = raw.map((n) => String(n).trim());
     this.headerLine = line;
+    const maxColumns = this.config.maxColumns ?? DEFAULT_MAX_COLUMNS;
+    if (raw.length > maxColumns) {
+      // Checked before a builder is made: a transposed table or a wrong delimiter costs a sentence, not gigabytes.
+      this.failure = new DataError(
+        `${label} line ${line}: the header has ${count(raw.length)} columns, more than the limit of ${count(maxColumns)}; check the delimiter, or raise the limit with --max-columns.`,
+      );
+      return;
+    }
+    const names = raw.map((n) => String(n).trim());
     for (let j = 0; j < names.length; j++) {
       if (names[j] === '') {
         const before = j > 0 ? names[j - 1] : '';

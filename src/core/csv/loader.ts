@@ -3,6 +3,7 @@
 import type { Column, ColumnKind, DroppedColumn, Table } from '../data/table';
 import { ByteGuard, lineAtOffset, type ByteProblem } from './bytes';
 import { CellCleaner } from './cells';
+import { commaNote } from './number-marks';
 import { finishColumn, type Rows } from './infer';
 import { Intake } from './intake';
 import { findOpenQuote } from './quote-scan';
@@ -11,6 +12,7 @@ import { SNIFF_BYTES, sniffDelimiter } from './sniff';
 import { describeReadError, type ByteSource } from './sources';
 import { DataError, DEFAULT_MAX_LEVELS, DEFAULT_MISSING_TOKENS, type LoadOptions, type LoadResult } from './types';
 import { count, plural, q } from './wording';
+import { DEFAULT_MAX_COLUMNS } from '../limits';
 
 const DEFAULT_SEED = 1;
 
@@ -78,7 +80,7 @@ export async function loadFromSource(source: ByteSource, options: LoadOptions = 
   checkOptions(options, label);
   const columnTypes = options.columnTypes ?? {};
   const maxLevels = options.maxLevels ?? DEFAULT_MAX_LEVELS;
-  const cleaner = new CellCleaner(options.missingTokens ?? DEFAULT_MISSING_TOKENS);
+  const cleaner = new CellCleaner(options.missingTokens ?? DEFAULT_MISSING_TOKENS, options.decimalMark);
   const sampleSeed = options.sampleSeed ?? DEFAULT_SEED;
   const intake = new Intake({
     label,
@@ -86,6 +88,7 @@ export async function loadFromSource(source: ByteSource, options: LoadOptions = 
     columnTypes,
     cleaner,
     maxLevels,
+    maxColumns: options.maxColumns ?? DEFAULT_MAX_COLUMNS,
     sample: options.sampleRows !== undefined ? { rows: options.sampleRows, seed: sampleSeed } : undefined,
   });
 
@@ -276,7 +279,7 @@ export function finishLoad(intake: Intake, config: FinishConfig): LoadResult {
       );
     }
     columns[t] = targetColumn;
-    notesOf[t] = finished.note;
+    notesOf[t] = finished.note ?? commaNote(builder, forcedOf(header[t]));
     warningsOf[t] = strayWarning;
   }
 
@@ -289,12 +292,14 @@ export function finishLoad(intake: Intake, config: FinishConfig): LoadResult {
       continue;
     }
     const finished = finishColumn(builder, rows, { label, maxLevels, forced: forcedOf(header[j]), isTarget: false });
+    const comma = commaNote(builder, forcedOf(header[j]));
     if ('column' in finished) {
       columns[j] = finished.column;
-      notesOf[j] = finished.note;
+      notesOf[j] = finished.note ?? comma;
       warningsOf[j] = finished.warning;
     } else {
       droppedOf[j] = finished.dropped;
+      notesOf[j] = comma;
     }
     intake.builders[j] = null; // let its arrays go while the rest are finished
   }

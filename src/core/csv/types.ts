@@ -19,6 +19,11 @@ export interface LoadOptions {
   /** Text columns with more distinct values than this are dropped as free text (not the target, not forced). Default 1000. */
   readonly maxLevels?: number;
   readonly signal?: AbortSignal;
+  /** The decimal mark, when the file's numbers use one the caller knows: ',' or '.', the other then groups thousands
+   *  (number-marks.ts). Absent: a dot, no grouping, and cells that look like comma numbers are named in a note. */
+  readonly decimalMark?: '.' | ',';
+  /** Most columns the header may have; default DEFAULT_MAX_COLUMNS (src/core/limits.ts). */
+  readonly maxColumns?: number;
 }
 
 export interface LoadResult {

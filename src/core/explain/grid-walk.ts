@@ -102,34 +102,56 @@ export class GridWalker {
     table.fill(0);
   }
 
-  private visit(node: number, xa: number, xb: number, ya: number, yb: number): void {
+  /**
+   * Walks the tree for the cells [xa, xb) x [ya, yb). Where a split on an axis divides the cells, the left part
+   * is walked first and the right part waits on an explicit stack (five numbers a part), so depth never reaches
+   * the call stack and the order is the recursion's.
+   */
+  private visit(root: number, xa0: number, xb0: number, ya0: number, yb0: number): void {
     const tree = this.tree;
-    for (;;) {
-      const left = tree.left[node];
-      if (left < 0) return this.leaf(node, xa, xb, ya, yb);
-      const f = tree.feature[node];
-      const right = tree.right[node];
-      if (f === this.ax.feature || f === this.ay.feature) {
-        const onX = f === this.ax.feature;
-        const axis = onX ? this.ax : this.ay;
-        const a = onX ? xa : ya;
-        const b = onX ? xb : yb;
-        const mid = this.split(axis, node, a, b);
-        if (mid > a && mid < b) {
-          if (onX) {
-            this.visit(left, xa, mid, ya, yb);
-            xa = mid;
-          } else {
-            this.visit(left, xa, xb, ya, mid);
-            ya = mid;
-          }
-          node = right;
-        } else node = mid > a ? left : right;
-        continue;
+    const waiting = this.waiting;
+    waiting.length = 0;
+    waiting.push(root, xa0, xb0, ya0, yb0);
+    while (waiting.length > 0) {
+      const yb = waiting.pop()!;
+      const ya = waiting.pop()!;
+      const xb = waiting.pop()!;
+      const xa = waiting.pop()!;
+      let node = waiting.pop()!;
+      let yTop = yb;
+      let xTop = xb;
+      for (;;) {
+        const left = tree.left[node];
+        if (left < 0) {
+          this.leaf(node, xa, xTop, ya, yTop);
+          break;
+        }
+        const f = tree.feature[node];
+        const right = tree.right[node];
+        if (f === this.ax.feature || f === this.ay.feature) {
+          const onX = f === this.ax.feature;
+          const axis = onX ? this.ax : this.ay;
+          const a = onX ? xa : ya;
+          const b = onX ? xTop : yTop;
+          const mid = this.split(axis, node, a, b);
+          if (mid > a && mid < b) {
+            if (onX) {
+              waiting.push(right, mid, xTop, ya, yTop);
+              xTop = mid;
+            } else {
+              waiting.push(right, xa, xTop, mid, yTop);
+              yTop = mid;
+            }
+            node = left;
+          } else node = mid > a ? left : right;
+          continue;
+        }
+        node = goesLeft(tree, node, this.levels[f], this.x[this.offset + f]) ? left : right;
       }
-      node = goesLeft(tree, node, this.levels[f], this.x[this.offset + f]) ? left : right;
     }
   }
+
+  private readonly waiting: number[] = [];
 
   /** Puts the axis' points in [a, b) that go left first; returns where the right side starts. */
   private split(axis: Axis, node: number, a: number, b: number): number {

@@ -18,6 +18,16 @@ export interface PreparedTree {
   readonly rightShare: Float64Array;
 }
 
+/** A call of RECURSE waiting its turn. */
+interface Call {
+  readonly node: number;
+  readonly depth: number;
+  readonly parentStart: number;
+  readonly zero: number;
+  readonly one: number;
+  readonly feature: number;
+}
+
 /**
  * The path scratch of Algorithm 2, sized once for the deepest tree it will see; one tree and one row at a
  * time. Not reentrant: each explainer owns one.
@@ -46,7 +56,10 @@ export class ShapleyPath {
     private readonly outputs: number,
     private readonly levels: Int32Array,
   ) {
-    const size = ((depth + 2) * (depth + 3)) / 2;
+    // A node's copy holds one entry per distinct feature above it plus the root's, never more than depth + 1,
+    // so a chain 50,000 deep on a few features needs a few entries per level, not the square of its depth.
+    const widest = Math.min(depth, levels.length + 1) + 2;
+    const size = Math.min(((depth + 2) * (depth + 3)) / 2, (depth + 2) * widest);
     this.pathFeature = new Int32Array(size);
     this.pathZero = new Float64Array(size);
     this.pathOne = new Float64Array(size);
@@ -63,14 +76,25 @@ export class ShapleyPath {
     this.offset = offset;
     this.phi = phi;
     this.current = tree;
-    this.recurse(0, 0, -1, 1, 1, -1);
+    // The recursion of Algorithm 2 run on an explicit stack, so a tree of any depth is walked without using the
+    // call stack. A child only reads its parent's path copy, which no sibling writes, so the pending calls can
+    // wait on the stack; the hot child is pushed last and so walked first, in the recursion's order.
+    const stack = this.stack;
+    stack.length = 0;
+    stack.push({ node: 0, depth: 0, parentStart: -1, zero: 1, one: 1, feature: -1 });
+    for (let call = stack.pop(); call !== undefined; call = stack.pop()) {
+      this.visit(call.node, call.depth, call.parentStart, call.zero, call.one, call.feature);
+    }
   }
 
+  private readonly stack: Call[] = [];
+
   /**
-   * RECURSE of Algorithm 2. `depth` is the number of path entries before this node's own is added (the
-   * paper's len(m)); the parent's entries sit at parentStart. zero/one/feature describe the edge into node.
+   * One call of RECURSE of Algorithm 2, its calls on the children left on the stack. `depth` is the number of
+   * path entries before this node's own is added (the paper's len(m)); the parent's entries sit at parentStart.
+   * zero/one/feature describe the edge into node.
    */
-  private recurse(node: number, depth: number, parentStart: number, zero: number, one: number, feature: number): void {
+  private visit(node: number, depth: number, parentStart: number, zero: number, one: number, feature: number): void {
     const { tree, leftShare, rightShare } = this.current;
     const pf = this.pathFeature;
     const pz = this.pathZero;
@@ -136,8 +160,8 @@ export class ShapleyPath {
     }
     // A branch with neither cover nor the row contributes nothing to any subset's expectation; skipping it
     // also keeps the unwinding free of 0/0.
-    if (hotShare * incomingZero !== 0 || incomingOne !== 0) this.recurse(hot, d + 1, s, hotShare * incomingZero, incomingOne, f);
-    if (coldShare * incomingZero !== 0) this.recurse(cold, d + 1, s, coldShare * incomingZero, 0, f);
+    if (coldShare * incomingZero !== 0) this.stack.push({ node: cold, depth: d + 1, parentStart: s, zero: coldShare * incomingZero, one: 0, feature: f });
+    if (hotShare * incomingZero !== 0 || incomingOne !== 0) this.stack.push({ node: hot, depth: d + 1, parentStart: s, zero: hotShare * incomingZero, one: incomingOne, feature: f });
   }
 
   /** EXTEND: adds an entry and updates the weights of every subset size. */

@@ -2,6 +2,7 @@
 
 import type { Criterion, Task } from '../base/task';
 import { InputError } from '../base/input-error';
+import { MAX_SEED, MAX_TREES, MIN_SEED } from '../limits';
 
 // Defined in base/task.ts (the tree grower needs them too); named here as well for this module's callers.
 export type { Criterion, Task };
@@ -67,12 +68,12 @@ export function parseFeaturesPerSplit(text: string): FeaturesPerSplit {
 /** Throws a RangeError naming the first parameter out of range. */
 export function validateParams(p: ForestParams): void {
   const whole = (v: number, min: number) => Number.isInteger(v) && v >= min;
-  if (!whole(p.trees, 1)) throw new RangeError(`trees must be a whole number of at least 1; got ${p.trees}`);
+  if (!whole(p.trees, 1) || p.trees > MAX_TREES) throw new RangeError(`trees must be a whole number from 1 to ${MAX_TREES}; got ${p.trees}`);
   if (p.maxDepth !== null && !whole(p.maxDepth, 1)) throw new RangeError(`max depth must be a whole number of at least 1; got ${p.maxDepth}`);
   if (!whole(p.minSplit, 2)) throw new RangeError(`min split must be a whole number of at least 2; got ${p.minSplit}`);
   if (!whole(p.minLeaf, 1)) throw new RangeError(`min leaf must be a whole number of at least 1; got ${p.minLeaf}`);
   if (!(p.sampleFraction > 0 && p.sampleFraction <= 1)) throw new RangeError(`sample fraction must be in (0, 1]; got ${p.sampleFraction}`);
-  if (!Number.isInteger(p.seed)) throw new RangeError(`seed must be a whole number; got ${p.seed}`);
+  if (!Number.isSafeInteger(p.seed)) throw new RangeError(`seed must be a whole number from ${MIN_SEED} to ${MAX_SEED}; got ${p.seed}`);
   const classCriterion = p.criterion === 'gini' || p.criterion === 'entropy';
   if ((p.task === 'classification') !== classCriterion) throw new InputError(`The criterion ${p.criterion} is for ${classCriterion ? 'classification' : 'regression'}, not ${p.task}.`);
   resolveFeaturesPerSplit(p.featuresPerSplit, 1);

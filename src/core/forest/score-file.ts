@@ -1,4 +1,5 @@
 // Reading a CSV to score with a saved forest, and writing the input back out with the forest's answers.
+import { DEFAULT_MAX_COLUMNS } from '../limits';
 import { parse } from 'csv-parse';
 import { createReadStream, promises as fs } from 'node:fs';
 import { OutputFile } from '../atomic';
@@ -16,7 +17,8 @@ import type { Prediction } from './predict';
 export function loadForScoring(file: string, schema: Schema, signal?: AbortSignal): Promise<LoadResult> {
   const columnTypes = Object.create(null) as Record<string, ColumnKind>;
   for (const f of schema.features) columnTypes[f.name] = f.kind;
-  return loadCsv(file, { columnTypes, signal });
+  // A forest fitted on a wide file is scored on one as wide: the column limit grows with its features.
+  return loadCsv(file, { columnTypes, signal, maxColumns: DEFAULT_MAX_COLUMNS + schema.features.length });
 }
 
 /** Columns the forest appends to a scored file: a header name and one cell per table row. */

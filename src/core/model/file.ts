@@ -2,8 +2,6 @@
 // Line 1 holds the format, schema, settings and training facts and says how many trees follow; each further line
 // is one tree. A full-depth forest on millions of rows runs to gigabytes, more than one JavaScript string can
 // hold, so a model is written and read a tree at a time. Version 1 files (one JSON document) are still read.
-import { createReadStream } from 'node:fs';
-import { createInterface } from 'node:readline';
 import { OutputFile } from '../atomic';
 import { reasonOf, systemCode } from '../file-errors';
 import type { ColumnKind, DroppedColumn } from '../data/table';
@@ -12,6 +10,8 @@ import { validateParams, type ForestParams } from '../forest/params';
 import { sharedArray, type SharedMake } from '../forest/shared';
 import type { FlatTree } from '../tree/tree';
 import { outputCount, type FeatureInfo, type Schema, type TargetInfo } from './schema';
+import { finiteAsFloat32, grouped, MAX_CLASSES_STORED, MAX_FEATURES, MAX_MODEL_BYTES, MAX_MODEL_LINE_BYTES, MAX_TREES, MIN_SEED } from '../limits';
+import { modelFileLines } from './lines';
 import { ModelError, Reader, type Json } from './validate';
 
 export { ModelError } from './validate';
@@ -24,6 +24,15 @@ function headLine(head: ForestHead, trees: number): string {
 }
 
 function treeLine(t: FlatTree): string {
+  try {
+    return treeJson(t);
+  } catch (e) {
+    if (!(e instanceof RangeError)) throw e;
+    throw new ModelError(`A tree of ${grouped(t.nodeCount)} nodes is more text than one line of a model file may hold; grow smaller trees with --max-depth or --min-leaf.`);
+  }
+}
+
+function treeJson(t: FlatTree): string {
   return JSON.stringify({
     nodes: t.nodeCount,
     left: Array.from(t.left),
@@ -49,6 +58,7 @@ export function serializeModel(forest: Forest): string {
 export class ModelWriter {
   private readonly out: OutputFile;
   private written = 0;
+  private bytes = 0;
 
   constructor(path: string, head: ForestHead, private readonly trees: number) {
     this.out = new OutputFile(path);
@@ -84,7 +94,16 @@ export class ModelWriter {
     this.out.abandon();
   }
 
+  /** The reader's bounds, kept here too: a line or a file the reader would refuse is never written. */
   private line(text: string): void {
+    const size = Buffer.byteLength(text) + 1;
+    if (size > MAX_MODEL_LINE_BYTES) {
+      throw new ModelError(`A tree of this forest takes ${grouped(size)} bytes, more than one line of a model file may hold; grow smaller trees with --max-depth or --min-leaf.`);
+    }
+    this.bytes += size;
+    if (this.bytes > MAX_MODEL_BYTES) {
+      throw new ModelError(`The model would take more than ${grouped(MAX_MODEL_BYTES)} bytes, the most a model file may hold; grow fewer or smaller trees (--trees, --max-depth, --min-leaf).`);
+    }
     this.out.writeSync(text + '\n');
   }
 }
@@ -100,8 +119,7 @@ export async function saveModel(path: string, forest: Forest): Promise<void> {
 export async function loadModel(path: string): Promise<Forest> {
   const parser = new ModelParser(path);
   try {
-    const lines = createInterface({ input: createReadStream(path, { encoding: 'utf8' }), crlfDelay: Infinity });
-    for await (const line of lines) parser.line(line);
+    for await (const line of modelFileLines(path)) parser.line(line);
   } catch (e) {
     if (e instanceof ModelError) throw e;
     throw new ModelError(`Cannot read the model ${path}: ${systemCode(e) ? `${reasonOf(e)}.` : (e as Error).message}`);
@@ -233,12 +251,13 @@ function readSchema(r: Reader, o: Record<string, Json>): Schema {
     return { name, kind, levels, hadMissing, reference: r.integer(refValue, `${path}.reference`, 0, levels.length - 1) };
   });
   if (features.length === 0) r.fail('schema.features', 'is empty');
+  if (features.length > MAX_FEATURES) r.fail('schema.features', `has more than ${MAX_FEATURES} entries`);
   const to = r.object(r.field(o, 'target', 'schema'), 'schema.target');
   const task = r.oneOf(r.field(to, 'task', 'schema.target'), 'schema.target.task', ['classification', 'regression'] as const);
   const target: TargetInfo = { name: r.string(r.field(to, 'name', 'schema.target'), 'schema.target.name'), task };
   if (task === 'classification') {
     const classes = r.array(r.field(to, 'classes', 'schema.target'), 'schema.target.classes').map((c, j) => r.string(c, `schema.target.classes[${j}]`));
-    if (classes.length < 2 || classes.length > 65535) r.fail('schema.target.classes', 'should have at least 2 entries');
+    if (classes.length < 2 || classes.length > MAX_CLASSES_STORED) r.fail('schema.target.classes', `should have 2 to ${MAX_CLASSES_STORED} entries`);
     return { features, target: { ...target, classes } };
   }
   return { features, target };
@@ -249,7 +268,7 @@ function readParams(r: Reader, o: Record<string, Json>): ForestParams {
   const fps = f('featuresPerSplit');
   const params: ForestParams = {
     task: r.oneOf(f('task'), 'params.task', ['classification', 'regression'] as const),
-    trees: r.integer(f('trees'), 'params.trees', 1, 100000),
+    trees: r.integer(f('trees'), 'params.trees', 1, MAX_TREES),
     featuresPerSplit: typeof fps === 'number' ? r.number(fps, 'params.featuresPerSplit') : r.oneOf(fps, 'params.featuresPerSplit', ['sqrt', 'third', 'log2', 'all'] as const),
     criterion: r.oneOf(f('criterion'), 'params.criterion', ['gini', 'entropy', 'squared-error'] as const),
     maxDepth: f('maxDepth') === null ? null : r.integer(f('maxDepth'), 'params.maxDepth', 1),
@@ -258,7 +277,7 @@ function readParams(r: Reader, o: Record<string, Json>): ForestParams {
     sampleFraction: r.number(f('sampleFraction'), 'params.sampleFraction'),
     replace: r.boolean(f('replace'), 'params.replace'),
     classWeight: r.oneOf(f('classWeight'), 'params.classWeight', ['none', 'balanced'] as const),
-    seed: r.integer(f('seed'), 'params.seed', Number.MIN_SAFE_INTEGER),
+    seed: r.integer(f('seed'), 'params.seed', MIN_SEED),
   };
   try {
     validateParams(params);
@@ -287,8 +306,9 @@ function readTree(r: Reader, v: Json, path: string, schema: Schema): FlatTree {
   const feature = list('feature', Int32Array, n, (x) => Number.isInteger(x) && x >= -1 && x < p, `should be -1 or a feature index below ${p}`);
   const threshold = list('threshold', Float64Array, n, Number.isFinite, 'should be a finite number');
   const missingLeft = list('missingLeft', Uint8Array, n, (x) => x === 0 || x === 1, 'should be 0 or 1');
-  const value = list('value', Float32Array, n * K, Number.isFinite, 'should be a finite number');
-  const cover = list('cover', Float32Array, n, (x) => Number.isFinite(x) && x >= 0, 'should be a number >= 0');
+  // Checked in the precision they are kept in: a double beyond float32's range would become Infinity.
+  const value = list('value', Float32Array, n * K, finiteAsFloat32, 'should be a number float32 holds (finite, within about ±3.4e38)');
+  const cover = list('cover', Float32Array, n, (x) => finiteAsFloat32(x) && x >= 0, 'should be a number >= 0 that float32 holds');
   const catBits = list('levelSets', Uint32Array, undefined, (x) => Number.isInteger(x) && x >= 0 && x <= 0xffffffff, 'should be a 32-bit word');
   // Children after parents and each node reached once: the walk always ends, and the arrays form one tree.
   const reached = new Uint8Array(n);

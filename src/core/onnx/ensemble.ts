@@ -2,6 +2,7 @@
 // as BRANCH_EQ chains share their target) with every index inside its arrays, plus how leaf weights combine.
 // TreeEnsembleClassifier/Regressor (operator sets 1 to 4) name nodes by (tree id, node id) and keep leaves as
 // LEAF nodes; TreeEnsemble (operator set 5) keeps interior nodes and leaves in separate lists.
+import { MAX_CLASSES_STORED, MAX_FEATURES, MAX_TREES } from '../limits';
 import { Attributes, type Fail } from './attributes';
 import { readBase } from './base-values';
 
@@ -22,11 +23,11 @@ export interface Limits {
 
 export const DEFAULT_LIMITS: Limits = {
   maxBytes: 512 * 2 ** 20,
-  maxTrees: 100_000,
+  maxTrees: MAX_TREES,
   maxNodes: 20_000_000,
   maxForestNodes: 20_000_000,
-  maxFeatures: 100_000,
-  maxOutputs: 65_535,
+  maxFeatures: MAX_FEATURES,
+  maxOutputs: MAX_CLASSES_STORED,
 };
 
 export interface Ensemble {

@@ -88,8 +88,9 @@ export type Parsed<T> = { ok: true; value: T } | { ok: false; message: string };
 export function parseChoice(key: Exclude<AdjustKey, 'task' | 'exclude'>, text: string): Parsed<FitChoices[typeof key]> {
   const t = text.trim();
   const whole = (min: number, max: number): Parsed<number> => {
-    const n = Number(t);
-    return t !== '' && Number.isInteger(n) && n >= min && n <= max
+    // Digits only: "1e9" or "0x10" would otherwise pass as numbers no one typed.
+    const n = /^\+?\d{1,16}$/.test(t) ? Number(t) : NaN;
+    return Number.isSafeInteger(n) && n >= min && n <= max
       ? { ok: true, value: n }
       : { ok: false, message: `Enter a whole number from ${min} to ${max}.` };
   };

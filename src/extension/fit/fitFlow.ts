@@ -265,7 +265,7 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
         `(the file is ${formatBytes(loaded.bytes)}; see copse.data.sampleAboveMegabytes). Scores describe the sample.`,
     );
   }
-  warnings.push(...load.warnings);
+  for (const w of load.warnings) warnings.push(w); // not push(...): one argument per warning overflows on wide files
   const fitted = summarizeFit(report, load.table, { file: label, rowsRead: load.rowsRead, sampled: loaded.sampled, testFrom: 'holdout', warnings });
   const core = cv ? { ...fitted, cv } : fitted;
   const uri = vscode.Uri.file(loaded.path).toString();
