@@ -99,7 +99,7 @@ export function scoresSection(s: FitSummary): string {
         if (!c.scores) return '<td class="num">n/a</td>';
         if (i > 0) return `<td class="num">${esc(get(c.scores))}</td>`;
         const v = s.task === 'classification' ? c.scores.accuracy : c.scores.r2;
-        return `<td class="num"><span class="headline" data-score="${c.id}">${esc(formatHeadline(s.task, v))}</span></td>`;
+        return `<td class="num"><span class="headline" data-score="${c.id}" data-value="${esc(String(v))}">${esc(formatHeadline(s.task, v))}</span></td>`;
       });
       return `<tr><th scope="row">${name}</th>${cells.join('')}</tr>`;
     })
