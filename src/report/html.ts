@@ -72,7 +72,10 @@ function errorName(s: FitSummary): string {
 
 function curveSection(s: FitSummary): string {
   const title = 'Out-of-bag error as trees are added';
-  if (!s.curve.length) return section('curve', title, `<p class="muted">Not known for this forest: ${esc(s.oobUnavailable ?? 'it takes the training rows each tree drew')}.</p>`);
+  if (!s.curve.length) {
+    const why = s.oob ? 'Not known for this forest: the curve is worked out while a forest is fitted, and a saved forest does not keep it.' : (s.oobUnavailable ?? 'Not known for this forest.');
+    return section('curve', title, `<p class="muted" data-unavailable="curve">${esc(why)}</p>`);
+  }
   const at = s.curve.map((_, i) => i + 1);
   const chart = lineChart([{ name: errorName(s), colour: CLASS_HEX[0], values: [...s.curve] }], { label: title, xTitle: 'Trees', yTitle: errorName(s), at, width: 520, height: 240, fromZero: true });
   const last = s.curve[s.curve.length - 1];

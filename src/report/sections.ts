@@ -47,7 +47,9 @@ export function fittedSection(d: ReportData): string {
   if (d.model) facts += fact('Model', `<span class="mono">${esc(d.model.file)}</span> (${d.model.kind === 'onnx' ? 'imported ONNX tree ensemble' : 'saved Copse forest'})`);
   facts += fact('Predicting', `<strong>${esc(s.target)}</strong> (${taskText})`);
   facts += fact('Rows', `${rows}${scored}, of ${formatCount(s.data.rowsRead)} read${s.data.sampled ? ' (a random sample of the file)' : ''}`);
-  facts += fact('Forest', `${formatCount(s.trees)} trees, seed ${esc(String(s.settings.seed))}`);
+  // An import without Copse's record of its fit has no seed of its own; the default one would mislead.
+  const seed = d.model && !s.rows && !s.oob ? 'seed not recorded in the model file' : `seed ${esc(String(s.settings.seed))}`;
+  facts += fact('Forest', `${formatCount(s.trees)} trees, ${seed}`);
   facts += fact('Copse', esc(d.version));
   const settings = Object.entries(s.settings)
     .filter(([k]) => k !== 'trees' && k !== 'seed')
@@ -105,7 +107,7 @@ export function scoresSection(s: FitSummary): string {
     })
     .join('');
   let out = `<table class="scores"><thead>${head}</thead><tbody>${body}</tbody></table>\n`;
-  if (!s.oob) out += `<p class="muted">No out-of-bag score: ${esc(s.oobUnavailable ?? 'every row was in every tree’s sample.')}</p>\n`;
+  if (!s.oob) out += `<p class="muted" data-unavailable="oob">${esc(s.oobUnavailable ?? 'No out-of-bag score: every row was in every tree’s sample.')}</p>\n`;
   const which = s.oob ?? s.test;
   const whichName = s.oob ? 'out-of-bag' : s.testFrom === 'test' ? 'test file' : 'held-out';
   if (which?.confusion) out += confusion(which.confusion, whichName);

@@ -108,4 +108,45 @@ describe('shareable report (copse fit --report)', function () {
     assert.match(r.stderr, /Refusing to write .*it is the data file/);
     assert.equal(readFileSync(csv, 'utf8'), before);
   });
+
+  it('copse report on a saved forest and its training file shows the out-of-bag score of the fit', () => {
+    const model = path.join(dir, 'kites.json');
+    const fit = copse('fit', kites, '--target', 'outcome', '--trees', '30', '--seed', '5', '--holdout', '0.2', '--save', model, '--json');
+    assert.equal(fit.code, 0, fit.stderr);
+    const json = JSON.parse(fit.stdout) as FitJson;
+    const out = path.join(dir, 'saved.html');
+    const r = copse('report', model, kites, '--out', out);
+    assert.equal(r.code, 0, r.stderr);
+    const html = readFileSync(out, 'utf8');
+    assert.equal(headline(html, 'oob'), json.oob!.accuracy);
+    assert.ok(html.includes('saved Copse forest'));
+    assert.ok(html.includes('data-chart="region-map"'));
+  });
+
+  it('copse report on an imported ONNX forest says what needs the bootstrap is unavailable, and scores the file', () => {
+    // scikit-learn 1.2.1's forest on iris, converted by test/core/onnx/fixtures/make_sklearn_onnx.py (no Copse metadata).
+    const onnx = path.join(root, 'test/core/onnx/fixtures/sklearn-iris.onnx');
+    const iris = path.join(root, 'test/fixtures/open/iris.csv');
+    const out = path.join(dir, 'import.html');
+    const missing = copse('report', onnx, iris, '--by-position', '--leave-out', 'species', '--out', out);
+    assert.equal(missing.code, 2);
+    assert.match(missing.stderr, /no column "label".*--target/);
+    const r = copse('report', onnx, iris, '--by-position', '--leave-out', 'species', '--target', 'species', '--out', out);
+    assert.equal(r.code, 0, r.stderr);
+    const html = readFileSync(out, 'utf8');
+    assert.match(html, /data-unavailable="oob">No out-of-bag score: unavailable for an imported forest/);
+    assert.ok(html.includes('data-unavailable="curve"'));
+    assert.ok(html.includes('imported ONNX tree ensemble'));
+    assert.ok(headline(html, 'test') > 0.9, 'the file scored as test data');
+    assert.ok(!/https?:/i.test(html));
+  });
+
+  it('copse report refuses to write over the model or the data file', () => {
+    const model = path.join(dir, 'kites.json');
+    for (const [out, what] of [[model, 'model'], [kites, 'data']]) {
+      const r = copse('report', model, kites, '--out', out);
+      assert.equal(r.code, 1);
+      assert.match(r.stderr, new RegExp(`it is the ${what} file`));
+    }
+  });
 });

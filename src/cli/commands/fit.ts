@@ -220,12 +220,12 @@ export async function runFit(argv: string[]): Promise<void> {
   const seconds = { load: loadSeconds, fit: report.seconds.fit };
   if (reportPath) {
     await writeHtmlReport(reportPath, { summary, forest: report.forest, table: loaded.table, dataPath, trainRows: report.trainRows, version: version() });
-    if (!json) process.stderr.write(`Wrote the report to ${reportPath}.\n`);
   }
   if (json) {
     process.stdout.write(JSON.stringify({ ...summary, seconds, model: savePath ?? null }, null, 2) + '\n');
   } else {
     process.stdout.write(fitReport(summary, seconds, savePath, { list: listed }));
+    if (reportPath) process.stdout.write(`Wrote the report to ${reportPath}.\n`);
   }
 }
 
