@@ -77,10 +77,11 @@ function curveSection(s: FitSummary): string {
     return section('curve', title, `<p class="muted" data-unavailable="curve">${esc(why)}</p>`);
   }
   const at = s.curve.map((_, i) => i + 1);
-  const chart = lineChart([{ name: errorName(s), colour: CLASS_HEX[0], values: [...s.curve] }], { label: title, xTitle: 'Trees', yTitle: errorName(s), at, width: 520, height: 240, fromZero: true });
+  const yTitle = s.task === 'classification' ? 'Error' : 'Mean squared error';
+  const chart = lineChart([{ name: errorName(s), colour: CLASS_HEX[0], values: [...s.curve] }], { label: title, xTitle: 'Trees', yTitle, at, width: 520, height: 240, fromZero: true });
   const last = s.curve[s.curve.length - 1];
   const text = s.task === 'classification' ? formatFixed(last, 4) : formatNumber(last);
-  return section('curve', title, `<figure data-chart="curve">${chart}<p class="muted">With all ${s.curve.length} trees: ${esc(text)}. A curve still falling at the right would gain from more trees.</p></figure>`);
+  return section('curve', title, `<figure data-chart="curve"><figcaption>${esc(errorName(s))}</figcaption>${chart}<p class="muted">With all ${s.curve.length} trees: ${esc(text)}. A curve still falling at the right would gain from more trees.</p></figure>`);
 }
 
 function importanceSection(d: ReportData): string {

@@ -106,8 +106,9 @@ export function lineChart(lines: readonly Line[], o: LineChartOptions): string {
   body += `<path class="axis" d="M${m.l} ${m.t}V${H - m.b}H${W - m.r}"/>`;
   for (const l of lines) {
     const pts = l.values.map((v, i) => (Number.isFinite(v) ? `${n(sx(xs[i]))},${n(sy(v))}` : null)).filter((s): s is string => s !== null);
-    body += `<polyline class="series" stroke="${l.colour}" points="${pts.join(' ')}"><title>${esc(l.name)}</title></polyline>`;
-    if (levels || pts.length === 1) for (const pt of pts) body += `<circle cx="${pt.split(',')[0]}" cy="${pt.split(',')[1]}" r="3" fill="${l.colour}"/>`;
+    // Levels have no order between them, so their values stand as dots, unjoined.
+    if (!levels) body += `<polyline class="series" stroke="${l.colour}" points="${pts.join(' ')}"><title>${esc(l.name)}</title></polyline>`;
+    if (levels || pts.length === 1) for (const pt of pts) body += `<circle cx="${pt.split(',')[0]}" cy="${pt.split(',')[1]}" r="${levels ? 4 : 3}" fill="${l.colour}"><title>${esc(l.name)}</title></circle>`;
   }
   body += `<text class="axis-title" x="${n((m.l + W - m.r) / 2)}" y="${H - 6}" text-anchor="middle">${esc(clip(o.xTitle, 50))}</text>`;
   body += `<text class="axis-title" transform="translate(12 ${n((m.t + H - m.b) / 2)}) rotate(-90)" text-anchor="middle">${esc(clip(o.yTitle, 40))}</text>`;
