@@ -1,30 +1,12 @@
 // "Copse: Save a Report of This Fit…": the fit on show as one self-contained HTML file, gathered and drawn by the
 // same code as `copse fit --report` (src/report), so the editor and the command line give the same file.
-import { promises as fs, realpathSync } from 'node:fs';
+import { promises as fs } from 'node:fs';
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import { gatherReport, renderReport, writeFileAtomic } from '../engine';
 import { guarded } from '../fit/fitFlow';
 import { COMMANDS, type Host } from './host';
-
-/** Beside the CSV, named for it. */
-export function suggestedReportPath(csvPath: string): string {
-  return path.join(path.dirname(csvPath), `${path.basename(csvPath).replace(/\.[^.]+$/, '')}-report.html`);
-}
-
-const real = (file: string): string => {
-  try {
-    return realpathSync(file);
-  } catch {
-    return path.resolve(file);
-  }
-};
-
-/** Why the report must not go to `target`, or undefined. One call, so a shared never-write-over-an-input check can take its place. */
-export function refusal(target: string, inputs: ReadonlyArray<{ file: string; what: string }>): string | undefined {
-  const hit = inputs.find((i) => real(i.file) === real(target));
-  return hit ? `Copse will not write the report over ${path.basename(target)}: it is ${hit.what}, which would be lost. Choose another name.` : undefined;
-}
+import { reportRefusal, suggestedReportPath } from './reportPath';
 
 export function registerSaveReport(host: Host): vscode.Disposable {
   return vscode.commands.registerCommand(COMMANDS.saveReport, () =>
@@ -41,7 +23,7 @@ export function registerSaveReport(host: Host): vscode.Disposable {
       });
       if (!uri) return;
       if (uri.scheme !== 'file') throw new RangeError('Copse saves reports to local files only.');
-      const refused = refusal(uri.fsPath, [{ file: s.source.path, what: 'the data file' }]);
+      const refused = reportRefusal(uri.fsPath, [{ file: s.source.path, what: 'the data file' }]);
       if (refused) {
         void vscode.window.showErrorMessage(refused);
         return;
