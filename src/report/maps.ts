@@ -42,10 +42,10 @@ function scale(axis: MapAxis, from: number, to: number): (v: number) => number {
   return (v) => from + ((v - min) / (max - min || 1)) * (to - from);
 }
 
-function axisTicks(axis: MapAxis, most: number): Array<{ at: number; text: string }> {
+function axisTicks(axis: MapAxis, most: number, chars: number): Array<{ at: number; text: string }> {
   if (axis.kind !== 'numeric') {
     const every = Math.max(1, Math.ceil(axis.levels.length / most));
-    return axis.levels.map((l, k) => ({ at: k, text: clip(l, 10) })).filter((_, k) => k % every === 0);
+    return axis.levels.map((l, k) => ({ at: k, text: clip(l, chars) })).filter((_, k) => k % every === 0);
   }
   return ticks(axis.min, axis.max, most).map((t) => ({ at: t, text: formatNumber(t) }));
 }
@@ -59,7 +59,8 @@ export interface MapDrawing {
 /** One map: `size` is the plot's side in CSS pixels; small maps get fewer ticks and no axis titles. */
 export function mapSvg(map: ReportMap, classes: readonly string[], size: number, small = false): MapDrawing {
   const { rgba, lo, hi } = cellPixels(map, classes.length);
-  const m = small ? { l: 30, b: 22, t: 4, r: 4 } : { l: 56, b: 42, t: 6, r: 8 };
+  // The left margin holds level names up to the clip length (about 6 px a character at the tick size).
+  const m = small ? { l: 40, b: 22, t: 4, r: 4 } : { l: 80, b: 42, t: 6, r: 8 };
   const W = m.l + size + m.r;
   const H = m.t + size + m.b;
   const sx = scale(map.x, m.l, m.l + size);
@@ -67,8 +68,8 @@ export function mapSvg(map: ReportMap, classes: readonly string[], size: number,
   let body = `<image x="${m.l}" y="${m.t}" width="${size}" height="${size}" preserveAspectRatio="none" class="cells" href="${pngDataUri(map.nx, map.ny, rgba)}"/>`;
   body += `<rect class="frame" x="${m.l}" y="${m.t}" width="${size}" height="${size}"/>`;
   const most = small ? 3 : 6;
-  for (const t of axisTicks(map.x, most)) body += `<text class="tick" x="${n(sx(t.at))}" y="${m.t + size + 12}" text-anchor="middle">${esc(t.text)}</text>`;
-  for (const t of axisTicks(map.y, most)) body += `<text class="tick" x="${m.l - 3}" y="${n(sy(t.at) + 3)}" text-anchor="end">${esc(t.text)}</text>`;
+  for (const t of axisTicks(map.x, most, small ? 6 : 10)) body += `<text class="tick" x="${n(sx(t.at))}" y="${m.t + size + 12}" text-anchor="middle">${esc(t.text)}</text>`;
+  for (const t of axisTicks(map.y, most, small ? 5 : 10)) body += `<text class="tick" x="${m.l - 3}" y="${n(sy(t.at) + 3)}" text-anchor="end">${esc(t.text)}</text>`;
   if (!small) {
     body += `<text class="axis-title" x="${m.l + size / 2}" y="${H - 6}" text-anchor="middle">${esc(clip(map.x.feature, 60))}</text>`;
     body += `<text class="axis-title" transform="translate(12 ${m.t + size / 2}) rotate(-90)" text-anchor="middle">${esc(clip(map.y.feature, 50))}</text>`;
