@@ -15,7 +15,7 @@ import {
   type RegionMap,
   type SuspectRow,
 } from '../src/protocol/messages';
-import { append, clear, h, section } from './dom';
+import { append, clear, custom, h, section } from './dom';
 import { loadState, post, saveState } from './host';
 import { MapMatrixView } from './map/matrix';
 import { RegionMapView } from './map/view';
@@ -75,6 +75,8 @@ const diagnosticsView = new DiagnosticsView();
 const cvView = new CrossValidationPanel();
 
 const title = h('h1', {}, 'Copse');
+// The same file `copse fit --report` writes, for the fit on show; the host asks where to save it.
+const reportButton = custom('vscode-button', { testid: 'save-report', attrs: { secondary: '' }, title: 'Save this fit as one HTML file to share', on: { click: () => post({ type: 'saveReport' }) } }, 'Save a report…');
 const statusText = h('span', { class: 'status-text' });
 const progress = h('progress', { class: 'hidden', attrs: { max: '1' } });
 const status = h('div', { class: 'status', testid: 'status', attrs: { role: 'status' } }, statusText, progress);
@@ -93,7 +95,7 @@ function build(): void {
     h(
       'main',
       { class: 'panel' },
-      h('header', { class: 'top' }, title, status),
+      h('header', { class: 'top' }, title, status, reportButton),
       h('p', { class: 'caution', testid: 'caution', attrs: { role: 'note' } }, CAUTION),
       // Scores first: how well the forest does decides how much any map or explanation below is worth.
       summarySection,

@@ -13,6 +13,7 @@ Commands:
   votes    show how the trees vote on chosen rows
   explain  show each feature's contribution to chosen rows' predictions
   export   write a saved forest as an ONNX tree ensemble
+  report   write a saved or imported forest's report on a labelled file as one HTML file
 
 Run "copse COMMAND --help" for a command's options, "copse --version" for the version.
 
@@ -37,6 +38,7 @@ const COMMANDS: Record<string, () => Run> = {
   votes: () => (require('./commands/votes') as typeof import('./commands/votes')).runVotes,
   explain: () => (require('./commands/explain') as typeof import('./commands/explain')).runExplain,
   export: () => (require('./commands/export') as typeof import('./commands/export')).runExport,
+  report: () => (require('./commands/report') as typeof import('./commands/report')).runReport,
 };
 /* eslint-enable @typescript-eslint/no-require-imports */
 

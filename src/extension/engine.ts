@@ -71,3 +71,6 @@ export { cellsFromAverages, GridAccumulator, gridBatches, planAxis, rankFeatures
 export { targetCodes } from '../core/forest/target';
 export { UNAVAILABLE_FOR_IMPORT } from '../core/forest/membership';
 export { targetDoubt, type TargetDoubt } from '../core/checks/target';
+// The shareable report: the same gathering and drawing as `copse fit --report`.
+export { gatherReport } from '../report/gather';
+export { renderReport } from '../report/html';

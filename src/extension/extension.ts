@@ -8,6 +8,7 @@ import { registerOpenModel } from './commands/openModel';
 import { registerPredictToFile } from './commands/predictToFile';
 import { registerRevealRow, revealRow } from './commands/revealRow';
 import { registerSaveModel } from './commands/saveModel';
+import { registerSaveReport } from './commands/saveReport';
 import { registerShowPanel } from './commands/showPanel';
 import { registerShowRowVotes } from './commands/showRowVotes';
 import { CopseContext } from './context';
@@ -48,6 +49,7 @@ export function activate(extension: vscode.ExtensionContext): { readonly context
   ctx.track(registerOpenModel(host));
   ctx.track(registerPredictToFile(host));
   ctx.track(registerSaveModel(host));
+  ctx.track(registerSaveReport(host));
   ctx.track(registerExportOnnx(host));
   ctx.track(registerShowPanel(host));
   ctx.track(registerRevealRow(host));

@@ -279,6 +279,7 @@ export function isPanelToHost(v: unknown): v is PanelToHost {
       return isStr(v.feature) && (v.output === null || (isInt(v.output) && (v.output) >= 0));
     case 'runSweep':
     case 'cancelSweep':
+    case 'saveReport':
       return true;
     case 'sweepRefit':
       return isInt(v.featuresPerSplit) && (v.featuresPerSplit) >= 1;

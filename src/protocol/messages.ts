@@ -65,7 +65,9 @@ export type PanelToHost =
   | { type: 'chooseDependence'; feature: string; output: number | null }
   | { type: 'runSweep' }
   | { type: 'cancelSweep' }
-  | { type: 'sweepRefit'; featuresPerSplit: number };
+  | { type: 'sweepRefit'; featuresPerSplit: number }
+  /** The panel's button for "Save a Report of This Fit…". */
+  | { type: 'saveReport' };
 
 /** What the panel keeps in getState/setState; the host's serializer may read `dataset` from it. */
 export interface PanelState {

@@ -95,7 +95,7 @@ describe('copse command-line manners', function () {
 
   it('lays out every help in aligned columns', () => {
     // explain's help is laid out by hand in its own file and is not checked here.
-    for (const args of [['--help'], ['fit', '--help'], ['predict', '--help'], ['votes', '--help'], ['export', '--help']]) {
+    for (const args of [['--help'], ['fit', '--help'], ['predict', '--help'], ['votes', '--help'], ['export', '--help'], ['report', '--help']]) {
       const r = copse(args);
       assert.equal(r.code, 0);
       const cols = descriptionColumns(r.stdout);

@@ -36,7 +36,7 @@ function examples(markdown: string): string[] {
 function inputs(args: string[]): string[] {
   const written = new Set<number>();
   args.forEach((a, i) => {
-    if (a === '--save' || a === '--out') written.add(i + 1);
+    if (a === '--save' || a === '--out' || a === '--report') written.add(i + 1);
   });
   if (args[0] === 'export') written.add(2);
   return args.filter((a, i) => !written.has(i) && !a.startsWith('--') && /\.(csv|json|onnx)$/i.test(a));

@@ -15,6 +15,8 @@ import { ModelWriter } from '../../core/model/file';
 import { choice, flag, fraction, list, parse, text, UsageError, wholeNumber, type Options, type Parsed } from '../args';
 import { say, sayError } from '../terminal';
 import { DEBUG_ENTRY, optionList, type HelpEntry } from '../help';
+import { checkReportPath, writeHtmlReport } from '../html-report';
+import { version } from '../main';
 import { checkOutput, oneStdout, toStdout, writeFailure } from '../output';
 import { progressBar } from '../progress';
 import { fitReport, LISTED_ROWS } from '../report';
@@ -47,6 +49,7 @@ const FIT_ENTRIES: readonly HelpEntry[] = [
   ['--many-classes', `fit a class target even when it has more than ${MAX_CLASSES} classes, or fewer than\n${ROWS_PER_CLASS} rows per class on average (refused otherwise: such a target is rarely meant)`],
   ['--list N', `list N doubtful rows in the report instead of ${LISTED_ROWS} (all: every one)`],
   ['--save MODEL.json', 'save the forest to this file (never the data or test file; - for standard output,\nthe report then goes to standard error)'],
+  ['--report REPORT.html', 'also write the fit as one self-contained HTML file to share (never an input file)'],
   ['--json', 'print one JSON object instead of the report'],
   DEBUG_ENTRY,
 ];
@@ -82,6 +85,7 @@ const OPTIONS: Options = {
   folds: { type: 'string' },
   repeats: { type: 'string' },
   save: { type: 'string' },
+  report: { type: 'string' },
   json: { type: 'boolean' },
   'many-classes': { type: 'boolean' },
   list: { type: 'string' },
@@ -157,6 +161,14 @@ export async function runFit(argv: string[]): Promise<void> {
       ...(testPath ? [{ file: testPath, what: 'the --test file' }] : []),
     ]);
   }
+  const reportPath = text(args, 'report');
+  if (reportPath) {
+    await checkReportPath(reportPath, '--report', [
+      { file: dataPath, what: 'the data file' },
+      ...(testPath ? [{ file: testPath, what: 'the --test file' }] : []),
+      ...(savePath ? [{ file: savePath, what: 'the --save file' }] : []),
+    ]);
+  }
   const exclude = list(args, 'exclude');
   const folds = wholeNumber(args, 'folds', 2);
   const repeats = wholeNumber(args, 'repeats', 1);
@@ -193,8 +205,9 @@ export async function runFit(argv: string[]): Promise<void> {
     onProgress: (d, t) => bar?.update(d, t),
     fingerprint: loaded.fingerprint,
     dropped: loaded.dropped,
-    // Small fits keep them too, for the out-of-bag check of regression's prediction interval (core/summary/interval-check.ts).
-    keepTrees: holdout !== undefined || test !== undefined || loaded.table.rowCount * (params.trees ?? 100) <= COVERAGE_BUDGET,
+    // Small fits keep them too, for the out-of-bag check of regression's prediction interval (core/summary/interval-check.ts);
+    // the report draws maps and dependence from the trees, so it keeps them as well.
+    keepTrees: holdout !== undefined || test !== undefined || reportPath !== undefined || loaded.table.rowCount * (params.trees ?? 100) <= COVERAGE_BUDGET,
     onTree: savePath
       ? (tree, _, head) => {
           writer ??= new ModelWriter(savePath, head, head.params.trees);
@@ -206,7 +219,7 @@ export async function runFit(argv: string[]): Promise<void> {
     throw savePath ? writeFailure(e, savePath) : e;
   });
   bar?.end();
-  // The report (and any cross-validation) is made before the model is renamed into place: a fit that fails never
+  // The summary, any cross-validation and the HTML report are made before the model is renamed into place: a fit that fails never
   // leaves a model behind.
   let printed: string;
   try {
@@ -216,6 +229,10 @@ export async function runFit(argv: string[]): Promise<void> {
     const summary = cv ? { ...fitted, cv } : fitted;
     const seconds = { load: loadSeconds, fit: report.seconds.fit };
     printed = json ? JSON.stringify({ ...summary, seconds, model: savePath ?? null }, null, 2) + '\n' : fitReport(summary, seconds, toStdout(savePath) ? 'standard output' : savePath, { list: listed });
+    if (reportPath) {
+      await writeHtmlReport(reportPath, { summary, forest: report.forest, table: loaded.table, dataPath, trainRows: report.trainRows, version: version() });
+      if (!json) printed += `Wrote the report to ${reportPath}.\n`;
+    }
   } catch (e) {
     writer?.abandon();
     throw e;

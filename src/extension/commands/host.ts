@@ -18,4 +18,5 @@ export const COMMANDS = {
   showPanel: 'copse.showPanel',
   revealRow: 'copse.revealRow',
   showRowVotes: 'copse.showRowVotes',
+  saveReport: 'copse.saveReport',
 } as const;

@@ -281,6 +281,7 @@ async function install(ctx: CopseContext, loaded: LoadedCsv, choices: FitChoices
       text: () => readText(loaded.path),
       oob: { trainRows: report.trainRows, holdoutRows: report.holdoutRows, inBag },
       summary: (fit) => panelSummary(core, { fit, uri }),
+      coreSummary: () => core,
       scorer,
       explainer: (setup) => new ExplainClient(setup),
       quantiles: { from: 'fit', report },

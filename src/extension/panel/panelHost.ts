@@ -248,6 +248,9 @@ export class PanelHost implements vscode.Disposable {
         case 'sweepRefit':
           await this.actions.refitFeatures(msg.featuresPerSplit);
           break;
+        case 'saveReport':
+          await vscode.commands.executeCommand('copse.saveReport');
+          break;
       }
     } catch (e) {
       if (!isUserError(e)) this.ctx.log.error(e instanceof Error ? (e.stack ?? e.message) : String(e));
@@ -281,6 +284,12 @@ export class PanelHost implements vscode.Disposable {
       if (!isUserError(e)) this.ctx.log.error(e instanceof Error ? (e.stack ?? e.message) : String(e));
       this.status('error', userMessage(e));
     }
+  }
+
+  /** The pair the large map shows for this session, for the report to draw the same one. */
+  shownMap(session: ForestSession): [string, string] | undefined {
+    const c = this.shown?.session === session ? this.shown.choice : undefined;
+    return c ? [c.x, c.y] : undefined;
   }
 
   /** The pre-reload map choice, once, if this forest has both its features. */

@@ -3,13 +3,13 @@
 // none, and permutation importance on the CSV's labelled rows. No `vscode` here, so tests run it as the command does.
 
 import { readFileSync } from 'node:fs';
-import type { Forest, ModelOrigin, PermutationImportance, Table, TrainingRows } from '../engine';
+import type { CoreFitSummary, Forest, ModelOrigin, PermutationImportance, Table, TrainingRows } from '../engine';
 import { findColumn, knowsTraining, median, ModelError, nameByPosition, namedByPosition, permutationOnRows, summarizeOpened, targetCodes, withCoverFrom } from '../engine';
 import { panelSummary } from '../summary/panel';
 import { ExplainClient } from '../workers/explainClient';
 import { COVERS_FROM_FILE, UNAVAILABLE_FOR_IMPORT } from './importText';
 import { csvLabel, type LoadedCsv } from './csvSource';
-import { ForestSession, type ScorerLike } from './session';
+import { ForestSession, type ScorerLike, type Scored } from './session';
 
 export { COVERS_FROM_FILE, UNAVAILABLE_FOR_IMPORT } from './importText';
 
@@ -123,6 +123,24 @@ export function openedSession(i: OpenedSessionInput): Promise<ForestSession> {
   const { forest, csv, modelLabel } = i;
   const label = csvLabel(csv);
   const training = i.training;
+  let core: CoreFitSummary | undefined;
+  const coreOf = ({ prediction, truth, votes }: Scored): CoreFitSummary =>
+    (core ??= summarizeOpened({
+      forest,
+      table: csv.load.table,
+      prediction,
+      truth,
+      votes,
+      file: label,
+      fingerprint: csv.load.fingerprint,
+      rowsRead: csv.load.rowsRead,
+      sampled: csv.sampled,
+      training,
+      permutation: i.permutation,
+      permutationMissing: i.permutationMissing,
+      notes: originNotes(forest, i.origin, modelLabel, label),
+      warnings: i.warnings,
+    }));
   return ForestSession.create({
     forest,
     csv,
@@ -130,32 +148,16 @@ export function openedSession(i: OpenedSessionInput): Promise<ForestSession> {
     text: () => readFileSync(csv.path, 'utf8'),
     // The training file itself, read as the fit read it: the out-of-bag views are the fit's own.
     oob: 'trainRows' in training ? training : undefined,
-    summary: (fit, { prediction, truth, votes }) =>
-      panelSummary(
-        summarizeOpened({
-          forest,
-          table: csv.load.table,
-          prediction,
-          truth,
-          votes,
-          file: label,
-          fingerprint: csv.load.fingerprint,
-          rowsRead: csv.load.rowsRead,
-          sampled: csv.sampled,
-          training,
-          permutation: i.permutation,
-          permutationMissing: i.permutationMissing,
-          notes: originNotes(forest, i.origin, modelLabel, label),
-          warnings: i.warnings,
-        }),
-        { fit, uri: csv.uri },
-      ),
+    // One core summary serves the panel and the shareable report.
+    summary: (fit, scored) => panelSummary(coreOf(scored), { fit, uri: csv.uri }),
+    coreSummary: (scored) => coreOf(scored),
     scorer: i.scorer,
     explainer: (setup) => new ExplainClient(setup),
     // Intervals need the forest's training rows: they are there when this CSV is its training file, and
     // never for an import without Copse's metadata.
     quantiles: i.imported ? { from: 'none', reason: `${UNAVAILABLE_FOR_IMPORT}.` } : { from: 'table' },
     importedFrom: i.imported ? modelLabel : undefined,
+    model: { file: modelLabel, kind: i.origin.kind },
     intervalLevel: i.intervalLevel,
   });
 }

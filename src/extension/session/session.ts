@@ -5,7 +5,7 @@
 // extension host's own thread only encodes rows and reads arrays.
 
 import type { Dependence, FitSummary, GlobalContributions, ReferenceChoice, RegionMap, RowContributions, RowVotes as PanelRowVotes, SuspectRow } from '../../protocol/messages';
-import type { FitReport, Forest, Membership, Prediction, Table, TrainingRows } from '../engine';
+import type { CoreFitSummary, FitReport, Forest, Membership, Prediction, Table, TrainingRows } from '../engine';
 import { encodeTable, membershipOf, RowVotes, targetCodes, targetTolerance } from '../engine';
 import { hoverMarkdown, type HoverContext } from '../editor/hoverText';
 import type { ExplainerLike, Urgency } from '../workers/explainClient';
@@ -54,6 +54,8 @@ export interface SessionInit {
   readonly oob?: OobInput;
   /** The panel's summary, stamped with the session's id (see FitSummary.fit); it may use what was scored. */
   readonly summary: (fit: string, scored: Scored) => FitSummary;
+  /** Core's summary the panel's is made from, kept for the shareable report (src/report). */
+  readonly coreSummary?: (scored: Scored) => CoreFitSummary;
   readonly scorer: ScorerLike;
   /** Seeds the samples drawn for points and averaged maps; the forest's own seed when absent. */
   readonly seed?: number;
@@ -66,6 +68,8 @@ export interface SessionInit {
   readonly quantiles?: { readonly from: 'fit'; readonly report: FitReport } | { readonly from: 'table' } | { readonly from: 'none'; readonly reason: string };
   /** Set for a forest imported without its training sample: the model file's name, for hovers. */
   readonly importedFrom?: string;
+  /** The model file a forest was opened from, for the shareable report. */
+  readonly model?: { readonly file: string; readonly kind: 'copse' | 'onnx' };
   /** Regression: the interval level to prepare for every row at once. */
   readonly intervalLevel?: number;
 }
@@ -97,6 +101,8 @@ export class ForestSession {
   readonly lines: LineIndex;
   readonly numbering: RowNumbering;
   readonly summary: FitSummary;
+  /** Core's summary, for the shareable report; absent when the caller gave none. */
+  readonly coreSummary: CoreFitSummary | undefined;
   readonly scorer: ScorerLike;
   /** Feature-space rows of the table, [row * p + f]. */
   readonly encoded: Float64Array;
@@ -115,9 +121,12 @@ export class ForestSession {
   private disposed = false;
   /** The model file's name when the forest was imported without its training sample. */
   readonly importedFrom: string | undefined;
+  readonly model: SessionInit['model'];
 
-  private constructor(init: SessionInit, id: string, summary: FitSummary, encoded: Float64Array, store: RowVotes, numbering: RowNumbering, truth: Float64Array) {
+  private constructor(init: SessionInit, id: string, summary: FitSummary, encoded: Float64Array, store: RowVotes, numbering: RowNumbering, truth: Float64Array, core?: CoreFitSummary) {
     this.id = id;
+    this.coreSummary = core;
+    this.model = init.model;
     this.truth = truth;
     this.importedFrom = init.importedFrom;
     this.forest = init.forest;
@@ -171,7 +180,8 @@ export class ForestSession {
     const store = new RowVotes(task, forest.schema.target.classes ?? [], prediction, truth, membership, holdout, targetTolerance(task, truth, init.oob?.trainRows));
     const numbering = RowNumbering.build(table.lineOfRow, init.csv.load.delimiter, init.text, table.rowNumber);
     const id = `${Date.now().toString(36)}-${++sessions}`;
-    return new ForestSession(init, id, init.summary(id, { prediction, truth, votes: store }), encoded, store, numbering, truth);
+    const scored = { prediction, truth, votes: store };
+    return new ForestSession(init, id, init.summary(id, scored), encoded, store, numbering, truth, init.coreSummary?.(scored));
   }
 
   get task(): 'classification' | 'regression' {
