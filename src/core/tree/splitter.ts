@@ -6,6 +6,7 @@ import { MAX_BINS } from '../data/binning';
 import type { SideScore } from './criterion';
 
 const SLOTS = MAX_BINS + 1;
+const WORDS = (SLOTS + 31) >>> 5;
 
 export interface SplitCandidate {
   score: number;
@@ -29,8 +30,11 @@ export function emptyCandidate(): SplitCandidate {
 export class Histogram {
   readonly ch: Float64Array;
   readonly cnt: Int32Array;
-  readonly touched = new Int32Array(SLOTS);
-  touchedCount = 0;
+  /**
+   * A bit per slot holding rows. Reading its set bits word by word lists the bins in ascending order, so a
+   * node's bins come out sorted in O(bins held) whether the node is small or dense: no sort, no 256-bin walk.
+   */
+  readonly held = new Int32Array(WORDS);
   private readonly left: Float64Array;
   private readonly right: Float64Array;
   private readonly order = new Int32Array(SLOTS);
@@ -46,40 +50,57 @@ export class Histogram {
 
   /** Classification: add rows idx[start..end) of feature f. */
   addClasses(bins: Uint8Array, p: number, f: number, idx: Int32Array, start: number, end: number, y: Int32Array, w: Float64Array): void {
-    const { ch, cnt, touched, channels } = this;
-    let t = this.touchedCount;
+    const { ch, cnt, held, channels } = this;
     for (let j = start; j < end; j++) {
       const r = idx[j];
       const b = bins[r * p + f];
-      if (cnt[b]++ === 0) touched[t++] = b;
+      if (cnt[b]++ === 0) held[b >>> 5] |= 1 << (b & 31);
       ch[b * channels + y[r]] += w[r];
     }
-    this.touchedCount = t;
   }
 
   /** Regression: add rows idx[start..end) of feature f (channel 0 weight, channel 1 weighted target). */
   addValues(bins: Uint8Array, p: number, f: number, idx: Int32Array, start: number, end: number, y: Float64Array, w: Float64Array): void {
-    const { ch, cnt, touched } = this;
-    let t = this.touchedCount;
+    const { ch, cnt, held } = this;
     for (let j = start; j < end; j++) {
       const r = idx[j];
       const b = bins[r * p + f];
-      if (cnt[b]++ === 0) touched[t++] = b;
+      if (cnt[b]++ === 0) held[b >>> 5] |= 1 << (b & 31);
       const o = b * 2;
       ch[o] += w[r];
       ch[o + 1] += w[r] * y[r];
     }
-    this.touchedCount = t;
   }
 
   clear(): void {
-    const { ch, cnt, touched, channels } = this;
-    for (let t = 0; t < this.touchedCount; t++) {
-      const b = touched[t];
-      cnt[b] = 0;
-      for (let k = b * channels, e = k + channels; k < e; k++) ch[k] = 0;
+    const { ch, cnt, held, channels } = this;
+    for (let wd = 0; wd < WORDS; wd++) {
+      let bits = held[wd];
+      while (bits !== 0) {
+        const low = bits & -bits;
+        bits ^= low;
+        const b = (wd << 5) + 31 - Math.clz32(low);
+        cnt[b] = 0;
+        for (let k = b * channels, e = k + channels; k < e; k++) ch[k] = 0;
+      }
+      held[wd] = 0;
     }
-    this.touchedCount = 0;
+  }
+
+  /** Writes the held value bins (every held slot but the missing one) to order in ascending order; returns how many. */
+  private heldBins(missingSlot: number): number {
+    const { held, order } = this;
+    let m = 0;
+    for (let wd = 0; wd < WORDS; wd++) {
+      let bits = held[wd];
+      while (bits !== 0) {
+        const low = bits & -bits;
+        bits ^= low;
+        const b = (wd << 5) + 31 - Math.clz32(low);
+        if (b !== missingSlot) order[m++] = b;
+      }
+    }
+    return m;
   }
 
   /**
@@ -101,19 +122,12 @@ export class Histogram {
   ): boolean {
     const { ch, cnt, channels, left, right, order } = this;
     const missingCount = cnt[valueBins];
-    let m = 0;
-    for (let t = 0; t < this.touchedCount; t++) if (this.touched[t] !== valueBins) order[m++] = this.touched[t];
+    const m = this.heldBins(valueBins);
     if (m + (missingCount > 0 ? 1 : 0) < 2) return false;
     if (categorical) {
       const keys = this.keys;
       for (let i = 0; i < m; i++) keys[order[i]] = levelKey(ch, order[i] * channels);
       sortBy(order, m, keys);
-    } else if (m * 4 < valueBins) {
-      sortBy(order, m, null);
-    } else {
-      // Dense: walking every bin in order is cheaper than sorting the touched ones.
-      m = 0;
-      for (let b = 0; b < valueBins; b++) if (cnt[b] > 0) order[m++] = b;
     }
     this.orderCount = m;
     if (gini && missingCount === 0) {
@@ -212,21 +226,19 @@ export class Histogram {
   }
 }
 
-/** Insertion sort of the first m entries, by key (ties by bin) or by bin: m is small on all but dense nodes. */
-function sortBy(order: Int32Array, m: number, keys: Float64Array | null): void {
+/** Sorts the first m entries (held in ascending bin order) by key, ties by bin: insertion sort while m is small. */
+function sortBy(order: Int32Array, m: number, keys: Float64Array): void {
   if (m > 64) {
-    const part = order.subarray(0, m);
-    if (keys) part.sort((a, b) => keys[a] - keys[b] || a - b);
-    else part.sort();
+    order.subarray(0, m).sort((a, b) => keys[a] - keys[b] || a - b);
     return;
   }
   for (let i = 1; i < m; i++) {
     const v = order[i];
-    const kv = keys ? keys[v] : v;
+    const kv = keys[v];
     let j = i - 1;
     while (j >= 0) {
       const u = order[j];
-      const ku = keys ? keys[u] : u;
+      const ku = keys[u];
       if (ku < kv || (ku === kv && u < v)) break;
       order[j + 1] = u;
       j--;
