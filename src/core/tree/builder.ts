@@ -3,7 +3,7 @@
 import type { Criterion } from '../base/task';
 import type { BinnedMatrix } from '../data/binning';
 import { sideScore } from './criterion';
-import { emptyCandidate, Histogram, type SplitCandidate } from './splitter';
+import { emptyCandidate, HistogramSet, type SplitCandidate } from './splitter';
 import { GrowableTree } from './growable';
 import type { FlatTree } from './tree';
 
@@ -87,7 +87,10 @@ export function growTree(
   const outputs = target.kind === 'classes' ? target.classes : 1;
   const score = sideScore(settings.criterion);
   const gini = settings.criterion === 'gini';
-  const hist = new Histogram(channels);
+  // The first `first` draws happen at every node whatever the scans find, so their histograms fill in one pass.
+  const first = Math.max(1, Math.min(settings.featuresPerSplit, p));
+  const hists = new HistogramSet(channels, first);
+  const drawn = new Int32Array(first);
   const nodes = new NodeArrays(outputs);
   const impurityDecrease = new Float64Array(p);
   const order = new Int32Array(p);
@@ -121,16 +124,34 @@ export function growTree(
         // Binary and multi-class targets order levels by the share of the node's most common class.
         majority = target.classes === 2 ? 1 : argmax(total);
       }
-      let tried = 0;
-      for (let j = 0; j < p && tried < settings.featuresPerSplit; j++) {
+      // Features are drawn without replacement until featuresPerSplit of them vary in the node.
+      const draw = (j: number): number => {
         const r = j + Math.floor(random() * (p - j));
         const f = order[r];
         order[r] = order[j];
         order[j] = f;
-        if (target.kind === 'classes') hist.addClasses(bins, p, f, idx, start, end, target.y, w);
-        else hist.addValues(bins, p, f, idx, start, end, target.y, w);
-        if (hist.scan(f, data.valueBins[f], data.categorical[f] === 1, total, count, settings.minLeaf, score, levelKey, best, gini)) tried++;
-        hist.clear();
+        return f;
+      };
+      let tried = 0;
+      let j = 0;
+      for (; j < first && j < p; j++) drawn[j] = draw(j);
+      if (target.kind === 'classes') hists.addClasses(bins, p, drawn, j, idx, start, end, target.y, w);
+      else hists.addValues(bins, p, drawn, j, idx, start, end, target.y, w);
+      for (let i = 0; i < j; i++) {
+        const f = drawn[i];
+        const h = hists.lanes[i];
+        if (h.scan(f, data.valueBins[f], data.categorical[f] === 1, total, count, settings.minLeaf, score, levelKey, best, gini)) tried++;
+        h.clear();
+      }
+      // A feature constant in the node does not count; each further one is drawn and filled on its own.
+      for (; j < p && tried < settings.featuresPerSplit; j++) {
+        drawn[0] = draw(j);
+        const f = drawn[0];
+        if (target.kind === 'classes') hists.addClasses(bins, p, drawn, 1, idx, start, end, target.y, w);
+        else hists.addValues(bins, p, drawn, 1, idx, start, end, target.y, w);
+        const h = hists.lanes[0];
+        if (h.scan(f, data.valueBins[f], data.categorical[f] === 1, total, count, settings.minLeaf, score, levelKey, best, gini)) tried++;
+        h.clear();
       }
       if (best.feature < 0) leaf = true;
     }
