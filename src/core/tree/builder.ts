@@ -5,6 +5,7 @@ import type { BinnedMatrix } from '../data/binning';
 import { sideScore } from './criterion';
 import { emptyCandidate, HistogramSet, type SplitCandidate } from './splitter';
 import { GrowableTree } from './growable';
+import { NodeStack } from './node-stack';
 import type { FlatTree } from './tree';
 
 export type TargetData =
@@ -57,14 +58,6 @@ class NodeArrays extends GrowableTree {
   }
 }
 
-interface PendingNode {
-  id: number;
-  start: number;
-  end: number;
-  depth: number;
-  total: Float64Array;
-}
-
 /**
  * Grows a tree on the rows idx (each with weight w[row] > 0). `edges[f]` maps a numeric bin to its real
  * threshold; `random` draws the features tried at each split.
@@ -97,6 +90,8 @@ export function growTree(
   for (let f = 0; f < p; f++) order[f] = f;
   const best: SplitCandidate = emptyCandidate();
   const leftTotal = new Float64Array(channels);
+  const rightTotal = new Float64Array(channels);
+  const total = new Float64Array(channels);
   let majority = 0;
   const levelKey =
     target.kind === 'values'
@@ -107,13 +102,25 @@ export function growTree(
           return s > 0 ? ch[o + majority] / s : 0;
         };
 
-  const rootTotal = new Float64Array(channels);
-  sumRows(target, w, idx, 0, idx.length, rootTotal);
-  const stack: PendingNode[] = [{ id: nodes.add(), start: 0, end: idx.length, depth: 0, total: rootTotal }];
+  // Features are drawn without replacement until featuresPerSplit of them vary in the node.
+  const draw = (j: number): number => {
+    const r = j + Math.floor(random() * (p - j));
+    const f = order[r];
+    order[r] = order[j];
+    order[j] = f;
+    return f;
+  };
 
-  while (stack.length > 0) {
-    const node = stack.pop()!;
-    const { id, start, end, depth, total } = node;
+  sumRows(target, w, idx, 0, idx.length, total);
+  const stack = new NodeStack(channels);
+  stack.push(nodes.add(), 0, idx.length, 0, total);
+
+  while (stack.size > 0) {
+    const id = stack.topId();
+    const start = stack.topStart();
+    const end = stack.topEnd();
+    const depth = stack.topDepth();
+    stack.pop(total);
     const count = end - start;
     writeValue(nodes, id, total, target.kind, outputs);
     let leaf = count < settings.minSplit || count < 2 * settings.minLeaf || depth >= settings.maxDepth || isPure(target, idx, start, end, total);
@@ -124,14 +131,6 @@ export function growTree(
         // Binary and multi-class targets order levels by the share of the node's most common class.
         majority = target.classes === 2 ? 1 : argmax(total);
       }
-      // Features are drawn without replacement until featuresPerSplit of them vary in the node.
-      const draw = (j: number): number => {
-        const r = j + Math.floor(random() * (p - j));
-        const f = order[r];
-        order[r] = order[j];
-        order[j] = f;
-        return f;
-      };
       let tried = 0;
       let j = 0;
       for (; j < first && j < p; j++) drawn[j] = draw(j);
@@ -162,9 +161,9 @@ export function growTree(
 
     const f = best.feature;
     const mid = partition(bins, p, f, data.valueBins[f], best, idx, start, end);
-    sumRows(target, w, idx, start, mid, leftTotal);
-    const lt = leftTotal.slice();
-    const rt = new Float64Array(channels);
+    const lt = leftTotal;
+    const rt = rightTotal;
+    sumRows(target, w, idx, start, mid, lt);
     sumRows(target, w, idx, mid, end, rt);
     impurityDecrease[f] += best.score - score(total, 0, channels);
     nodes.feature[id] = f;
@@ -184,8 +183,8 @@ export function growTree(
     const r = nodes.add();
     nodes.left[id] = l;
     nodes.right[id] = r;
-    stack.push({ id: r, start: mid, end, depth: depth + 1, total: rt });
-    stack.push({ id: l, start, end: mid, depth: depth + 1, total: lt });
+    stack.push(r, mid, end, depth + 1, rt);
+    stack.push(l, start, mid, depth + 1, lt);
   }
   const tree = nodes.finish();
   return { tree, splitBin: nodes.splitBin.slice(0, tree.nodeCount), impurityDecrease };
@@ -266,14 +265,11 @@ function middleEdge(edges: readonly number[], centres: readonly number[], lo: nu
 function partition(bins: Uint8Array, p: number, f: number, missingCode: number, split: SplitCandidate, idx: Int32Array, start: number, end: number): number {
   let i = start;
   let j = end - 1;
-  const goesLeft = (r: number): boolean => {
-    const b = bins[r * p + f];
-    if (b === missingCode) return split.missingLeft;
-    if (split.categorical) return (split.levelSet[b >>> 5] & (1 << (b & 31))) !== 0;
-    return b <= split.bin;
-  };
+  const { missingLeft, categorical, levelSet, bin } = split;
   while (i <= j) {
-    if (goesLeft(idx[i])) i++;
+    const b = bins[idx[i] * p + f];
+    const left = b === missingCode ? missingLeft : categorical ? (levelSet[b >>> 5] & (1 << (b & 31))) !== 0 : b <= bin;
+    if (left) i++;
     else {
       const t = idx[i];
       idx[i] = idx[j];
