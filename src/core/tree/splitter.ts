@@ -140,7 +140,8 @@ export class Histogram {
     }
     this.orderCount = m;
     if (gini && missingCount === 0) {
-      this.scanGini(f, m, categorical, total, totalCount, minLeaf, best);
+      if (channels === 2 || channels === 3) this.scanGiniFew(f, m, categorical, total, totalCount, minLeaf, best);
+      else this.scanGini(f, m, categorical, total, totalCount, minLeaf, best);
       return true;
     }
     const mo = valueBins * channels;
@@ -209,6 +210,69 @@ export class Histogram {
         right[k] = r - c;
         wl += c;
         wr -= c;
+      }
+      leftCount += cnt[b];
+      if (leftCount < minLeaf || totalCount - leftCount < minLeaf) continue;
+      const s = sql / wl + sqr / wr;
+      if (s > best.score) this.record(best, s, f, i, b, false, categorical, false);
+    }
+  }
+
+  /**
+   * scanGini for two or three classes with the running sums in locals instead of arrays: the same operations on
+   * the same values in the same order (so the same scores to the last bit), in fewer loads, stores and checks.
+   */
+  private scanGiniFew(f: number, m: number, categorical: boolean, total: Float64Array, totalCount: number, minLeaf: number, best: SplitCandidate): void {
+    const { ch, cnt, channels, order } = this;
+    const three = channels === 3;
+    let l0 = 0;
+    let l1 = 0;
+    let l2 = 0;
+    let r0 = total[0];
+    let r1 = total[1];
+    let r2 = three ? total[2] : 0;
+    let wl = 0;
+    let wr = r0;
+    let sql = 0;
+    let sqr = r0 * r0;
+    wr += r1;
+    sqr += r1 * r1;
+    if (three) {
+      wr += r2;
+      sqr += r2 * r2;
+    }
+    let leftCount = 0;
+    for (let i = 0; i < m - 1; i++) {
+      const b = order[i];
+      const o = b * channels;
+      let c = ch[o];
+      if (c !== 0) {
+        sql += c * (2 * l0 + c);
+        sqr += c * (c - 2 * r0);
+        l0 += c;
+        r0 -= c;
+        wl += c;
+        wr -= c;
+      }
+      c = ch[o + 1];
+      if (c !== 0) {
+        sql += c * (2 * l1 + c);
+        sqr += c * (c - 2 * r1);
+        l1 += c;
+        r1 -= c;
+        wl += c;
+        wr -= c;
+      }
+      if (three) {
+        c = ch[o + 2];
+        if (c !== 0) {
+          sql += c * (2 * l2 + c);
+          sqr += c * (c - 2 * r2);
+          l2 += c;
+          r2 -= c;
+          wl += c;
+          wr -= c;
+        }
       }
       leftCount += cnt[b];
       if (leftCount < minLeaf || totalCount - leftCount < minLeaf) continue;
