@@ -101,13 +101,21 @@ export async function writePredictions(input: string, out: string, delimiter: st
   try {
     const parser = createReadStream(input).pipe(parse({ ...parserOptions(delimiter), raw: true }));
     let k = -1;
+    // Lines go out in batches: one stream write per line cost more than building the line.
+    let batch = '';
+    const flush = async () => {
+      const full = !sink.write(batch);
+      batch = '';
+      if (full) await new Promise<void>((resolve) => sink.once('drain', () => resolve()));
+    };
     for await (const { raw } of parser as AsyncIterable<{ raw: string }>) {
       const r = k < 0 ? -1 : rowOfRecord(k);
       const cells = k < 0 ? added.names : r < 0 ? added.names.map(() => '') : added.cells(r);
       k++;
-      const line = recordText(raw) + delimiter + cells.map((c) => csvField(c, delimiter)).join(delimiter) + eol;
-      if (!sink.write(line)) await new Promise<void>((resolve) => sink.once('drain', () => resolve()));
+      batch += recordText(raw) + delimiter + cells.map((c) => csvField(c, delimiter)).join(delimiter) + eol;
+      if (batch.length >= 1 << 16) await flush();
     }
+    if (batch.length > 0) await flush();
     await new Promise<void>((resolve, reject) => sink.end((e?: Error | null) => (e ? reject(e) : resolve())));
     await fs.rename(tmp, out);
   } catch (e) {
