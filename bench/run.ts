@@ -5,6 +5,11 @@
 //   --trees N        default 100      --workers N  default 2      --seed N  default 1
 //   --sides LIST     comma list of copse, sklearn, ranger (default all that are installed)
 //   --keep           keep the generated data and models (printed path)
+//   --repeat N       side-by-side runs behind each min / median / max ratio, default 3
+//   --score-rows N   rows of the whole-process scoring case, default 100000
+//   --cost-rows LIST rows of the cost table, default 10000,100000,1000000 ("" leaves the rows sweep out)
+//   --cost-trees LIST trees of the cost table, default 50,100,500, at --cost-tree-rows rows (default 20000)
+//   --skip-ratios    the first table only
 // Prints a table; also writes the raw figures as JSON next to the data and to out/bench/last-run.json.
 import { mkdirSync, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
@@ -12,6 +17,7 @@ import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { FEATURES, TARGET, threeClassGenerator } from './data';
 import { copseSide, rangerSide, sklearnSide, type LargeResult, type Settings, type Side, type SmallResult } from './sides';
+import { ratioRuns } from './ratio-runs';
 import { renderTable, type Row } from './table';
 
 const SMALL_ROWS = 20_000;
@@ -28,6 +34,12 @@ async function main(): Promise<void> {
       seed: { type: 'string', default: '1' },
       sides: { type: 'string', default: 'copse,sklearn,ranger' },
       keep: { type: 'boolean', default: false },
+      repeat: { type: 'string', default: '3' },
+      'score-rows': { type: 'string', default: '100000' },
+      'cost-rows': { type: 'string', default: '10000,100000,1000000' },
+      'cost-trees': { type: 'string', default: '50,100,500' },
+      'cost-tree-rows': { type: 'string', default: '20000' },
+      'skip-ratios': { type: 'boolean', default: false },
     },
   });
   const largeRows = Number(values['large-rows']);
@@ -127,6 +139,23 @@ async function main(): Promise<void> {
     const notes = sides.flatMap((x) => [...(s(x)?.notes ?? []), ...(l(x)?.notes ?? [])].map((n) => `${x.name}: ${n}`));
     if (notes.length > 0) console.log('\n' + notes.join('\n'));
     console.log('\nLoad times: Copse seconds.load (parse and type the CSV), scikit-learn pandas.read_csv, ranger data.table::fread.');
+
+    if (!values['skip-ratios']) {
+      const list = (text: string | undefined) => String(text ?? '').split(',').filter((t) => t.trim() !== '').map(Number);
+      await ratioRuns({
+        repoRoot,
+        dir,
+        settings,
+        repeat: Number(values.repeat),
+        sides: new Set(sides.map((x) => (x.name === 'Copse' ? 'copse' : x.name === 'scikit-learn' ? 'sklearn' : 'ranger'))),
+        train: files.train,
+        test: files.test,
+        scoreRows: Number(values['score-rows']),
+        costRows: list(values['cost-rows']),
+        costTrees: list(values['cost-trees']),
+        costTreeRows: Number(values['cost-tree-rows']),
+      });
+    }
 
     const raw = {
       settings,

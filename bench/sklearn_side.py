@@ -30,6 +30,7 @@ def main():
     ap.add_argument("--seed", type=int, default=1)
     ap.add_argument("--test")
     ap.add_argument("--predict")
+    ap.add_argument("--save-model")
     a = ap.parse_args()
 
     result = {"implementation": "scikit-learn", "version": sklearn.__version__, "seconds": {}}
@@ -70,6 +71,12 @@ def main():
         result["predictRows"] = int(len(frame))
         if a.target in frame:
             result["predictAccuracy"] = float(np.mean(pred == frame[a.target].to_numpy()))
+
+    if a.save_model:
+        # For the whole-process scoring case (bench/sklearn_score.py), which starts by unpickling it.
+        import pickle
+        with open(a.save_model, "wb") as f:
+            pickle.dump(forest, f, protocol=pickle.HIGHEST_PROTOCOL)
 
     json.dump(result, sys.stdout)
     sys.stdout.write("\n")

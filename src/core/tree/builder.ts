@@ -3,8 +3,9 @@
 import type { Criterion } from '../base/task';
 import type { BinnedMatrix } from '../data/binning';
 import { sideScore } from './criterion';
-import { emptyCandidate, Histogram, type SplitCandidate } from './splitter';
+import { emptyCandidate, HistogramSet, type SplitCandidate } from './splitter';
 import { GrowableTree } from './growable';
+import { NodeStack } from './node-stack';
 import type { FlatTree } from './tree';
 
 export type TargetData =
@@ -57,14 +58,6 @@ class NodeArrays extends GrowableTree {
   }
 }
 
-interface PendingNode {
-  id: number;
-  start: number;
-  end: number;
-  depth: number;
-  total: Float64Array;
-}
-
 /**
  * Grows a tree on the rows idx (each with weight w[row] > 0). `edges[f]` maps a numeric bin to its real
  * threshold; `random` draws the features tried at each split.
@@ -87,13 +80,18 @@ export function growTree(
   const outputs = target.kind === 'classes' ? target.classes : 1;
   const score = sideScore(settings.criterion);
   const gini = settings.criterion === 'gini';
-  const hist = new Histogram(channels);
+  // The first `first` draws happen at every node whatever the scans find, so their histograms fill in one pass.
+  const first = Math.max(1, Math.min(settings.featuresPerSplit, p));
+  const hists = new HistogramSet(channels, first);
+  const drawn = new Int32Array(first);
   const nodes = new NodeArrays(outputs);
   const impurityDecrease = new Float64Array(p);
   const order = new Int32Array(p);
   for (let f = 0; f < p; f++) order[f] = f;
   const best: SplitCandidate = emptyCandidate();
   const leftTotal = new Float64Array(channels);
+  const rightTotal = new Float64Array(channels);
+  const total = new Float64Array(channels);
   let majority = 0;
   const levelKey =
     target.kind === 'values'
@@ -104,13 +102,25 @@ export function growTree(
           return s > 0 ? ch[o + majority] / s : 0;
         };
 
-  const rootTotal = new Float64Array(channels);
-  sumRows(target, w, idx, 0, idx.length, rootTotal);
-  const stack: PendingNode[] = [{ id: nodes.add(), start: 0, end: idx.length, depth: 0, total: rootTotal }];
+  // Features are drawn without replacement until featuresPerSplit of them vary in the node.
+  const draw = (j: number): number => {
+    const r = j + Math.floor(random() * (p - j));
+    const f = order[r];
+    order[r] = order[j];
+    order[j] = f;
+    return f;
+  };
 
-  while (stack.length > 0) {
-    const node = stack.pop()!;
-    const { id, start, end, depth, total } = node;
+  sumRows(target, w, idx, 0, idx.length, total);
+  const stack = new NodeStack(channels);
+  stack.push(nodes.add(), 0, idx.length, 0, total);
+
+  while (stack.size > 0) {
+    const id = stack.topId();
+    const start = stack.topStart();
+    const end = stack.topEnd();
+    const depth = stack.topDepth();
+    stack.pop(total);
     const count = end - start;
     writeValue(nodes, id, total, target.kind, outputs);
     let leaf = count < settings.minSplit || count < 2 * settings.minLeaf || depth >= settings.maxDepth || isPure(target, idx, start, end, total);
@@ -122,15 +132,25 @@ export function growTree(
         majority = target.classes === 2 ? 1 : argmax(total);
       }
       let tried = 0;
-      for (let j = 0; j < p && tried < settings.featuresPerSplit; j++) {
-        const r = j + Math.floor(random() * (p - j));
-        const f = order[r];
-        order[r] = order[j];
-        order[j] = f;
-        if (target.kind === 'classes') hist.addClasses(bins, p, f, idx, start, end, target.y, w);
-        else hist.addValues(bins, p, f, idx, start, end, target.y, w);
-        if (hist.scan(f, data.valueBins[f], data.categorical[f] === 1, total, count, settings.minLeaf, score, levelKey, best, gini)) tried++;
-        hist.clear();
+      let j = 0;
+      for (; j < first && j < p; j++) drawn[j] = draw(j);
+      if (target.kind === 'classes') hists.addClasses(bins, p, drawn, j, idx, start, end, target.y, w);
+      else hists.addValues(bins, p, drawn, j, idx, start, end, target.y, w);
+      for (let i = 0; i < j; i++) {
+        const f = drawn[i];
+        const h = hists.lanes[i];
+        if (h.scan(f, data.valueBins[f], data.categorical[f] === 1, total, count, settings.minLeaf, score, levelKey, best, gini)) tried++;
+        h.clear();
+      }
+      // A feature constant in the node does not count; each further one is drawn and filled on its own.
+      for (; j < p && tried < settings.featuresPerSplit; j++) {
+        drawn[0] = draw(j);
+        const f = drawn[0];
+        if (target.kind === 'classes') hists.addClasses(bins, p, drawn, 1, idx, start, end, target.y, w);
+        else hists.addValues(bins, p, drawn, 1, idx, start, end, target.y, w);
+        const h = hists.lanes[0];
+        if (h.scan(f, data.valueBins[f], data.categorical[f] === 1, total, count, settings.minLeaf, score, levelKey, best, gini)) tried++;
+        h.clear();
       }
       if (best.feature < 0) leaf = true;
     }
@@ -141,9 +161,9 @@ export function growTree(
 
     const f = best.feature;
     const mid = partition(bins, p, f, data.valueBins[f], best, idx, start, end);
-    sumRows(target, w, idx, start, mid, leftTotal);
-    const lt = leftTotal.slice();
-    const rt = new Float64Array(channels);
+    const lt = leftTotal;
+    const rt = rightTotal;
+    sumRows(target, w, idx, start, mid, lt);
     sumRows(target, w, idx, mid, end, rt);
     impurityDecrease[f] += best.score - score(total, 0, channels);
     nodes.feature[id] = f;
@@ -163,8 +183,8 @@ export function growTree(
     const r = nodes.add();
     nodes.left[id] = l;
     nodes.right[id] = r;
-    stack.push({ id: r, start: mid, end, depth: depth + 1, total: rt });
-    stack.push({ id: l, start, end: mid, depth: depth + 1, total: lt });
+    stack.push(r, mid, end, depth + 1, rt);
+    stack.push(l, start, mid, depth + 1, lt);
   }
   const tree = nodes.finish();
   return { tree, splitBin: nodes.splitBin.slice(0, tree.nodeCount), impurityDecrease };
@@ -245,14 +265,11 @@ function middleEdge(edges: readonly number[], centres: readonly number[], lo: nu
 function partition(bins: Uint8Array, p: number, f: number, missingCode: number, split: SplitCandidate, idx: Int32Array, start: number, end: number): number {
   let i = start;
   let j = end - 1;
-  const goesLeft = (r: number): boolean => {
-    const b = bins[r * p + f];
-    if (b === missingCode) return split.missingLeft;
-    if (split.categorical) return (split.levelSet[b >>> 5] & (1 << (b & 31))) !== 0;
-    return b <= split.bin;
-  };
+  const { missingLeft, categorical, levelSet, bin } = split;
   while (i <= j) {
-    if (goesLeft(idx[i])) i++;
+    const b = bins[idx[i] * p + f];
+    const left = b === missingCode ? missingLeft : categorical ? (levelSet[b >>> 5] & (1 << (b & 31))) !== 0 : b <= bin;
+    if (left) i++;
     else {
       const t = idx[i];
       idx[i] = idx[j];
