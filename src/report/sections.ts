@@ -5,6 +5,8 @@ import type { FitSummary, ScoresSummary } from '../core/summary/types';
 import { esc } from './escape';
 import type { ReportData } from './types';
 
+const MODEL_KINDS = { onnx: 'imported ONNX tree ensemble', xgboost: 'imported XGBoost model', copse: 'saved Copse forest' } as const;
+
 /** Classes shown in the confusion table; a target with more shows its largest ones. */
 const CONFUSION_CLASSES = 12;
 /** Doubtful rows listed; the count of all is always given. */
@@ -44,7 +46,7 @@ export function fittedSection(d: ReportData): string {
   const scored = s.scoredRows ? `, ${formatCount(s.scoredRows)} scored ${s.testFrom === 'holdout' ? 'held out' : s.testFrom === 'test' ? 'from the test file' : 'from this file'}` : '';
   let facts = fact('Data file', `<span class="mono">${esc(d.file.name)}</span>${size}`);
   if (s.data.fingerprint) facts += fact('Fingerprint', `<span class="mono">${esc(s.data.fingerprint)}</span>`);
-  if (d.model) facts += fact('Model', `<span class="mono">${esc(d.model.file)}</span> (${d.model.kind === 'onnx' ? 'imported ONNX tree ensemble' : 'saved Copse forest'})`);
+  if (d.model) facts += fact('Model', `<span class="mono">${esc(d.model.file)}</span> (${MODEL_KINDS[d.model.kind]})`);
   facts += fact('Predicting', `<strong>${esc(s.target)}</strong> (${taskText})`);
   facts += fact('Rows', `${rows}${scored}, of ${formatCount(s.data.rowsRead)} read${s.data.sampled ? ' (a random sample of the file)' : ''}`);
   // An import without Copse's record of its fit has no seed of its own; the default one would mislead.

@@ -37,7 +37,7 @@ export interface ReportData {
   /** The data file as the user named it, and its size in bytes when known. */
   readonly file: { readonly name: string; readonly bytes: number | null };
   /** A saved or imported model the report is about, when it was opened rather than fitted. */
-  readonly model?: { readonly file: string; readonly kind: 'copse' | 'onnx' };
+  readonly model?: { readonly file: string; readonly kind: 'copse' | 'onnx' | 'xgboost' };
   readonly version: string;
   /** The one line allowed to differ between two reports of the same fit. */
   readonly date: string;

@@ -69,7 +69,7 @@ export interface SessionInit {
   /** Set for a forest imported without its training sample: the model file's name, for hovers. */
   readonly importedFrom?: string;
   /** The model file a forest was opened from, for the shareable report. */
-  readonly model?: { readonly file: string; readonly kind: 'copse' | 'onnx' };
+  readonly model?: { readonly file: string; readonly kind: 'copse' | 'onnx' | 'xgboost' };
   /** Regression: the interval level to prepare for every row at once. */
   readonly intervalLevel?: number;
 }
