@@ -257,6 +257,11 @@ export class ForestSession {
   }
 
   /** The most doubtful training rows first (core's doubtful.ts), at most `limit`. */
+  /** Whether the out-of-bag trees doubt this row's label (it is among the doubtful rows). */
+  isDoubtful(dataRow: number): boolean {
+    return this.suspectByRow.has(dataRow);
+  }
+
   suspects(limit: number): SuspectRow[] {
     return this.suspectList.slice(0, limit);
   }
