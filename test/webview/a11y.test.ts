@@ -117,6 +117,25 @@ describe('panel accessibility audit (axe-core)', function () {
     }
   });
 
+  it('puts the curve and the importance charts into words, with their tables', async () => {
+    const p = await PanelPage.open('light');
+    try {
+      await p.send(...FULL_CLASSIFICATION());
+      const summary = classificationSummary();
+      const curve = await p.page.locator('[data-testid=oob-curve-text] .picture-summary').innerText();
+      const last = summary.curve.length;
+      assert.match(curve, new RegExp(`^Out-of-bag error from .+ with \\d+ trees to .+ with ${last}\\.$`));
+      const importance = await p.page.locator('[data-testid=importance-text] .picture-summary').innerText();
+      const byPerm = [...summary.importance].sort((a, b) => (b.permutation ?? -Infinity) - (a.permutation ?? -Infinity));
+      assert.ok(importance.includes(`leans most on ${byPerm[0].feature}`), importance);
+      assert.equal(await p.page.locator('[data-testid=importance-text] tbody tr').count(), summary.importance.length, 'one row per feature');
+      const canvas = p.page.locator('[data-testid=importance] canvas').first();
+      assert.equal(await canvas.getAttribute('role'), 'img');
+    } finally {
+      await p.close();
+    }
+  });
+
   it('reaches the map pickers with Tab in reading order, each with a visible focus ring', async () => {
     // The high-contrast focus colour (#f38518) is what the ring must be drawn in.
     const p = await PanelPage.open('high-contrast');
