@@ -21,10 +21,11 @@ export function registerShowRowVotes(host: Host): vscode.Disposable {
   });
 }
 
-/** The data row under the cursor, when the active editor shows the fitted file. */
+/** The data row (as the panel and hovers number it) under the cursor, when the active editor shows the fitted file. */
 function rowAtCursor(host: Host): number | undefined {
   const editor = vscode.window.activeTextEditor;
   const session = host.ctx.session;
   if (!editor || !session || editor.document.uri.scheme !== 'file' || !samePath(editor.document.uri.fsPath, session.source.path)) return undefined;
-  return session.rowAtLine(editor.selection.active.line + 1, lineReader(editor.document));
+  const tableRow = session.rowAtLine(editor.selection.active.line + 1, lineReader(editor.document));
+  return tableRow === undefined ? undefined : session.numbering.dataRow(tableRow);
 }

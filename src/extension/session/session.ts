@@ -257,9 +257,9 @@ export class ForestSession {
   }
 
   /** The most doubtful training rows first (core's doubtful.ts), at most `limit`. */
-  /** Whether the out-of-bag trees doubt this row's label (it is among the doubtful rows). */
-  isDoubtful(dataRow: number): boolean {
-    return this.suspectByRow.has(dataRow);
+  /** Whether the out-of-bag trees doubt the label of this table row (as rowAtLine gives it). */
+  isDoubtful(tableRow: number): boolean {
+    return this.suspectByRow.has(this.numbering.dataRow(tableRow));
   }
 
   suspects(limit: number): SuspectRow[] {
