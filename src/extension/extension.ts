@@ -4,6 +4,7 @@ import * as vscode from 'vscode';
 import { registerExportOnnx } from './commands/exportOnnx';
 import { registerFit } from './commands/fit';
 import type { Host } from './commands/host';
+import { registerOpenDemo } from './commands/openDemo';
 import { registerOpenModel } from './commands/openModel';
 import { registerPredictToFile } from './commands/predictToFile';
 import { registerRevealRow, revealRow } from './commands/revealRow';
@@ -54,12 +55,18 @@ export function activate(extension: vscode.ExtensionContext): { readonly context
   ctx.track(registerShowPanel(host));
   ctx.track(registerRevealRow(host));
   ctx.track(registerShowRowVotes(host));
+  ctx.track(registerOpenDemo(host));
   registerStatusBar(ctx);
 
   const docs = ctx.track(new CsvDocuments(ctx));
   ctx.track(registerHover(ctx, docs));
   ctx.track(new RowMarks(ctx, docs, panel));
   ctx.log.info(`Copse ${(extension.extension.packageJSON as { version?: string }).version ?? ''} ready.`);
+  // package.json's capabilities say what Restricted Mode changes; the log says when it applies.
+  if (!vscode.workspace.isTrusted) {
+    ctx.log.info('Restricted Mode: this folder\'s own settings for trees, worker threads, sample sizes and panel detail are ignored; user settings apply.');
+    ctx.track(vscode.workspace.onDidGrantWorkspaceTrust(() => ctx.log.info('The folder is trusted now: its Copse settings apply from the next fit.')));
+  }
   return { context: ctx };
 }
 

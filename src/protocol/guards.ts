@@ -120,8 +120,15 @@ export function isRegionMap(v: unknown): v is RegionMap {
     cellsOk &&
     isReferenceUsed(v.reference) &&
     isArr(v.heldAt, (h) => isObj(h) && isStr(h.feature) && isStr(h.value)) &&
-    (v.points === null || isPoints(v.points))
+    (v.points === null || isPoints(v.points)) &&
+    (v.text === undefined || isRegionText(v.text))
   );
+}
+
+function isRegionText(v: unknown): boolean {
+  if (!isObj(v) || !isStr(v.sentence) || !isObj(v.table)) return false;
+  const t = v.table;
+  return isStr(t.corner) && isArr(t.columns, isStr) && isArr(t.rows, (r) => isObj(r) && isStr(r.head) && isArr(r.cells, isStr));
 }
 
 function isInterval(v: unknown): v is PredictionInterval {

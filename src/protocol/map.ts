@@ -3,6 +3,9 @@
 // the lowest y (drawn at the bottom). See cellCentre for where each cell is evaluated.
 
 import type { MapAxis, RegionCells } from '../core/explain/grid-axis';
+import type { RegionText } from '../core/explain/region-text';
+
+export type { RegionText } from '../core/explain/region-text';
 
 export { axisSpan, cellCentre, type LevelAxis, type MapAxis, type NumericAxis, type RegionCells } from '../core/explain/grid-axis';
 
@@ -39,4 +42,6 @@ export interface RegionMap {
   /** The values the other features were held at (for 'typical' and 'row'), as text to show. */
   heldAt: { feature: string; value: string }[];
   points: PointSample | null;
+  /** The map in words and a coarse table, for screen readers (core's describeRegions); absent from older saved panels. */
+  text?: RegionText;
 }

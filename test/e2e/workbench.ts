@@ -35,6 +35,8 @@ export interface WorkbenchOptions {
   viewport?: { width: number; height: number };
   /** Keep code-server's temporary user-data and extensions folders (COPSE_E2E_KEEP=1 does too). */
   keepTemp?: boolean;
+  /** Open the folder untrusted, in Restricted Mode (workspace trust on, no prompt). */
+  restricted?: boolean;
 }
 
 export interface Timings {
@@ -66,7 +68,10 @@ export class Workbench {
     const artifacts = artifactsDir(options.name);
     const server = await startCodeServer({
       folder: options.folder,
-      settings: options.settings,
+      settings: options.restricted
+        ? { ...options.settings, 'security.workspace.trust.enabled': true, 'security.workspace.trust.startupPrompt': 'never', 'security.workspace.trust.untrustedFiles': 'open' }
+        : options.settings,
+      restricted: options.restricted,
       vsix: options.vsix,
       logFile: path.join(artifacts, 'code-server.log'),
       keepTemp: options.keepTemp ?? process.env.COPSE_E2E_KEEP === '1',

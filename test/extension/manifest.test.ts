@@ -15,7 +15,12 @@ interface Manifest {
     commands: Array<{ command: string; title: string; category: string }>;
     menus: Record<string, Array<{ command: string; when: string }>>;
     colors: Array<{ id: string }>;
+    keybindings: Array<{ command: string; key: string; mac: string; when: string }>;
+    walkthroughs: Array<{ steps: Array<{ id: string; description: string; media: { markdown: string }; completionEvents: string[] }> }>;
+    configuration: { properties: Record<string, unknown> };
   };
+  capabilities: { untrustedWorkspaces: { supported: string; description: string; restrictedConfigurations: string[] }; virtualWorkspaces: { supported: boolean } };
+  extensionKind: string[];
 }
 const pkg = JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8')) as Manifest;
 const contributed = pkg.contributes.commands;
@@ -45,7 +50,9 @@ describe('extension manifest', () => {
 
   it('hides the internal commands from the palette and every menu refers to a declared command', () => {
     const palette = pkg.contributes.menus.commandPalette;
-    for (const id of [COMMANDS.revealRow, COMMANDS.showRowVotes]) assert.equal(palette.find((p) => p.command === id)?.when, 'false');
+    assert.equal(palette.find((p) => p.command === COMMANDS.revealRow)?.when, 'false');
+    // Without a row it takes the row under the cursor, so the palette offers it once there is a forest.
+    assert.equal(palette.find((p) => p.command === COMMANDS.showRowVotes)?.when, 'copse.hasForest');
     const ids = new Set(contributed.map((c) => c.command));
     for (const items of Object.values(pkg.contributes.menus)) for (const i of items) assert.ok(ids.has(i.command), i.command);
   });
@@ -62,5 +69,35 @@ describe('extension manifest', () => {
     const used = [...src.matchAll(/ThemeColor\('([^']+)'\)/g)].map((m) => m[1]);
     assert.ok(used.length >= 1);
     for (const u of used) assert.ok(ids.includes(u), u);
+  });
+
+  it('declares Restricted Mode as limited to settings that exist, runs beside the files, and no virtual workspaces', () => {
+    const trust = pkg.capabilities.untrustedWorkspaces;
+    assert.equal(trust.supported, 'limited');
+    assert.ok(trust.description.length > 80);
+    for (const key of trust.restrictedConfigurations) assert.ok(key in pkg.contributes.configuration.properties, key);
+    assert.ok(trust.restrictedConfigurations.includes('copse.training.workers') && trust.restrictedConfigurations.includes('copse.training.trees'));
+    assert.equal(pkg.capabilities.virtualWorkspaces.supported, false);
+    assert.deepEqual(pkg.extensionKind, ['workspace']);
+  });
+
+  it('binds keys only to declared commands, in CSV editors, and ships every walkthrough file', () => {
+    const ids = new Set(contributed.map((c) => c.command));
+    for (const k of pkg.contributes.keybindings) {
+      assert.ok(ids.has(k.command), k.command);
+      assert.match(k.when, /editorTextFocus/);
+      assert.match(k.when, /resourceExtname/);
+      assert.ok(k.mac.startsWith('cmd+'), 'macOS uses Cmd where others use Ctrl');
+    }
+    const ignore = fs.readFileSync(path.join(root, '.vscodeignore'), 'utf8');
+    assert.match(ignore, /^!demo\/kite-flights\.csv$/m, 'the demo data the first step opens is packaged');
+    assert.match(ignore, /^!walkthrough\/\*\.md$/m);
+    const steps = pkg.contributes.walkthroughs[0].steps;
+    assert.equal(steps.length, 4);
+    for (const st of steps) {
+      assert.ok(fs.existsSync(path.join(root, st.media.markdown)), st.media.markdown);
+      assert.ok(st.completionEvents.length > 0, st.id);
+      for (const m of st.description.matchAll(/\(command:([\w.]+)\)/g)) assert.ok(ids.has(m[1]), m[1]);
+    }
   });
 });

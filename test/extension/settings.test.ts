@@ -5,7 +5,17 @@ import * as path from 'node:path';
 import { forestParamsFrom, readSettings, SETTING_DEFAULTS, type ConfigSource } from '../../src/extension/settings';
 
 const root = path.resolve(__dirname, '..', '..', '..');
-type Property = { default: unknown; markdownDescription?: string; description?: string };
+type Property = {
+  default: unknown;
+  type?: string;
+  markdownDescription?: string;
+  description?: string;
+  minimum?: number;
+  maximum?: number;
+  exclusiveMinimum?: number;
+  exclusiveMaximum?: number;
+  enum?: string[];
+};
 const pkg = JSON.parse(fs.readFileSync(path.join(root, 'package.json'), 'utf8')) as { contributes: { configuration: { properties: Record<string, Property> } } };
 const properties = pkg.contributes.configuration.properties;
 
@@ -21,6 +31,27 @@ describe('extension settings', () => {
       const p = properties[`copse.${key}`];
       assert.deepEqual(p.default, value, `default of copse.${key}`);
       assert.ok((p.markdownDescription ?? p.description ?? '').length > 20, `copse.${key} needs a description`);
+    }
+  });
+
+  it('states each setting\'s unit and range in its description, with the bounds package.json enforces', () => {
+    const written = (n: number) => [String(n), n.toLocaleString('en-US')];
+    for (const [key, p] of Object.entries(properties)) {
+      const text = p.markdownDescription ?? p.description ?? '';
+      if (p.type === 'boolean') {
+        assert.match(text, /On or off/, `${key} says it is a switch`);
+        continue;
+      }
+      if (p.enum) {
+        for (const v of p.enum) assert.ok(text.includes(`\`${v}\``), `${key} names its choice ${v}`);
+        continue;
+      }
+      if (p.type === 'number' || p.type === 'integer') {
+        assert.match(text, /Unit: /, `${key} names its unit`);
+        for (const bound of [p.minimum, p.maximum, p.exclusiveMinimum, p.exclusiveMaximum]) {
+          if (bound !== undefined) assert.ok(written(bound).some((w) => text.includes(w)), `${key}'s description states its bound ${bound}: ${text}`);
+        }
+      }
     }
   });
 

@@ -2,6 +2,7 @@
 // draws interesting boundaries; clicking one asks the host for the full-size map of that pair
 // (and the panel scrolls to it).
 import type { FitSummary, RegionMap } from '../../src/protocol/messages';
+import { visuallyHidden } from '../a11y';
 import { append, clear, h } from '../dom';
 import type { Theme } from '../theme';
 import { drawGrid, sizeCanvas } from './canvas';
@@ -56,13 +57,14 @@ export class MapMatrixView {
             type: 'button',
             'data-x': map.x.feature,
             'data-y': map.y.feature,
-            'aria-label': `${map.x.feature} across, ${map.y.feature} up: open as the large map`,
           },
           on: { click: () => this.open(map.x.feature, map.y.feature) },
         },
-        h('span', { class: 'tile-axis y' }, `${map.y.feature} →`),
+        // The name is read from the hidden sentence; the drawn axis titles would read as "a → b →".
+        h('span', { class: 'tile-axis y', attrs: { 'aria-hidden': 'true' } }, `${map.y.feature} →`),
         canvas,
-        h('span', { class: 'tile-axis x' }, `${map.x.feature} →`),
+        h('span', { class: 'tile-axis x', attrs: { 'aria-hidden': 'true' } }, `${map.x.feature} →`),
+        visuallyHidden(`${map.x.feature} across, ${map.y.feature} up: open as the large map. `, map.text?.sentence ?? ''),
       );
       this.root.appendChild(tile);
     }

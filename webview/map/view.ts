@@ -2,6 +2,7 @@
 // canvas (so the grid pixels stay readable for tests and the overlay can be hit-tested), axes and
 // a legend. Scoring happens in the host; this only draws what arrives.
 import { axisSpan, type FitSummary, type ReferenceChoice, type RegionMap } from '../../src/protocol/messages';
+import { nameControl, PictureText } from '../a11y';
 import { append, clear, custom, h } from '../dom';
 import { num, percent } from '../format';
 import type { Theme } from '../theme';
@@ -34,6 +35,7 @@ export class RegionMapView {
   private readonly note: HTMLElement;
   private readonly tip: HTMLElement;
   private readonly empty: HTMLElement;
+  private readonly text: PictureText;
   private summary: FitSummary | null = null;
   private map: RegionMap | null = null;
   private theme: Theme | null = null;
@@ -45,9 +47,9 @@ export class RegionMapView {
   private suggestedRow = 1;
 
   constructor(private readonly cb: MapCallbacks) {
-    this.xSel = custom('vscode-single-select', { testid: 'region-x', attrs: { 'aria-label': 'Feature across' } }) as SelectEl;
-    this.ySel = custom('vscode-single-select', { testid: 'region-y', attrs: { 'aria-label': 'Feature up' } }) as SelectEl;
-    this.refSel = custom('vscode-single-select', { testid: 'region-reference', attrs: { 'aria-label': 'Other features' } }) as SelectEl;
+    this.xSel = nameControl(custom('vscode-single-select', { testid: 'region-x' }), 'Feature across') as SelectEl;
+    this.ySel = nameControl(custom('vscode-single-select', { testid: 'region-y' }), 'Feature up') as SelectEl;
+    this.refSel = nameControl(custom('vscode-single-select', { testid: 'region-reference' }), 'Other features') as SelectEl;
     for (const [value, label] of [
       ['typical', 'Typical values (medians / most frequent)'],
       ['row', 'Taken from one row'],
@@ -58,8 +60,9 @@ export class RegionMapView {
     }
     this.rowField = custom('vscode-textfield', {
       testid: 'region-row',
-      attrs: { type: 'number', min: '1', value: '1', 'aria-label': 'Row number' },
+      attrs: { type: 'number', min: '1', value: '1' },
     }) as HTMLElement & { value: string };
+    nameControl(this.rowField, 'Row number');
     this.rowWrap = h('label', { class: 'inline-field hidden' }, 'row', this.rowField);
 
     this.xSel.addEventListener('change', () => this.onAxisChange('x'));
@@ -73,7 +76,8 @@ export class RegionMapView {
 
     this.frame = h('canvas', { class: 'map-frame', attrs: { 'aria-hidden': 'true' } });
     this.grid = h('canvas', { class: 'map-grid', testid: 'region-map', attrs: { role: 'img' } });
-    this.overlay = h('canvas', { class: 'map-points', testid: 'region-points' });
+    // The points layer repeats the grid for the mouse; assistive technology reads the grid's text instead.
+    this.overlay = h('canvas', { class: 'map-points', testid: 'region-points', attrs: { 'aria-hidden': 'true' } });
     this.tip = h('div', { class: 'map-tip hidden', attrs: { role: 'status' } });
     this.xTitle = h('div', { class: 'axis-title x' });
     this.yTitle = h('div', { class: 'axis-title y' });
@@ -81,6 +85,7 @@ export class RegionMapView {
     this.legend = h('div', { class: 'map-legend', testid: 'region-legend' });
     this.note = h('p', { class: 'map-note muted' });
     this.empty = h('p', { class: 'muted' }, 'The map appears once the host has scored the grid.');
+    this.text = new PictureText('region-text');
 
     this.overlay.addEventListener('mousemove', (ev) => this.onHover(ev));
     this.overlay.addEventListener('mouseleave', () => this.tip.classList.add('hidden'));
@@ -104,8 +109,10 @@ export class RegionMapView {
       this.plot,
       this.legend,
       this.note,
+      this.text.root,
     );
     this.plot.classList.add('hidden');
+    this.text.root.classList.add('hidden');
 
     new ResizeObserver(() => {
       const width = this.root.clientWidth;
@@ -130,6 +137,7 @@ export class RegionMapView {
   /** Forgets the map of an earlier fit, so its feature pair is not kept against the next fit's features. */
   reset(): void {
     this.map = null;
+    this.text.root.classList.add('hidden');
     this.draw();
   }
 
@@ -214,7 +222,13 @@ export class RegionMapView {
     const xs = axisSpan(map.x);
     const ys = axisSpan(map.y);
     this.grid.dataset.grid = JSON.stringify({ nx: map.nx, ny: map.ny, xMin: xs.min, xMax: xs.max, yMin: ys.min, yMax: ys.max });
-    this.grid.setAttribute('aria-label', `Decision regions of ${map.x.feature} against ${map.y.feature}`);
+    this.text.describe(this.grid, `Decision regions: ${map.x.feature} across, ${map.y.feature} up`);
+    this.text.root.classList.toggle('hidden', !map.text);
+    if (map.text) {
+      const t = map.text.table;
+      const what = map.cells.task === 'classification' ? 'the class most cells predict (its share of the cells)' : `the mean predicted ${this.summary.target}`;
+      this.text.set(map.text.sentence, { caption: `Decision regions, coarsened: ${what} per band`, corner: t.corner, columns: t.columns, rows: t.rows });
+    }
     drawGrid(this.grid, map, this.summary.classes.length, theme);
     drawAxes(this.frame, { x: this.xTitle, y: this.yTitle }, map, theme, S, W, H);
     this.placed = placePoints(map, S);

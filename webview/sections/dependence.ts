@@ -5,6 +5,7 @@
 import type { Chart, Plugin } from 'chart.js';
 import type { Dependence, FitSummary } from '../../src/protocol/messages';
 import { applyTheme, replaceChart } from '../charts';
+import { nameControl } from '../a11y';
 import { append, clear, custom, h } from '../dom';
 import { count, num, percent, truncate } from '../format';
 import { css } from '../palette';
@@ -30,8 +31,8 @@ export class DependenceView {
   private dep: Dependence | null = null;
 
   constructor(private readonly choose: (feature: string, output: number | null) => void) {
-    this.featureSel = custom('vscode-single-select', { testid: 'dependence-feature', attrs: { 'aria-label': 'Feature' } }) as SelectEl;
-    this.classSel = custom('vscode-single-select', { testid: 'dependence-class', attrs: { 'aria-label': 'Class' } }) as SelectEl;
+    this.featureSel = nameControl(custom('vscode-single-select', { testid: 'dependence-feature' }), 'Feature') as SelectEl;
+    this.classSel = nameControl(custom('vscode-single-select', { testid: 'dependence-class' }), 'Class') as SelectEl;
     this.classField = h('label', { class: 'field' }, h('span', {}, 'Probability of'), this.classSel);
     this.featureSel.addEventListener('change', () => {
       if (this.featureSel.value && this.featureSel.value !== this.dep?.feature) this.choose(this.featureSel.value, null);

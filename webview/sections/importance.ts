@@ -5,6 +5,7 @@
 // Theme colours, not class colours: a bar here is not about any class.
 import type { FeatureImportance, FitSummary, GlobalContributions } from '../../src/protocol/messages';
 import { applyTheme, replaceChart } from '../charts';
+import { PictureText } from '../a11y';
 import { append, clear, h } from '../dom';
 import { num, percent, permutationDrop, truncate } from '../format';
 import { css } from '../palette';
@@ -33,6 +34,7 @@ export class ImportanceView {
   private readonly note: HTMLElement;
   private readonly permCaption: HTMLElement;
   private readonly boxes: HTMLElement[];
+  private readonly text = new PictureText('importance-text');
   private global: GlobalContributions | null = null;
   private globalText = '';
   private last: { s: FitSummary; theme: Theme } | null = null;
@@ -57,6 +59,7 @@ export class ImportanceView {
         h('figure', { testid: 'importance-contrib' }, this.contribCaption, this.boxes[2], this.contribNote),
       ),
       this.note,
+      this.text.root,
       // The reference below is written from memory (authors, year, journal, article number).
       h(
         'p',
@@ -131,11 +134,20 @@ export class ImportanceView {
     });
 
     this.drawGlobal(shown, labels, tooltipTitle, theme);
+    this.describe(s, order, hasPerm);
 
     clear(this.note);
     if (!hasPerm) append(this.note, `Permutation importance ${s.permutationNote ?? 'was not measured for this forest.'} `);
     if (order.length > shown.length) append(this.note, `${shown.length} of ${order.length} features shown, the most important first. `);
     append(this.note, 'A negative drop means shuffling the feature did not hurt: treat it as no evidence of use.');
+  }
+
+  private describe(s: FitSummary, order: FeatureImportance[], hasPerm: boolean): void {
+    const t = importanceText(s, order, hasPerm, this.global);
+    this.text.set(t.sentence, { caption: 'Feature importance, three measures', corner: 'feature', columns: t.columns, rows: t.rows });
+    this.text.describe(this.impurity, 'Impurity decrease per feature');
+    this.text.describe(this.permutation, 'Permutation drop per feature');
+    this.text.describe(this.contrib, 'Mean absolute contribution per feature');
   }
 
   private drawGlobal(shown: FeatureImportance[], labels: string[], tooltipTitle: (items: Array<{ dataIndex: number }>) => string, theme: Theme): void {
@@ -169,6 +181,20 @@ export class ImportanceView {
         : `Over ${g.rows} of ${g.planned} sampled rows so far…`,
     );
   }
+}
+
+/** The three charts in words: the features in the order the charts show them, and every figure as a table. */
+function importanceText(s: FitSummary, order: FeatureImportance[], hasPerm: boolean, global: GlobalContributions | null): { sentence: string; columns: string[]; rows: Array<{ head: string; cells: string[] }> } {
+  const top = order.slice(0, 3).map((m) => m.feature);
+  const by = hasPerm ? 'permutation drop' : 'impurity decrease';
+  const sentence = top.length === 0 ? 'No feature importance for this forest.' : `By ${by}, the forest leans most on ${top[0]}${top.length > 1 ? `, then ${top.slice(1).join(' and ')}` : ''}.`;
+  const mean = new Map((global?.rows ? global.features : []).map((f) => [f.feature, f.meanAbs]));
+  const columns = ['impurity decrease (share)', hasPerm ? permCaption(s, s.permutationOn ?? 'out-of-bag') : 'permutation drop', 'mean |contribution|'];
+  const rows = order.map((m) => ({
+    head: m.feature,
+    cells: [percent(m.impurity, 1), m.permutation === null ? 'n/a' : `${permutationDrop(s.task, m.permutation)} ± ${permutationDrop(s.task, m.permutationSpread)}`, mean.has(m.feature) ? num(mean.get(m.feature) ?? null) : 'n/a'],
+  }));
+  return { sentence, columns, rows };
 }
 
 function key(m: FeatureImportance, byPerm: boolean): number {

@@ -1,5 +1,6 @@
 // What was fitted and how well it scores: the numbers a practitioner checks before looking at any map.
 import type { ClassificationScoreSummary, FitSummary, RegressionScoreSummary, ScoreSummary } from '../../src/protocol/messages';
+import { nameControl, visuallyHidden } from '../a11y';
 import { append, clear, custom, h } from '../dom';
 import { count, fixed, headline, num, percent } from '../format';
 import { countTint, css } from '../palette';
@@ -59,14 +60,19 @@ export class SummaryView {
     const keep = new Map<string, HTMLElement & { checked: boolean }>();
     const used = h('ul', { class: 'feature-list', testid: 'features-used' });
     for (const f of s.features) {
-      const box = custom('vscode-checkbox', { attrs: { checked: '' }, title: 'Untick to leave this feature out at the next fit' }) as HTMLElement & { checked: boolean };
+      // The name sits inside the checkbox (its slot), so it is the checkbox's label for a screen reader too.
+      const box = custom(
+        'vscode-checkbox',
+        { attrs: { checked: '' }, title: 'Untick to leave this feature out at the next fit' },
+        h('span', { class: 'feature-name' }, f.name),
+      ) as HTMLElement & { checked: boolean };
       box.checked = true;
       keep.set(f.name, box);
-      append(used, h('li', {}, box, h('span', { class: 'feature-name' }, f.name), h('span', { class: 'muted kind' }, ` ${f.kind}`)));
+      append(used, h('li', {}, box, h('span', { class: 'muted kind' }, ` ${f.kind}`)));
     }
     const dropped = h('ul', { class: 'dropped-list', testid: 'features-dropped' });
     for (const d of s.dropped) append(dropped, h('li', {}, h('span', { class: 'feature-name' }, d.name), h('span', { class: 'muted' }, ` — ${d.reason}`)));
-    const trees = custom('vscode-textfield', { attrs: { type: 'number', min: '1', value: String(s.trees), 'aria-label': 'Trees' } }) as HTMLElement & { value: string };
+    const trees = nameControl(custom('vscode-textfield', { attrs: { type: 'number', min: '1', value: String(s.trees) } }), 'Trees for the next fit') as HTMLElement & { value: string };
     const button = custom('vscode-button', { testid: 'refit', on: { click: () => {
       const leaveOut = [...keep].filter(([, b]) => !b.checked).map(([name]) => name);
       const n = Math.floor(Number(trees.value));
@@ -112,7 +118,7 @@ function scoreRows(kind: ScoreSummary['kind']): Array<[string, (s: ScoreSummary)
 function scoreTable(s: FitSummary): HTMLElement {
   const cols: Array<{ title: string; scores: ScoreSummary | null }> = [{ title: 'Out-of-bag', scores: s.oob }];
   if (s.heldOut) cols.push({ title: s.heldOut.from === 'test' ? 'Test file' : 'Held-out rows', scores: s.heldOut.scores });
-  const head = h('tr', {}, h('th', {}, ''), ...cols.map((c) => h('th', { attrs: { scope: 'col' } }, c.title)));
+  const head = h('tr', {}, h('th', { attrs: { scope: 'col' } }, visuallyHidden('Score')), ...cols.map((c) => h('th', { attrs: { scope: 'col' } }, c.title)));
   const body = scoreRows(s.task).map(([name, get], r) =>
     h(
       'tr',

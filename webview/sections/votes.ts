@@ -1,6 +1,7 @@
 // How the individual trees voted on the rows the user selected in the editor. For a classifier, a strip
 // in tree order, so the same tree sits in the same column for every row and shared splits line up; for
 // a regression, each tree's value as a dot on a numeric axis (tree-values.ts).
+import { uniqueId } from '../a11y';
 import { LIMITS, type FitSummary, type RowVotes } from '../../src/protocol/messages';
 import { append, clear, custom, h } from '../dom';
 import { count, fixed, listed, num, percent } from '../format';
@@ -128,6 +129,11 @@ export class VotesView {
         )
       : null;
     const strip = scale ? treeValues(r, scale, theme, summary.target, !summary.oobUnavailable) : this.classStrip(r, say);
+    // The strip's text equivalent is the vote count per class beside it (or, for regression, its own summary).
+    if (counts) {
+      counts.id = uniqueId(`vote-counts-${r.row}`);
+      strip.setAttribute('aria-describedby', counts.id);
+    }
     const block = h('div', { class: missed ? 'vote-row missed' : 'vote-row' }, head, counts, strip);
     block.dataset.row = String(r.row);
     return block;

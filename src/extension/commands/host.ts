@@ -19,4 +19,5 @@ export const COMMANDS = {
   revealRow: 'copse.revealRow',
   showRowVotes: 'copse.showRowVotes',
   saveReport: 'copse.saveReport',
+  openDemo: 'copse.openDemo',
 } as const;

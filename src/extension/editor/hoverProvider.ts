@@ -98,6 +98,8 @@ export function registerHover(ctx: CopseContext, docs: CsvDocuments): vscode.Dis
         const row = resolved.session.rowAtLine(line, read);
         if (row !== undefined) {
           text = resolved.session.hover(row, (dataRow) => commandLink(doc.uri, dataRow));
+          // Completes the walkthrough's "hover a doubtful row" step.
+          if (resolved.session.isDoubtful(row)) void vscode.commands.executeCommand('setContext', 'copse.hoveredDoubtfulRow', true);
         } else {
           const lone = await docs.loneLine(resolved.session, doc, line);
           if (!lone) return undefined;

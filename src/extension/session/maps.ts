@@ -1,6 +1,7 @@
 // Decision-region maps of the active forest: core plans and folds the grid (core/explain/region-grid.ts), the
 // session's scorer scores it in its worker, and this shapes the result for the panel. No `vscode` here.
 
+import { describeRegions } from '../../core/explain/region-text';
 import type { PointSample, ReferenceChoice, RegionMap } from '../../protocol/messages';
 import { cellsFromAverages, GridAccumulator, gridBatches, planAxis, rankFeatures, sampleRows, topPairs, type GridPlan } from '../engine';
 import type { PanelSettings } from '../settings';
@@ -68,7 +69,8 @@ async function scoreMap(s: ForestSession, fx: number, fy: number, reference: Ref
     const e = s.requireExplanations();
     const d = await e.dependence2D(fx, fy, xa.values, ya.values, averageRows);
     const cells = cellsFromAverages(s.task, d.outputs, xa.n * ya.n, d.values);
-    return { x: xa.axis, y: ya.axis, nx: xa.n, ny: ya.n, cells, reference: { mode: 'averaged', sampleRows: d.rows }, heldAt: [] };
+    const grid = { x: xa.axis, y: ya.axis, nx: xa.n, ny: ya.n, cells };
+    return { ...grid, reference: { mode: 'averaged', sampleRows: d.rows }, heldAt: [], text: describeRegions(grid, s.classes) };
   } else {
     base = Float64Array.from(schema.features, (f) => f.reference);
     used = { mode: 'typical' };
@@ -76,7 +78,8 @@ async function scoreMap(s: ForestSession, fx: number, fy: number, reference: Ref
   const plan: GridPlan = { x: xa, y: ya, p, base, baseRows: 1 };
   const acc = new GridAccumulator(s.task, s.classes.length, xa.n * ya.n);
   for (const batch of gridBatches(plan)) acc.add(batch, await s.scorer.predict(batch.x, batch.rows));
-  return { x: xa.axis, y: ya.axis, nx: xa.n, ny: ya.n, cells: acc.finish(), reference: used, heldAt: heldAtText(s, base, fx, fy) };
+  const grid = { x: xa.axis, y: ya.axis, nx: xa.n, ny: ya.n, cells: acc.finish() };
+  return { ...grid, reference: used, heldAt: heldAtText(s, base, fx, fy), text: describeRegions(grid, s.classes) };
 }
 
 function heldAtText(s: ForestSession, base: Float64Array, fx: number, fy: number): RegionMap['heldAt'] {

@@ -257,6 +257,11 @@ export class ForestSession {
   }
 
   /** The most doubtful training rows first (core's doubtful.ts), at most `limit`. */
+  /** Whether the out-of-bag trees doubt the label of this table row (as rowAtLine gives it). */
+  isDoubtful(tableRow: number): boolean {
+    return this.suspectByRow.has(this.numbering.dataRow(tableRow));
+  }
+
   suspects(limit: number): SuspectRow[] {
     return this.suspectList.slice(0, limit);
   }

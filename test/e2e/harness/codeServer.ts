@@ -46,6 +46,11 @@ export interface CodeServerOptions {
   logFile: string;
   /** Keep the temporary user-data and extensions folders after stop() (for debugging). */
   keepTemp?: boolean;
+  /**
+   * Leave workspace trust on (code-server otherwise starts with --disable-workspace-trust), with no start-up
+   * prompt: the folder opens untrusted, in Restricted Mode.
+   */
+  restricted?: boolean;
 }
 
 export interface CodeServer {
@@ -188,7 +193,7 @@ function spawnServer(
     '--bind-addr', `127.0.0.1:${port}`,
     '--disable-telemetry',
     '--disable-update-check',
-    '--disable-workspace-trust',
+    ...(options.restricted ? [] : ['--disable-workspace-trust']),
     '--disable-getting-started-override',
     '--user-data-dir', dirs.userDataDir,
     '--extensions-dir', dirs.extensionsDir,
