@@ -5,7 +5,7 @@
 import type { Dependence, GlobalContributions, RowContributions, SweepSummary } from './explain';
 import type { MapAxis, PointSample, ReferenceChoice, ReferenceUsed, RegionMap } from './map';
 import type { HostToPanel, PanelState, PanelToHost } from './messages';
-import type { PredictionInterval, RowVotes, SuspectRow } from './rows';
+import { ROWS_PAGE_MAX, type PredictionInterval, type RowsTablePage, type RowsTableQuery, type RowsTableRequest, type RowsTableRow, type RowVotes, type SuspectRow } from './rows';
 import type { FitSummary } from './summary';
 
 type Obj = Record<string, unknown>;
@@ -171,6 +171,43 @@ function isSuspect(v: unknown): v is SuspectRow {
   return isObj(v) && isRow(v.row) && isNum(v.score) && isNum(v.label) && isNum(v.oobPredicted);
 }
 
+const SORT_KEYS: readonly unknown[] = ['row', 'label', 'predicted', 'agreement', 'residual', 'margin'];
+
+function isRowsQuery(v: unknown): v is RowsTableQuery {
+  return (
+    isObj(v) &&
+    SORT_KEYS.includes(v.sort) &&
+    typeof v.descending === 'boolean' &&
+    typeof v.doubtfulOnly === 'boolean' &&
+    (v.labelClass === null || (isInt(v.labelClass) && v.labelClass >= 0)) &&
+    typeof v.mismatchOnly === 'boolean'
+  );
+}
+
+function isRowsRequest(v: unknown): v is RowsTableRequest {
+  return isObj(v) && isRowsQuery(v.query) && isInt(v.offset) && v.offset >= 0 && isInt(v.limit) && v.limit >= 0 && v.limit <= ROWS_PAGE_MAX;
+}
+
+function isRowsRow(v: unknown): v is RowsTableRow {
+  return (
+    isObj(v) &&
+    isRow(v.row) &&
+    (v.line === null || isRow(v.line)) &&
+    isNumOrNull(v.label) &&
+    isNumOrNull(v.predicted) &&
+    isNumOrNull(v.agreement) &&
+    isNumOrNull(v.residual) &&
+    isNumOrNull(v.margin) &&
+    typeof v.doubtful === 'boolean'
+  );
+}
+
+function isRowsPage(v: unknown): v is RowsTablePage {
+  if (!isObj(v) || !isInt(v.total) || !isInt(v.offset) || v.offset < 0 || !isArr(v.rows, isRowsRow)) return false;
+  // A page never runs past the view it is cut from, nor past the cap, so the panel can place it blindly.
+  return v.rows.length <= ROWS_PAGE_MAX && v.offset + v.rows.length <= v.total;
+}
+
 function isRowContributions(v: unknown): v is RowContributions {
   return (
     isObj(v) &&
@@ -262,6 +299,10 @@ export function isHostToPanel(v: unknown): v is HostToPanel {
         isNumOrNull(v.progress) &&
         (v.state === 'done' ? isSweepSummary(v.result) : v.result === null || isSweepSummary(v.result))
       );
+    case 'rowsPage':
+      return isRowsQuery(v.query) && isRowsPage(v.page);
+    case 'rowPeek':
+      return isRow(v.row) && (v.votes === null || (isRowVotes(v.votes) && v.votes.row === v.row));
     default:
       return false;
   }
@@ -290,6 +331,13 @@ export function isPanelToHost(v: unknown): v is PanelToHost {
       return true;
     case 'sweepRefit':
       return isInt(v.featuresPerSplit) && (v.featuresPerSplit) >= 1;
+    case 'rowsPage':
+      return isRowsRequest(v.request);
+    case 'peekRow':
+      return isRow(v.row);
+    case 'selectRows':
+      // The host keeps only the first LIMITS.selectedRows; `selected` says how many there were.
+      return isArr(v.rows, isRow) && isInt(v.selected) && v.selected >= v.rows.length;
     default:
       return false;
   }

@@ -23,7 +23,7 @@ export const LIMITS = {
 
 import type { Dependence, GlobalContributions, RowContributions, SweepSummary } from './explain';
 import type { ReferenceChoice, RegionMap } from './map';
-import type { RowVotes, SuspectRow } from './rows';
+import type { RowsTablePage, RowsTableQuery, RowsTableRequest, RowVotes, SuspectRow } from './rows';
 import type { FitSummary } from './summary';
 
 export * from './summary';
@@ -51,7 +51,11 @@ export type HostMessage =
   | { type: 'contributions'; row: number | null; state: 'working' | 'ready' | 'unavailable'; contributions: RowContributions | null; text: string }
   | { type: 'globalContributions'; global: GlobalContributions | null; text: string }
   | { type: 'dependence'; dependence: Dependence }
-  | { type: 'sweep'; state: 'running' | 'done' | 'cancelled' | 'error'; progress: number | null; text: string; result: SweepSummary | null };
+  | { type: 'sweep'; state: 'running' | 'done' | 'cancelled' | 'error'; progress: number | null; text: string; result: SweepSummary | null }
+  /** One page of the rows table, for the query it answers (the panel drops pages of a query it has left). */
+  | { type: 'rowsPage'; query: RowsTableQuery; page: RowsTablePage }
+  /** The votes of the row the reader points at in the rows table; null when the row is unknown. */
+  | { type: 'rowPeek'; row: number; votes: RowVotes | null };
 
 export type PanelToHost =
   /** choice: the map the panel showed before a reload (from its saved state), for the host to draw again. */
@@ -67,7 +71,12 @@ export type PanelToHost =
   | { type: 'cancelSweep' }
   | { type: 'sweepRefit'; featuresPerSplit: number }
   /** The panel's button for "Save a Report of This Fit…". */
-  | { type: 'saveReport' };
+  | { type: 'saveReport' }
+  | { type: 'rowsPage'; request: RowsTableRequest }
+  /** The rows table's pointer or focus rests on a row: its votes, without changing the selection. */
+  | { type: 'peekRow'; row: number }
+  /** Rows selected in the rows table (at most LIMITS.selectedRows) and how many in all, for the disagreement view. */
+  | { type: 'selectRows'; rows: number[]; selected: number };
 
 /** What the panel keeps in getState/setState; the host's serializer may read `dataset` from it. */
 export interface PanelState {

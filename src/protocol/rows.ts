@@ -65,4 +65,5 @@ export interface SuspectRow {
 }
 
 // The rows table's page requests and replies; their shapes live in core beside the model that answers them.
+export { MAX_PAGE as ROWS_PAGE_MAX } from '../core/summary/rows-table-types';
 export type { RowsTablePage, RowsTableQuery, RowsTableRequest, RowsTableRow, RowsTableSortKey } from '../core/summary/rows-table-types';

@@ -9,6 +9,7 @@
 import { outOfBagTrees } from './bootstrap';
 import { doubtfulByMargin, doubtfulByResidual, type Doubt } from './doubtful';
 import type { Task } from './params';
+import type { RowResults } from './oob';
 import type { Membership, Prediction } from './predict';
 
 export interface ClassTally {
@@ -170,28 +171,43 @@ export class RowVotes {
    * in `trainRows` (table rows, in training order). Empty without a membership.
    */
   doubtful(trainRows: Int32Array): Doubt[] {
-    const oob = this.prediction.oob;
-    if (!this.membership || !oob) return [];
-    const truth = Float64Array.from(trainRows, (r) => (this.truth ? this.truth[r] : NaN));
-    if (this.task === 'regression') return doubtfulByResidual(truth, Float64Array.from(trainRows, (r) => oob.predicted[r])).rows;
-    // The margins alone, one pass over the trees per row: the full answers would cost far more on a large table.
-    const m = this.membership;
+    const r = this.trainingResults(trainRows);
+    if (!this.membership || !this.prediction.oob) return [];
+    return this.task === 'regression' ? doubtfulByResidual(r.truth, r.oobValue!).rows : doubtfulByMargin(r.margin!);
+  }
+
+  /**
+   * The training rows' out-of-bag answers in the fit's own shape (oob.ts), so the panel's rows table reads a
+   * scored session exactly as it would a fit. Without a membership no tree is out-of-bag for any row.
+   */
+  trainingResults(trainRows: Int32Array): RowResults {
+    const n = trainRows.length;
     const K = this.K;
+    const truth = Float64Array.from(trainRows, (r) => (this.truth ? this.truth[r] : NaN));
+    const oob = this.membership ? this.prediction.oob : undefined;
+    const oobTrees = Int32Array.from(trainRows, (r) => (oob ? oob.trees[r] : 0));
+    if (this.task === 'regression') {
+      return { count: n, truth, oobTrees, oobValue: Float64Array.from(trainRows, (r) => (oob ? oob.predicted[r] : NaN)) };
+    }
+    const oobProba = new Float64Array(n * K);
+    if (oob?.proba) trainRows.forEach((r, i) => oobProba.set(oob.proba!.subarray(r * K, r * K + K), i * K));
+    // The margins count hard votes, one pass over the trees per row: the full answers would cost far more on a large table.
+    const m = this.membership;
     const counts = new Int32Array(K);
     const margin = Float64Array.from(trainRows, (r, k) => {
-      const pos = m.trainPos[r];
+      const pos = m && oob ? m.trainPos[r] : -1;
       if (pos < 0) return NaN;
       counts.fill(0);
       let trees = 0;
       for (let t = 0; t < this.trees; t++) {
-        if (m.inBag[t * m.trainCount + pos] !== 0) continue;
+        if (m!.inBag[t * m!.trainCount + pos] !== 0) continue;
         const c = this.vote(t, r);
         if (c >= 0 && c < K) counts[c]++;
         trees++;
       }
       return voteMargin(counts, truth[k], trees);
     });
-    return doubtfulByMargin(margin);
+    return { count: n, truth, oobTrees, oobProba, margin };
   }
 
   tally(r: number, trees: readonly number[]): VoteTally {

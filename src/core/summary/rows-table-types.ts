@@ -45,3 +45,6 @@ export interface RowsTablePage {
   readonly offset: number;
   readonly rows: readonly RowsTableRow[];
 }
+
+/** Largest page handed out at once: a screenful many times over, never the whole of a large file. */
+export const MAX_PAGE = 500;

@@ -3,10 +3,9 @@
 
 import { doubtfulByResidual } from '../forest/doubtful';
 import type { RowResults } from '../forest/oob';
-import type { RowsTablePage, RowsTableQuery, RowsTableRequest, RowsTableRow } from './rows-table-types';
+import { MAX_PAGE, type RowsTablePage, type RowsTableQuery, type RowsTableRequest, type RowsTableRow } from './rows-table-types';
 
-/** Largest page handed out at once: a screenful many times over, never the whole of a large file. */
-export const MAX_PAGE = 500;
+export { MAX_PAGE };
 
 export interface RowsTableSource {
   readonly rows: RowResults;

@@ -19,6 +19,7 @@ import type { ForestSession } from '../session/session';
 import { intervalsReady } from '../session/rowText';
 import { ExplainSender, type Shown } from './explainSender';
 import { panelHtml } from './html';
+import { answerRows } from './rowsSender';
 import { PANEL_VIEW_TYPE_ID } from './viewType';
 
 export const PANEL_VIEW_TYPE = PANEL_VIEW_TYPE_ID;
@@ -143,15 +144,15 @@ export class PanelHost implements vscode.Disposable {
   }
 
   /** Shows rows' tree votes in the panel, marks them on the map, and charts the first one's contributions. */
-  showRows(dataRows: number[]): void {
+  showRows(dataRows: number[], selected = dataRows.length): void {
     const s = this.ctx.session;
     if (!s) return;
     const rows = dataRows.slice(0, LIMITS.selectedRows);
     if (this.shown?.session === s) {
       this.shown.rows = rows;
-      this.shown.selected = dataRows.length;
+      this.shown.selected = selected;
     }
-    this.postRows(s, rows, dataRows.length);
+    this.postRows(s, rows, selected);
     this.send(s, { type: 'highlight', rows });
     if (rows.length > 0) void this.guard(this.explain.contributions(rows[0]));
   }
@@ -250,6 +251,13 @@ export class PanelHost implements vscode.Disposable {
           break;
         case 'saveReport':
           await vscode.commands.executeCommand('copse.saveReport');
+          break;
+        case 'rowsPage':
+        case 'peekRow':
+          if (this.ctx.session) this.send(this.ctx.session, answerRows(this.ctx.session, msg, this.ctx.settings().explain.intervalLevel));
+          break;
+        case 'selectRows':
+          this.showRows(msg.rows, msg.selected);
           break;
       }
     } catch (e) {
