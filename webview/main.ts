@@ -28,6 +28,7 @@ import { RankingView } from './sections/evaluation';
 import { ImportanceView } from './sections/importance';
 import { SweepView } from './sections/sweep';
 import { SummaryView } from './sections/summary';
+import { RowsTableView } from './sections/rows-table';
 import { SuspectsView } from './sections/suspects';
 import { VotesView } from './sections/votes';
 import { onThemeChange, readTheme, type Theme } from './theme';
@@ -73,6 +74,13 @@ const suspectsView = new SuspectsView((row) => post({ type: 'revealRow', row }))
 const rankingView = new RankingView();
 const diagnosticsView = new DiagnosticsView();
 const cvView = new CrossValidationPanel();
+const rowsView = new RowsTableView({
+  page: (request) => post({ type: 'rowsPage', request }),
+  peek: (row) => post({ type: 'peekRow', row }),
+  select: (rows, selected) => post({ type: 'selectRows', rows, selected }),
+  reveal: (row) => post({ type: 'revealRow', row }),
+  explain: (row) => post({ type: 'explainRow', row }),
+});
 
 const title = h('h1', {}, 'Copse');
 // The same file `copse fit --report` writes, for the fit on show; the host asks where to save it.
@@ -124,6 +132,7 @@ function build(): void {
       section('votes-section', 'Tree votes on the selected rows', votesView.root),
       section('contributions-section', 'What moved this row’s prediction', contributionsView.root),
       section('suspects-section', 'Rows the forest doubts', suspectsView.root),
+      section('rows-section', 'Every training row', rowsView.root),
     ),
   );
 }
@@ -136,6 +145,7 @@ function applyTheme(): void {
   summaryView.setTheme(theme);
   votesView.setTheme(theme);
   suspectsView.setTheme(theme);
+  rowsView.setTheme(theme);
   contributionsView.setTheme(theme);
   dependenceView.setTheme(theme);
   sweepView.setTheme(theme);
@@ -165,6 +175,7 @@ function showSummary(s: FitSummary): void {
   matrixView.setSummary(s);
   votesView.setSummary(s);
   suspectsView.setSummary(s);
+  rowsView.setSummary(s);
   contributionsView.setSummary(s);
   dependenceView.setSummary(s);
   rankingView.setSummary(s);
@@ -239,6 +250,13 @@ function handle(msg: HostToPanel): void {
       return;
     case 'sweep':
       sweepView.set(msg);
+      return;
+    // The rows table asks again for what is in sight whenever the panel comes back, so pages are not kept in state.
+    case 'rowsPage':
+      rowsView.setPage(msg.query, msg.page);
+      return;
+    case 'rowPeek':
+      rowsView.setPeek(msg.votes);
       return;
     case 'status':
       statusText.textContent = msg.text;
