@@ -77,7 +77,7 @@ export class RowsTableView {
       h('div', { class: 'rows-headgroup', attrs: { role: 'rowgroup' } }, this.head),
       this.body,
     );
-    this.peekView = new VotesView(hooks.reveal, hooks.explain);
+    this.peekView = new VotesView((row) => hooks.reveal(row), (row) => hooks.explain(row));
     // The same drawing as the disagreement view, under its own names, so a test or a reader finds each once.
     for (const el of [this.peekView.root, ...this.peekView.root.querySelectorAll<HTMLElement>('[data-testid]')]) el.dataset.testid = `peek-${el.dataset.testid}`;
     this.peekBox = h('div', { class: 'rows-peek hidden', testid: 'rows-peek' }, h('h3', {}, 'Votes of the row pointed at'), this.peekView.root);
