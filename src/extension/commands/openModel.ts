@@ -111,7 +111,7 @@ async function openModelCommand(host: Host, uri?: vscode.Uri): Promise<void> {
       `Opened ${modelPath} (${forest.trees.length} trees predicting ${forest.schema.target.name}) against ${loaded.path}: ` +
         `${loaded.load.table.rowCount} rows read in ${Math.round(loaded.seconds * 1000)} ms, scored in ${Math.round(performance.now() - started)} ms.`,
     );
-    await showCsv(loaded.path, loaded.bytes);
+    await showCsv(loaded.path, loaded.bytes, loaded.load.format);
     panel.reveal(true);
   });
 }

@@ -236,7 +236,7 @@ async function runFit(ctx: CopseContext, panel: PanelHost, loaded: LoadedCsv, ch
     },
   ));
   await ctx.whileBusy(work);
-  await showCsv(loaded.path, loaded.bytes);
+  await showCsv(loaded.path, loaded.bytes, loaded.load.format);
   panel.reveal(true);
 }
 
