@@ -220,12 +220,14 @@ describe('extension explanations without the fit in memory', function () {
     const text = readFileSync(file, 'utf8');
     const load = await loadCsvText(text);
     const report = await fitForest(load.table, { target: 'y', params: { trees: 8, seed: 2, minLeaf: 5 }, workers: 2 });
+    // The summary is the fit's, made from its own training table; the session shows the forest against `t`.
+    const fitSummary = summaryFor(report, { table: load.table, rowsRead: load.rowsRead }, 'f');
     const make = async (t: typeof load) =>
       ForestSession.create({
         forest: report.forest,
         csv: csvOf(file, t),
         text: () => text,
-        summary: summaryFor(report, { table: t.table, rowsRead: t.rowsRead }, 'f'),
+        summary: fitSummary,
         scorer: new Scorer(report.forest),
         explainer: (setup) => new ExplainClient(setup),
         quantiles: { from: 'table' },
