@@ -24,8 +24,8 @@ function copse(args: string[], cwd: string, stdio?: StdioOptions): Ran {
 }
 
 /** The same without blocking this process, for a reader on a FIFO or a signal sent midway. */
-function started(args: string[], cwd: string) {
-  const child = spawn(process.execPath, [bin, ...args], { cwd });
+function started(args: string[], cwd: string, env?: NodeJS.ProcessEnv) {
+  const child = spawn(process.execPath, [bin, ...args], { cwd, env: env && { ...process.env, ...env } });
   let stdout = '';
   let stderr = '';
   child.stdout.on('data', (d: Buffer) => (stdout += d.toString()));
@@ -200,4 +200,18 @@ describe('copse outputs: links, devices, FIFOs, standard output and signals', fu
       assert.deepEqual(readdirSync(work), [], 'no temporary file and no model');
     });
   }
+
+  it('removes the spooled copy of piped input on SIGINT, while the table is still arriving', async () => {
+    const spoolDir = mkdtempSync(path.join(tmpdir(), 'copse-spool-'));
+    const fit = started(['fit', '-', '--target', 'outcome', '--trees', '10'], dir, { TMPDIR: spoolDir });
+    // Half the table, and the pipe left open: the command is reading it when the signal comes.
+    const text = readFileSync(kites, 'utf8');
+    fit.child.stdin.write(text.slice(0, text.length >> 1));
+    for (let i = 0; i < 1200 && readdirSync(spoolDir).length === 0 && fit.child.exitCode === null; i++) await sleep(50);
+    assert.equal(readdirSync(spoolDir).length, 1, 'the spooled copy appeared');
+    fit.child.kill('SIGINT');
+    const r = await fit.done;
+    assert.equal(r.code, 130, r.stderr);
+    assert.deepEqual(readdirSync(spoolDir), [], 'the spooled copy is gone');
+  });
 });
