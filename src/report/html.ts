@@ -6,6 +6,7 @@ import { formatCount, formatFixed, formatNumber } from '../core/format';
 import type { FitSummary } from '../core/summary/types';
 import { CLASS_HEX } from '../protocol/palette';
 import { esc } from './escape';
+import { evaluationSection } from './evaluation';
 import { mapSvg, rampStrip } from './maps';
 import { cautionsSection, fittedSection, scoresSection, section, suspectsSection } from './sections';
 import { STYLE } from './style';
@@ -31,8 +32,7 @@ export function renderReport(d: ReportData): string {
     fittedSection(d),
     cautionsSection(s),
     scoresSection(s),
-    // Issue 13's evaluation curves (ROC, precision-recall, calibration) belong here, after the scores they refine,
-    // once core puts them in the summary: evaluationSection(d) beside scoresSection.
+    evaluationSection(s),
     curveSection(s),
     importanceSection(d),
     mapsSection(d),

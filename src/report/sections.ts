@@ -76,40 +76,75 @@ export function cautionsSection(s: FitSummary): string {
   return section('cautions', 'Worth checking', items ? `<ul class="plain" data-cautions="${s.cautions.length}">${items}</ul>` : '<p class="muted">Nothing found to check about the data this fit learned from.</p>');
 }
 
-function scoreRows(s: FitSummary): Array<[string, (x: ScoresSummary) => string]> {
+type Value = number | Readonly<Record<string, number>> | undefined;
+
+/** A score per row of the table: its key in the scores (and in cv.mean / cv.sd) and how one number reads. */
+function scoreRows(s: FitSummary): Array<[string, keyof ScoresSummary, (v: number) => string]> {
   if (s.task === 'classification') {
     return [
-      ['Accuracy', (x) => formatShare(x.accuracy)],
-      ['Balanced accuracy', (x) => formatShare(x.balancedAccuracy)],
-      ['Log loss', (x) => formatFixed(x.logLoss, 3)],
-      ['Rows scored', (x) => formatCount(x.rows)],
+      ['Accuracy', 'accuracy', (v) => formatShare(v)],
+      ['Balanced accuracy', 'balancedAccuracy', (v) => formatShare(v)],
+      ['Log loss', 'logLoss', (v) => formatFixed(v, 3)],
+      [s.classes.length > 2 ? 'ROC area (AUC, mean over classes)' : 'ROC area (AUC)', 'auc', (v) => formatFixed(v, 3)],
+      ['Average precision', 'averagePrecision', (v) => formatFixed(v, 3)],
+      ['Brier score', 'brier', (v) => formatFixed(v, 4)],
+      ['Rows scored', 'rows', (v) => formatCount(v)],
     ];
   }
   return [
-    ['R²', (x) => formatFixed(x.r2, 3)],
-    ['Mean absolute error', (x) => formatNumber(x.mae)],
-    ['Root mean squared error', (x) => formatNumber(x.rmse)],
-    ['Rows scored', (x) => formatCount(x.rows)],
+    ['R²', 'r2', (v) => formatFixed(v, 3)],
+    ['Mean absolute error', 'mae', (v) => formatNumber(v)],
+    ['Root mean squared error', 'rmse', (v) => formatNumber(v)],
+    ['Rows scored', 'rows', (v) => formatCount(v)],
   ];
 }
 
+/** One number as it reads, or one per class (average precision of three or more classes), with an optional spread. */
+function valueText(v: Value, format: (v: number) => string, sd?: Value): string {
+  if (v === undefined) return 'n/a';
+  const spread = (x: Value) => (typeof x === 'number' ? ` ± ${esc(format(x))}` : '');
+  if (typeof v === 'number') return `${esc(format(v))}${spread(sd)}`;
+  const by = (x: Value, k: string) => (x && typeof x === 'object' ? x[k] : undefined);
+  return Object.keys(v)
+    .map((k) => `<span class="per-class">${esc(k)} ${esc(format(v[k]))}${spread(by(sd, k))}</span>`)
+    .join(' ');
+}
+
+interface Column {
+  readonly title: string;
+  readonly id: string;
+  readonly get: (key: keyof ScoresSummary) => Value;
+  readonly sd?: (key: keyof ScoresSummary) => Value;
+}
+
 export function scoresSection(s: FitSummary): string {
-  const cols: Array<{ title: string; scores: ScoresSummary | null; id: string }> = [{ title: 'Out-of-bag', scores: s.oob, id: 'oob' }];
-  if (s.test) cols.push({ title: s.testFrom === 'test' ? 'Test file' : s.testFrom === 'file' ? 'This file' : 'Held-out rows', scores: s.test, id: 'test' });
-  const head = `<tr><th></th>${cols.map((c) => `<th scope="col" class="num">${c.title}</th>`).join('')}</tr>`;
+  const of = (x: ScoresSummary | null | undefined) => (key: keyof ScoresSummary) => (x ? (x[key] as Value) : undefined);
+  const cols: Column[] = [{ title: 'Out-of-bag', id: 'oob', get: of(s.oob) }];
+  if (s.test) cols.push({ title: s.testFrom === 'test' ? 'Test file' : s.testFrom === 'file' ? 'This file' : 'Held-out rows', id: 'test', get: of(s.test) });
+  const cv = s.cv;
+  if (cv) {
+    const times = cv.repeats > 1 ? ` × ${cv.repeats}` : '';
+    cols.push({ title: `Cross-validation (${cv.foldCount} folds${times}, mean ± sd)`, id: 'cv', get: (k) => cv.mean[k], sd: (k) => cv.sd[k] });
+  }
+  const head = `<tr><th></th>${cols.map((c) => `<th scope="col" class="num">${esc(c.title)}</th>`).join('')}</tr>`;
   const body = scoreRows(s)
-    .map(([name, get], i) => {
+    .filter(([, key]) => key === 'rows' || cols.some((c) => c.get(key) !== undefined))
+    .map(([name, key, format], i) => {
       const cells = cols.map((c) => {
-        if (!c.scores) return '<td class="num">n/a</td>';
-        if (i > 0) return `<td class="num">${esc(get(c.scores))}</td>`;
-        const v = s.task === 'classification' ? c.scores.accuracy : c.scores.r2;
-        return `<td class="num"><span class="headline" data-score="${c.id}" data-value="${esc(String(v))}">${esc(formatHeadline(s.task, v))}</span></td>`;
+        if (key === 'rows' && c.id === 'cv' && cv) return `<td class="num">${cv.folds.length} folds</td>`;
+        const v = c.get(key);
+        if (i > 0 || typeof v !== 'number') return `<td class="num">${valueText(v, format, c.sd?.(key))}</td>`;
+        const sd = c.sd?.(key);
+        const spread = typeof sd === 'number' ? ` ± ${esc(format(sd))}` : '';
+        return `<td class="num"><span class="headline" data-score="${c.id}" data-value="${esc(String(v))}">${esc(formatHeadline(s.task, v))}</span>${spread}</td>`;
       });
       return `<tr><th scope="row">${name}</th>${cells.join('')}</tr>`;
     })
     .join('');
   let out = `<table class="scores"><thead>${head}</thead><tbody>${body}</tbody></table>\n`;
   if (!s.oob) out += `<p class="muted" data-unavailable="oob">${esc(s.oobUnavailable ?? 'No out-of-bag score: every row was in every tree’s sample.')}</p>\n`;
+  if (cv) out += `<p class="muted" data-cv="${cv.foldCount}">Cross-validation: ${cv.foldCount} forests, each fitted with the same settings on all but one ${cv.stratified ? 'class-balanced ' : ''}fold and scored on that fold${cv.repeats > 1 ? `, repeated ${cv.repeats} times with other folds` : ''}; the spread is the standard deviation over the ${cv.folds.length} folds.</p>\n`;
+  if (s.task === 'classification' && s.classes.length === 2 && (s.oob ?? s.test)?.positiveClass) out += `<p class="muted">ROC area, average precision and Brier score are read for the class ${esc((s.oob ?? s.test)!.positiveClass!)}.</p>\n`;
   const which = s.oob ?? s.test;
   const whichName = s.oob ? 'out-of-bag' : s.testFrom === 'test' ? 'test file' : 'held-out';
   if (which?.confusion) out += confusion(which.confusion, whichName);

@@ -35,6 +35,12 @@ svg .axis, svg .whisker { stroke: var(--muted); stroke-width: 1; fill: none; }
 svg .grid { stroke: var(--grid); stroke-width: 1; }
 svg .bar { fill: var(--accent); }
 svg .series { fill: none; stroke-width: 2; }
+svg .ref { fill: none; stroke: var(--muted); stroke-width: 1; stroke-dasharray: 4 3; }
+svg .hist { fill: var(--accent); fill-opacity: 0.55; }
+svg .dots circle { fill-opacity: 0.55; }
+#evaluation figure { width: min-content; }
+#evaluation .legend li { white-space: nowrap; }
+.per-class { display: inline-block; white-space: nowrap; margin-left: 6px; }
 svg .frame { fill: none; stroke: var(--rule); }
 svg .cells { image-rendering: pixelated; image-rendering: crisp-edges; }
 svg .points circle { stroke: var(--bg); stroke-width: 0.8; }
