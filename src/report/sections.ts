@@ -133,7 +133,9 @@ export function scoresSection(s: FitSummary): string {
       const cells = cols.map((c) => {
         if (key === 'rows' && c.id === 'cv' && cv) return `<td class="num">${cv.folds.length} folds</td>`;
         const v = c.get(key);
-        if (i > 0 || typeof v !== 'number') return `<td class="num">${valueText(v, format, c.sd?.(key))}</td>`;
+        // The exact figure rides along, so a test can hold the report to the summary's own number.
+        const exact = typeof v === 'number' ? ` data-of="${c.id}" data-key="${key}" data-value="${esc(String(v))}"` : '';
+        if (i > 0 || typeof v !== 'number') return `<td class="num"${exact}>${valueText(v, format, c.sd?.(key))}</td>`;
         const sd = c.sd?.(key);
         const spread = typeof sd === 'number' ? ` ± ${esc(format(sd))}` : '';
         return `<td class="num"><span class="headline" data-score="${c.id}" data-value="${esc(String(v))}">${esc(formatHeadline(s.task, v))}</span>${spread}</td>`;
