@@ -1,6 +1,7 @@
 // The report as a reader opens it: headless Chromium (Debian's, as the panel tests use) loads the file from disk
 // in light and dark, and in print layout. It must render without a console error or a single request beyond the
-// file itself, with the region map (its grid image decoded), the importance charts and the error curve on screen.
+// file itself, with the region map (its grid image decoded), the importance charts, the error curve and the
+// evaluation pictures on screen.
 // Screenshots go to the e2e artifacts folder (.artifacts/e2e/report-render) to be looked at.
 import * as assert from 'node:assert/strict';
 import { spawnSync } from 'node:child_process';
@@ -11,9 +12,10 @@ import { artifactsDir, CHROMIUM_PATH } from '../e2e/harness/paths';
 
 const root = path.join(__dirname, '..', '..', '..');
 
+// Held-out rows and folds, so the evaluation pictures for both sources and the cross-validation column are drawn.
 const FILES = [
-  { name: 'kites', data: 'demo/kite-flights.csv', target: 'outcome' },
-  { name: 'loaves', data: 'demo/loaf-rise.csv', target: 'rise_mm' },
+  { name: 'kites', data: 'demo/kite-flights.csv', target: 'outcome', extra: ['--holdout', '0.2', '--folds', '3'], evaluation: 'roc' },
+  { name: 'loaves', data: 'demo/loaf-rise.csv', target: 'rise_mm', extra: ['--folds', '3'], evaluation: 'predicted-actual' },
 ];
 
 async function open(browser: Browser, file: string, scheme: 'light' | 'dark'): Promise<{ page: Page; problems: string[] }> {
@@ -46,7 +48,7 @@ describe('shareable report in a browser', function () {
     if (!fs.existsSync(CHROMIUM_PATH)) throw new Error(`no Chromium at ${CHROMIUM_PATH}; run: bash scripts/e2e/setup.sh`);
     for (const f of FILES) {
       const out = path.join(shots, `${f.name}.html`);
-      const r = spawnSync(process.execPath, [path.join(root, 'bin/copse.js'), 'fit', path.join(root, f.data), '--target', f.target, '--report', out], { encoding: 'utf8' });
+      const r = spawnSync(process.execPath, [path.join(root, 'bin/copse.js'), 'fit', path.join(root, f.data), '--target', f.target, '--report', out, ...f.extra], { encoding: 'utf8' });
       assert.equal(r.status, 0, r.stderr);
       // The issue's bound for the demo files; maps are grids and points a sample, so size does not grow with rows.
       assert.ok(fs.statSync(out).size < 2 * 1024 * 1024, `${f.name}: ${fs.statSync(out).size} bytes`);
@@ -64,6 +66,8 @@ describe('shareable report in a browser', function () {
         await visible(page, '[data-chart="region-map"] svg');
         await visible(page, '[data-chart="importance-impurity"] svg');
         await visible(page, '[data-chart="curve"] svg');
+        await visible(page, `[data-chart="${f.evaluation}"] svg`);
+        if (f.evaluation === 'roc') await visible(page, '[data-chart="calibration"] svg');
         // The grid is a PNG inside the SVG: it must decode, at one pixel per cell (the map's one numeric axis at least).
         // Browser-side code is a string: this file is compiled without the DOM library.
         const size = await page.evaluate<number[]>(`(async () => {
@@ -78,6 +82,7 @@ describe('shareable report in a browser', function () {
         const bg = await page.evaluate<string>('getComputedStyle(document.body).backgroundColor');
         assert.equal(bg, scheme === 'light' ? 'rgb(255, 255, 255)' : 'rgb(30, 30, 30)');
         await page.screenshot({ path: path.join(shots, `${f.name}-${scheme}.png`), fullPage: true });
+        await page.locator('#evaluation').screenshot({ path: path.join(shots, `${f.name}-evaluation-${scheme}.png`) });
         if (scheme === 'light') {
           await page.emulateMedia({ media: 'print' });
           // Print drops the cards' boxes for a rule above each section.
