@@ -63,7 +63,7 @@ describe('report: evaluation scores and curves', function () {
     assert.equal(cell(html, 'oob', 'averagePrecision'), oob.averagePrecision);
     assert.equal(cell(html, 'oob', 'brier'), oob.brier);
     assert.equal(cell(html, 'test', 'auc'), json.test!.auc);
-    assert.ok(html.includes(`ROC curve, out-of-bag: area ${formatFixed(oob.auc!, 3)}`), 'the area in the caption');
+    assert.ok(html.includes(`ROC curve, out-of-bag: area ${formatFixed(oob.auc, 3)}`), 'the area in the caption');
     // Cross-validation: the column, its fold count, and the mean and spread --json reports.
     const cv = json.cv!;
     assert.equal(cell(html, 'cv', 'accuracy'), cv.mean.accuracy);
@@ -84,7 +84,7 @@ describe('report: evaluation scores and curves', function () {
   it('three classes: one line per class, a calibration picture per class; no cross-validation column without --folds', () => {
     const { html, json } = fit(kites, 'outcome', path.join(dir, 'three.html'));
     assert.equal(cell(html, 'oob', 'auc'), json.oob!.auc);
-    assert.ok(html.includes(`mean area ${formatFixed(json.oob!.auc!, 3)}`));
+    assert.ok(html.includes(`mean area ${formatFixed(json.oob!.auc, 3)}`));
     assert.equal(figures(html, 'roc').length, 1);
     assert.equal(lines(figures(html, 'roc')[0]), 3);
     assert.equal(lines(figures(html, 'precision-recall')[0]), 3);
