@@ -148,10 +148,11 @@ export class PanelHost implements vscode.Disposable {
     const s = this.ctx.session;
     if (!s) return;
     const rows = dataRows.slice(0, LIMITS.selectedRows);
-    if (this.shown?.session === s) {
-      this.shown.rows = rows;
-      this.shown.selected = selected;
-    }
+    // Kept even when the panel was closed a moment ago: a freshly opened page drops what was queued
+    // before it said 'ready' and is sent everything from here instead, these rows included.
+    const shown = this.shownFor(s);
+    shown.rows = rows;
+    shown.selected = selected;
     this.postRows(s, rows, selected);
     this.send(s, { type: 'highlight', rows });
     if (rows.length > 0) void this.guard(this.explain.contributions(rows[0]));
