@@ -10,7 +10,7 @@ import * as assert from 'assert';
 import * as fs from 'fs';
 import * as os from 'os';
 import * as path from 'path';
-import type { Page } from 'playwright-core';
+import type { FrameLocator, Locator, Page } from 'playwright-core';
 import { EXTENSION_ID, waitForSummary } from './copse/panel';
 import { writeApng } from './harness/apng';
 import { packagedVsix, PackagedVsix } from './harness/package';
@@ -103,22 +103,38 @@ describe('Copse first steps: walkthrough, keybindings, keyboard-only panel, READ
     const panel = wb!.webview({ extensionId: EXTENSION_ID });
     await waitForSummary(panel, 'kite-flights.csv', 'outcome');
     await panel.locator('[data-testid=region-map][data-grid]').waitFor({ timeout: 60_000 });
+    // Close the panel first: with it open, moving the cursor alone lists the row, and that would pass for the key.
+    await wb!.activateTab('Copse');
+    await wb!.runCommand('View: Close Editor');
+    const copseTabs = wb!.page.locator('.tabs-container .tab').filter({ has: wb!.page.locator('.label-name', { hasText: /^Copse$/ }) });
+    await waitFor(async () => (await copseTabs.count()) === 0, 'the panel closes');
     await wb!.activateTab('kite-flights.csv');
     await wb!.page.keyboard.press('Control+G');
     await wb!.page.keyboard.type(String(PLANTED + 1));
     await wb!.page.keyboard.press('Enter');
-    // Known gap: moving the cursor already lists its row in the open panel, so this does not tell the key from
-    // that; with the panel closed first, the key did not bring the row back (open, see the h-home18 report).
-    await sleep(500);
+    await sleep(1_000);
+    assert.strictEqual(await copseTabs.count(), 0, 'moving the cursor does not open the panel by itself');
     await wb!.page.keyboard.press('Control+Shift+Alt+R');
-    await panel.locator(`[data-testid=disagreement] [data-row="${PLANTED}"]`).waitFor({ timeout: 30_000 });
-    pictures['disagreement'] = await panel.locator('[data-testid=votes-section]').screenshot();
+    await waitFor(async () => (await copseTabs.count()) === 1, 'the key opens the panel');
+    const rowVotes = panel.locator(`[data-testid=disagreement] .vote-row[data-row="${PLANTED}"]`);
+    await rowVotes.waitFor({ timeout: 60_000 });
+    assert.strictEqual(await panel.locator('[data-testid=disagreement] .vote-row').count(), 1, 'only the row under the cursor is listed');
+    assert.strictEqual(await rowVotes.locator('[data-testid=vote-strip]').getAttribute('data-trees'), '50', 'one vote per tree of the fit');
+    assert.match(await rowVotes.innerText(), new RegExp(`Row ${PLANTED}\\b`));
+    // The README's picture: the pointer parked where it draws no tooltip, the section scrolled fully into view.
+    const votes = panel.locator('[data-testid=votes-section]');
+    await votes.scrollIntoViewIfNeeded();
+    await parkMouse(wb!.page, votes);
+    pictures['disagreement'] = await votes.screenshot();
   });
 
   it('(4) works the map pickers and the doubtful rows from the keyboard alone', async function () {
     const panel = wb!.webview({ extensionId: EXTENSION_ID });
     const frame = await wb!.webviewFrame({ extensionId: EXTENSION_ID });
     await wb!.runCommand('Copse: Show the Panel');
+    // The README's map: the default pair as a reader first sees it, taken before the keyboard changes it.
+    await panel.locator('[data-testid=region-map][data-grid]').waitFor({ timeout: 60_000 });
+    pictures['region-map'] = await mapPicture(wb!.page, panel);
     const before = (await panel.locator('[data-testid=region-map]').getAttribute('aria-label')) ?? '';
     const focused = () => frame.evaluate<string>(`document.activeElement?.dataset?.testid ?? ''`);
     // Tab from the top of the panel to the first map picker, as a keyboard user would.
@@ -134,8 +150,6 @@ describe('Copse first steps: walkthrough, keybindings, keyboard-only panel, READ
     await wb!.page.keyboard.press('ArrowDown');
     await wb!.page.keyboard.press('Enter');
     await waitFor(async () => ((await panel.locator('[data-testid=region-map]').getAttribute('aria-label')) ?? '') !== before, 'the map redraws for the feature picked with the keyboard');
-    await wb!.page.mouse.move(600, 400);
-    pictures['region-map'] = await panel.locator('[data-testid=map-section]').screenshot();
     // On to the doubtful rows: Tab until a row's button has focus, then Enter shows it in the editor.
     let row = '';
     for (let i = 0; i < 200 && !row; i++) {
@@ -190,6 +204,31 @@ describe('Copse first steps: walkthrough, keybindings, keyboard-only panel, READ
     console.log(`      README pictures: ${sizes.join(', ')}`);
   });
 });
+
+/**
+ * Moves the pointer onto a panel section's plain heading, where neither the workbench nor the panel draws a
+ * tooltip or a hover mark (the pointer itself is not in the picture).
+ */
+async function parkMouse(page: Page, section: Locator): Promise<void> {
+  const box = await section.locator('h2').first().boundingBox();
+  if (!box) throw new Error('the section heading is not on screen');
+  await page.mouse.move(box.x + box.width - 4, box.y + box.height / 2);
+  await sleep(800);
+}
+
+/**
+ * The map section from its title down to the legend: the whole section is taller than the panel's view, and
+ * a screenshot of it would take the status bar and blank space below the webview with it.
+ */
+async function mapPicture(page: Page, panel: FrameLocator): Promise<Buffer> {
+  const section = panel.locator('[data-testid=map-section]');
+  await section.evaluate((el) => el.scrollIntoView({ block: 'start' }));
+  await parkMouse(page, section);
+  const top = await section.boundingBox();
+  const bottom = await panel.locator('[data-testid=region-legend]').boundingBox();
+  if (!top || !bottom) throw new Error('the map section is not on screen');
+  return page.screenshot({ clip: { x: top.x, y: top.y, width: top.width, height: bottom.y + bottom.height + 10 - top.y } });
+}
 
 async function shot(page: Page): Promise<Buffer> {
   return page.screenshot();
