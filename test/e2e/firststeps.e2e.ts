@@ -163,7 +163,13 @@ describe('Copse first steps: walkthrough, keybindings, keyboard-only panel, READ
   });
 
   it('(5) takes the README\'s hover and its short capture: right-click, fit, hover', async function () {
+    // The capture starts as a new user would: no panel yet, only the file.
+    await wb!.activateTab('Copse');
+    await wb!.runCommand('View: Close Editor');
     await wb!.openFile(KITE, { pin: true });
+    // The tab shows before its text is drawn; a first frame of a blank editor would say nothing.
+    await wb!.page.locator('.editor-group-container.active .monaco-editor .view-lines .view-line', { hasText: 'KF-' }).first().waitFor({ timeout: 20_000 });
+    await sleep(500);
     frames.push(await shot(wb!.page));
     await wb!.revealInExplorer(KITE);
     const row = wb!.page.locator('.explorer-folders-view .monaco-list-row', { hasText: 'kite-flights.csv' }).first();
@@ -227,7 +233,7 @@ async function mapPicture(page: Page, panel: FrameLocator): Promise<Buffer> {
   const top = await section.boundingBox();
   const bottom = await panel.locator('[data-testid=region-legend]').boundingBox();
   if (!top || !bottom) throw new Error('the map section is not on screen');
-  return page.screenshot({ clip: { x: top.x, y: top.y, width: top.width, height: bottom.y + bottom.height + 10 - top.y } });
+  return page.screenshot({ clip: { x: top.x, y: top.y, width: top.width, height: bottom.y + bottom.height + 4 - top.y } });
 }
 
 async function shot(page: Page): Promise<Buffer> {
