@@ -228,7 +228,7 @@ async function parkMouse(page: Page, section: Locator): Promise<void> {
  */
 async function mapPicture(page: Page, panel: FrameLocator): Promise<Buffer> {
   const section = panel.locator('[data-testid=map-section]');
-  await section.evaluate((el) => el.scrollIntoView({ block: 'start' }));
+  await section.evaluate((el: { scrollIntoView(options: { block: 'start' }): void }) => el.scrollIntoView({ block: 'start' }));
   await parkMouse(page, section);
   const top = await section.boundingBox();
   const bottom = await panel.locator('[data-testid=region-legend]').boundingBox();
