@@ -17,6 +17,7 @@ import { packagedVsix, PackagedVsix } from './harness/package';
 import { repoRoot } from './harness/paths';
 import { sleep } from './harness/processes';
 import { launchWorkbench, Workbench } from './workbench';
+import { recordFailure } from './copse/failures';
 
 const MODEL = 'pima.xgboost.json';
 const CSV = 'pima.csv';
@@ -53,11 +54,7 @@ describe('Copse on a boosted ensemble: an XGBoost model opened against its CSV',
   });
 
   afterEach(async function () {
-    const test = this.currentTest!;
-    if (test.state === 'failed' && wb) {
-      await wb.screenshot(`failed-${test.title}`).catch(() => undefined);
-      await wb.page.keyboard.press('Escape').catch(() => undefined);
-    }
+    await recordFailure(wb, this.currentTest);
   });
 
   after(async function () {

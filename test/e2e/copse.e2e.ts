@@ -27,6 +27,7 @@ import { packagedVsix, PackagedVsix } from './harness/package';
 import { repoRoot } from './harness/paths';
 import { sleep } from './harness/processes';
 import { launchWorkbench, Notification, Workbench } from './workbench';
+import { recordFailure } from './copse/failures';
 
 // The extension reads its defaults from these settings; the CLI gets the same
 // values as flags, so both grow the same forest.
@@ -93,10 +94,7 @@ describe('Copse in a real workbench, installed from its .vsix', function () {
   afterEach(async function () {
     const test = this.currentTest!;
     durations.push({ title: test.title, ms: test.duration ?? 0, state: test.state ?? '?' });
-    if (test.state === 'failed' && wb) {
-      await wb.screenshot(`failed-${test.title}`).catch(() => undefined);
-      await wb.page.keyboard.press('Escape').catch(() => undefined);
-    }
+    await recordFailure(wb, test);
   });
 
   after(async function () {

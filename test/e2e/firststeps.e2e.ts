@@ -17,6 +17,7 @@ import { packagedVsix, PackagedVsix } from './harness/package';
 import { repoRoot } from './harness/paths';
 import { sleep } from './harness/processes';
 import { launchWorkbench, Workbench } from './workbench';
+import { recordFailure } from './copse/failures';
 
 const KITE = 'demo/kite-flights.csv';
 /** A planted label error of the kite demo (demo/README.md): recorded "crashed", generated "soared". */
@@ -48,11 +49,7 @@ describe('Copse first steps: walkthrough, keybindings, keyboard-only panel, READ
   });
 
   afterEach(async function () {
-    const test = this.currentTest!;
-    if (test.state === 'failed' && wb) {
-      await wb.screenshot(`failed-${test.title}`).catch(() => undefined);
-      await wb.page.keyboard.press('Escape').catch(() => undefined);
-    }
+    await recordFailure(wb, this.currentTest);
   });
 
   after(async function () {

@@ -14,6 +14,7 @@ import { EXTENSION_ID, waitForSummary } from './copse/panel';
 import { packagedVsix, PackagedVsix } from './harness/package';
 import { repoRoot } from './harness/paths';
 import { launchWorkbench, Workbench } from './workbench';
+import { recordFailure } from './copse/failures';
 
 const TREES = 50;
 const SEED = 7;
@@ -56,11 +57,7 @@ describe('Copse report: the editor command writes what the command line writes',
   });
 
   afterEach(async function () {
-    const test = this.currentTest!;
-    if (test.state === 'failed' && wb) {
-      await wb.screenshot(`failed-${test.title}`).catch(() => undefined);
-      await wb.page.keyboard.press('Escape').catch(() => undefined);
-    }
+    await recordFailure(wb, this.currentTest);
   });
 
   after(async function () {

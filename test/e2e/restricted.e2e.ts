@@ -13,6 +13,7 @@ import { EXTENSION_ID, waitForSummary } from './copse/panel';
 import { packagedVsix, PackagedVsix } from './harness/package';
 import { repoRoot } from './harness/paths';
 import { launchWorkbench, Workbench } from './workbench';
+import { recordFailure } from './copse/failures';
 
 const KITE = 'demo/kite-flights.csv';
 const USER_TREES = 12;
@@ -43,7 +44,7 @@ describe('Copse in Restricted Mode (an untrusted folder)', function () {
   });
 
   afterEach(async function () {
-    if (this.currentTest?.state === 'failed' && wb) await wb.screenshot(`failed-${this.currentTest.title}`).catch(() => undefined);
+    await recordFailure(wb, this.currentTest);
   });
 
   after(async function () {

@@ -16,6 +16,7 @@ import { packagedVsix, PackagedVsix } from './harness/package';
 import { repoRoot } from './harness/paths';
 import { sleep } from './harness/processes';
 import { launchWorkbench, Workbench } from './workbench';
+import { recordFailure } from './copse/failures';
 
 const TREES = 50;
 const SEED = 7;
@@ -51,7 +52,7 @@ describe('Copse rows table: a Parquet file\'s rows, sorted, selected and voted o
   });
 
   afterEach(async function () {
-    if (this.currentTest!.state === 'failed' && wb) await wb.screenshot(`failed-${this.currentTest!.title}`).catch(() => undefined);
+    await recordFailure(wb, this.currentTest);
   });
 
   after(async function () {

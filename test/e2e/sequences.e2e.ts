@@ -20,6 +20,7 @@ import { packagedVsix, PackagedVsix } from './harness/package';
 import { repoRoot } from './harness/paths';
 import { sleep } from './harness/processes';
 import { launchWorkbench, Workbench } from './workbench';
+import { recordFailure } from './copse/failures';
 
 const TREES = 50;
 const SEED = 7;
@@ -63,11 +64,7 @@ describe('Copse sequences: two fits in one panel, a planted error, a saved fores
   });
 
   afterEach(async function () {
-    const test = this.currentTest!;
-    if (test.state === 'failed' && wb) {
-      await wb.screenshot(`failed-${test.title}`).catch(() => undefined);
-      await wb.page.keyboard.press('Escape').catch(() => undefined);
-    }
+    await recordFailure(wb, this.currentTest);
   });
 
   after(async function () {
